@@ -1,0 +1,29 @@
+package numeric
+
+// GridReport describes the grid and the work of a run. Lengths in L, times
+// in T. For the 1D problem NY = NZ = 1 and the Y and Z fields are 0.
+type GridReport struct {
+	NX, NY, NZ int     // cells along x (flow), y (transverse, half domain y >= 0), z (depth)
+	Cells      int     // NX*NY*NZ
+	XLength    float64 // domain extent along x from the inlet face
+	YLength    float64 // domain extent along y from the plume axis (half width)
+	ZLength    float64 // domain extent along z from the water table
+	DXMin      float64 // smallest and largest cell sizes along each axis
+	DXMax      float64
+	DYMin      float64
+	DYMax      float64
+	DZMin      float64
+	DZMax      float64
+	// PecletX is the largest grid Peclet number along flow, V dx / Dx.
+	PecletX float64
+	// TimeStep is the largest time step taken; Courant is the largest
+	// V dt / (R dx) that it gives.
+	TimeStep float64
+	Courant  float64
+	// Steps is the number of time steps; CellSteps = Cells * Steps, the work.
+	Steps     int
+	CellSteps float64
+	// SteadyTime is the simulated time at which the steady state was accepted
+	// (0 when no steady state was asked for).
+	SteadyTime float64
+}

@@ -1,0 +1,171 @@
+package plume
+
+import (
+	"math"
+	"sort"
+)
+
+// PeakMethod describes how peaks and first-exceedance times are found; it is
+// reported in Derived.PeakMethod.
+const PeakMethod = "Constant continuous sources rise monotonically toward the steady state, " +
+	"so their peak is the steady state (time null). Otherwise the solution is sampled at 8 " +
+	"log-spaced times per decade from 1e-3 to 1e3 characteristic travel times (and past the " +
+	"release), plus the arrival, release-end and requested times; the largest sample is refined " +
+	"by golden-section search to 1e-9 relative in time. The first exceedance is the root of " +
+	"C(t) = screening level found by Brent's method on the first bracketing pair of samples " +
+	"(monotone sources: a doubling bracket), to 1e-12 relative in time."
+
+// timeline is the sampled history of one receptor: elapsed times tau (d,
+// ascending) and concentrations (mg/L) of the primary method.
+type timeline struct {
+	tau, c []float64
+}
+
+// charTime is the characteristic time of a receptor, d: the retarded
+// advective travel time to it, at least the travel time over alpha_L.
+func (m *model) charTime(p point) float64 {
+	dist := math.Max(p.px, 0)
+	if m.kind == SourceKindInstantaneous {
+		dist = math.Hypot(p.px, p.py)
+	}
+	dist = math.Max(dist, math.Max(m.alpha[0], 1e-3))
+	return m.r * dist / m.v
+}
+
+// sample evaluates f on the scan grid of the peak search.
+func (m *model) sample(f func(float64) float64, p point, extra []float64) timeline {
+	t0 := m.charTime(p)
+	lo := 1e-3 * t0
+	hi := 1e3 * t0
+	if !math.IsInf(m.duration, 1) {
+		hi = math.Max(hi, 10*(m.duration+t0))
+	}
+	if m.depletion > 0 {
+		hi = math.Max(hi, 50/m.depletion)
+	}
+	const perDecade = 8
+	n := int(math.Ceil(perDecade*math.Log10(hi/lo))) + 1
+	taus := make([]float64, 0, n+8+len(extra))
+	for i := range n {
+		taus = append(taus, lo*math.Pow(10, float64(i)/perDecade))
+	}
+	taus = append(taus, t0)
+	if !math.IsInf(m.duration, 1) {
+		taus = append(taus, t0+m.duration/2, t0+m.duration, m.duration)
+	}
+	for _, e := range extra {
+		if e > 0 && finite(e) {
+			taus = append(taus, e)
+		}
+	}
+	sort.Float64s(taus)
+	tl := timeline{tau: taus[:0], c: make([]float64, 0, len(taus))}
+	prev := math.NaN()
+	for _, t := range taus {
+		if t == prev {
+			continue
+		}
+		prev = t
+		tl.tau = append(tl.tau, t)
+		tl.c = append(tl.c, f(t))
+	}
+	return tl
+}
+
+// peakResult is the peak of one receptor in elapsed time (d) and mg/L.
+type peakResult struct {
+	tau      float64 // elapsed time of the peak, d; +Inf when approached as t -> infinity
+	c        float64 // peak concentration, mg/L
+	timeline timeline
+}
+
+// findPeak locates the highest value of f (elapsed time tau -> mg/L).
+// steady is f(+Inf).
+func (m *model) findPeak(f func(float64) float64, p point, steady float64, extra []float64) peakResult {
+	switch {
+	case p.upgradient:
+		return peakResult{tau: math.Inf(1), c: 0}
+	case p.inside:
+		return peakResult{tau: 0, c: m.c0}
+	case m.continuous():
+		return peakResult{tau: math.Inf(1), c: steady}
+	}
+	tl := m.sample(f, p, extra)
+	best := 0
+	for i, c := range tl.c {
+		if c > tl.c[best] {
+			best = i
+		}
+	}
+	if !(tl.c[best] > 0) {
+		return peakResult{tau: math.Inf(1), c: 0, timeline: tl}
+	}
+	a := tl.tau[max(best-1, 0)]
+	b := tl.tau[min(best+1, len(tl.tau)-1)]
+	if best == 0 {
+		a = 0
+	}
+	x, fx := goldenMax(f, a, b, 1e-9)
+	if fx < tl.c[best] {
+		x, fx = tl.tau[best], tl.c[best]
+	}
+	// Insert the refined peak into the timeline so the exceedance search
+	// sees a sample at or above any level the peak reaches.
+	i := sort.SearchFloat64s(tl.tau, x)
+	if i == len(tl.tau) || tl.tau[i] != x {
+		tl.tau = append(tl.tau, 0)
+		tl.c = append(tl.c, 0)
+		copy(tl.tau[i+1:], tl.tau[i:])
+		copy(tl.c[i+1:], tl.c[i:])
+		tl.tau[i], tl.c[i] = x, fx
+	}
+	return peakResult{tau: x, c: fx, timeline: tl}
+}
+
+// firstExceedance returns the earliest elapsed time, d, at which f reaches
+// level (mg/L), or ok == false when it never does. pk is the receptor's peak.
+func (m *model) firstExceedance(f func(float64) float64, p point, pk peakResult, level float64) (tau float64, ok bool) {
+	if !(pk.c >= level) || p.upgradient {
+		return 0, false
+	}
+	if p.inside {
+		return 0, true
+	}
+	g := func(t float64) float64 { return f(t) - level }
+	const rel = 1e-12
+	if m.continuous() {
+		// Monotone in t: double up from the characteristic time until the
+		// level is reached, then halve down for a lower bracket.
+		hi := m.charTime(p)
+		fhi := g(hi)
+		for i := 0; fhi < 0 && i < 80; i++ {
+			hi *= 2
+			fhi = g(hi)
+		}
+		if fhi < 0 {
+			return 0, false // reached only in the limit
+		}
+		lo := hi / 2
+		flo := g(lo)
+		for i := 0; flo >= 0 && i < 200; i++ {
+			hi, fhi = lo, flo
+			lo /= 2
+			flo = g(lo)
+		}
+		if flo >= 0 {
+			return lo, true
+		}
+		return brentRoot(g, lo, hi, flo, fhi, rel*hi, 200), true
+	}
+	tl := pk.timeline
+	for i, c := range tl.c {
+		if c >= level {
+			lo, flo := 0.0, -level
+			if i > 0 {
+				lo, flo = tl.tau[i-1], tl.c[i-1]-level
+			}
+			return brentRoot(g, lo, tl.tau[i], flo, c-level, rel*tl.tau[i], 200), true
+		}
+	}
+	return 0, false
+}

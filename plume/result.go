@@ -1,0 +1,217 @@
+package plume
+
+// Result is the response of a screening (DESIGN.md section 4). Lengths, times
+// and concentrations are in the request's units (echoed in Units); every
+// number is finite.
+type Result struct {
+	// Engine identifies the code and the input so a result can be reproduced.
+	Engine Engine `json:"engine"`
+	// Units of every number in the result (the request's, defaults filled in).
+	Units Units `json:"units"`
+	// Derived transport parameters and where each came from.
+	Derived Derived `json:"derived"`
+	// One entry per receptor, in request order.
+	Receptors []ReceptorResult `json:"receptors"`
+	// Report of the finite-volume grid when the numeric method ran; omitted otherwise.
+	Numeric *NumericReport `json:"numeric,omitempty"`
+	// Cautions and notes; always holds the general screening caution.
+	Caveats []Caveat `json:"caveats"`
+}
+
+// Engine identifies the code version and the input.
+type Engine struct {
+	// Version of the engine (Options.EngineVersion).
+	Version string `json:"version"`
+	// SHA-256 (hex) of the canonical JSON of the request scenario: the
+	// Scenario as decoded, re-encoded by encoding/json (fields in declaration
+	// order, shortest round-trip numbers, no whitespace).
+	InputSHA256 string `json:"input_sha256"`
+}
+
+// Derived holds the parameters the methods used, in the request's units.
+type Derived struct {
+	// Seepage velocity v, L/T.
+	SeepageVelocity float64 `json:"seepage_velocity"`
+	// How v was obtained: "given" or "darcy" (v = K i / n_e).
+	SeepageVelocitySource string `json:"seepage_velocity_source"`
+	// Retardation factor R, dimensionless.
+	Retardation float64 `json:"retardation"`
+	// How R was obtained: "given", "sorption" (R = 1 + rho_b Koc f_oc / n_e)
+	// or "none" (R = 1: no sorption data, no Koc).
+	RetardationSource string `json:"retardation_source"`
+	// Koc used for R, L/kg; null when R was given.
+	Koc *float64 `json:"koc"`
+	// Half-life used, T; null means no decay.
+	HalfLife *float64 `json:"half_life"`
+	// Decay rate ln 2 / half-life, 1/T (0 without decay).
+	DecayRate float64 `json:"decay_rate"`
+	// Which mass the half-life acts on: "total" or "dissolved".
+	DecayAppliesTo string `json:"decay_applies_to"`
+	// Decay rate applied to the dissolved concentration in the retarded
+	// equation, 1/T: DecayRate ("total") or DecayRate / R ("dissolved").
+	EffectiveDecayRate float64 `json:"effective_decay_rate"`
+	// Dispersivities used, L.
+	Dispersivity DispersivityValues `json:"dispersivity"`
+	// True when any dispersivity was estimated rather than given.
+	DispersivityEstimated bool `json:"dispersivity_estimated"`
+	// The relations used for the estimated dispersivities; empty when none was estimated.
+	DispersivityRelation string `json:"dispersivity_relation,omitempty"`
+	// Travel distance the estimate used (source to the receptor farthest
+	// downgradient along the flow, at least 1 m), L; null when nothing was estimated.
+	TravelDistance *float64 `json:"travel_distance"`
+	// Dispersion coefficients D_i = alpha_i v + D_e, L^2/T.
+	Dispersion DispersionValues `json:"dispersion"`
+	// Screening level used, C; null when none was given or found.
+	ScreeningLevel *float64 `json:"screening_level"`
+	// Aqueous solubility used for the separate-phase check, C; null when unknown.
+	Solubility *float64 `json:"solubility"`
+	// The source geometry: "3d" (rectangle), "1d" (column) or "instantaneous" (mass).
+	SourceKind string `json:"source_kind"`
+	// Inlet condition of the 1D column: "concentration" or "flux"; empty otherwise.
+	Inlet string `json:"inlet,omitempty"`
+	// JSON paths of the values estimated by the engine (e.g. "aquifer.dispersivity.longitudinal").
+	Estimated []string `json:"estimated"`
+	// JSON paths of the values taken from the contaminant reference table.
+	FromReferenceTable []string `json:"from_reference_table"`
+	// Name of the reference table entry matched; empty when none.
+	ReferenceCompound string `json:"reference_compound,omitempty"`
+	// How peak and first-exceedance times were found.
+	PeakMethod string `json:"peak_method"`
+}
+
+// DispersivityValues are the three dispersivities used, L.
+type DispersivityValues struct {
+	// Longitudinal dispersivity alpha_L, L.
+	Longitudinal float64 `json:"longitudinal"`
+	// Transverse horizontal dispersivity alpha_T, L.
+	Transverse float64 `json:"transverse"`
+	// Transverse vertical dispersivity alpha_V, L.
+	Vertical float64 `json:"vertical"`
+}
+
+// DispersionValues are the unretarded dispersion coefficients, L^2/T.
+type DispersionValues struct {
+	// Longitudinal D_x = alpha_L v + D_e, L^2/T.
+	Longitudinal float64 `json:"longitudinal"`
+	// Transverse horizontal D_y = alpha_T v + D_e, L^2/T.
+	Transverse float64 `json:"transverse"`
+	// Transverse vertical D_z = alpha_V v + D_e, L^2/T.
+	Vertical float64 `json:"vertical"`
+}
+
+// ReceptorResult is the answer at one receptor.
+type ReceptorResult struct {
+	// Receptor identifier from the request (or "R<index+1>").
+	ID string `json:"id"`
+	// Distance along flow from the centre of the source's downgradient face, L.
+	PlumeX float64 `json:"plume_x"`
+	// Transverse offset, positive to the left of the flow direction, L.
+	PlumeY float64 `json:"plume_y"`
+	// Depth below the water table of the point, or the screen's mid-depth, L.
+	Z float64 `json:"z"`
+	// Top of the well screen, L; null for a point receptor.
+	ScreenTop *float64 `json:"screen_top,omitempty"`
+	// Bottom of the well screen, L; null for a point receptor.
+	ScreenBottom *float64 `json:"screen_bottom,omitempty"`
+	// Concentrations at the requested times, one value per method run.
+	Series []SeriesPoint `json:"series"`
+	// Concentrations as t -> infinity, C (numeric is not run to steady state).
+	SteadyState MethodValues `json:"steady_state"`
+	// Highest concentration over all time and when it occurs.
+	Peak Peak `json:"peak"`
+	// Earliest time the concentration reaches the screening level, T; null
+	// when it never does (or no screening level is known).
+	FirstExceedanceTime *float64 `json:"first_exceedance_time"`
+	// True when the peak concentration reaches the screening level.
+	ExceedsScreeningLevel bool `json:"exceeds_screening_level"`
+	// Largest relative difference (Domenico - exact)/exact over the series and
+	// steady state where both ran and exact is above a floor; null otherwise.
+	DomenicoDeviation *float64 `json:"domenico_deviation,omitempty"`
+	// Agreement of the numeric cross-check with the exact solution; null when not run.
+	NumericAgreement *Agreement `json:"numeric_agreement,omitempty"`
+}
+
+// SeriesPoint holds the concentrations at one time, C; a method not run is omitted.
+type SeriesPoint struct {
+	// Time since the source started, T.
+	Time float64 `json:"time"`
+	// Exact time-integral (or Ogata-Banks, or puff) value, C.
+	Exact *float64 `json:"exact,omitempty"`
+	// Domenico (1987) approximation, C.
+	Domenico *float64 `json:"domenico,omitempty"`
+	// Finite-volume cross-check, C.
+	Numeric *float64 `json:"numeric,omitempty"`
+}
+
+// MethodValues holds one value per method, C; a method not run is omitted.
+type MethodValues struct {
+	// Exact value, C.
+	Exact *float64 `json:"exact,omitempty"`
+	// Domenico value, C.
+	Domenico *float64 `json:"domenico,omitempty"`
+	// Numeric value, C.
+	Numeric *float64 `json:"numeric,omitempty"`
+}
+
+// Peak is the highest concentration at a receptor over all time.
+type Peak struct {
+	// Time of the peak, T; null when the concentration rises toward the
+	// steady state and the peak is approached as t -> infinity.
+	Time *float64 `json:"time"`
+	// Peak concentration, C.
+	Concentration float64 `json:"concentration"`
+	// Method whose values the peak is taken from ("exact" or "domenico").
+	Method string `json:"method"`
+}
+
+// Agreement compares the numeric cross-check with the exact solution at one receptor.
+type Agreement struct {
+	// Largest |numeric - exact| / max(exact, floor) over the series, dimensionless.
+	MaxRelativeDifference float64 `json:"max_relative_difference"`
+	// Time at which the largest difference occurs, T.
+	Time float64 `json:"time"`
+	// Tolerance applied, dimensionless.
+	Tolerance float64 `json:"tolerance"`
+	// Concentration floor below which differences are not counted, C.
+	Floor float64 `json:"floor"`
+	// True when MaxRelativeDifference <= Tolerance.
+	WithinTolerance bool `json:"within_tolerance"`
+}
+
+// NumericReport describes the finite-volume grid the numeric method used.
+type NumericReport struct {
+	// Number of cells along x, y and z.
+	Cells [3]int `json:"cells"`
+	// Total number of cells.
+	TotalCells int `json:"total_cells"`
+	// Cell sizes along x, y, z, L (smallest, where the grid is graded).
+	Spacing [3]float64 `json:"spacing"`
+	// Extent of the grid: x from XMin to XMax, y from -YHalf to YHalf, z from 0 to ZMax, L.
+	XMin  float64 `json:"x_min"`
+	XMax  float64 `json:"x_max"`
+	YHalf float64 `json:"y_half"`
+	ZMax  float64 `json:"z_max"`
+	// Number of time steps taken.
+	TimeSteps int `json:"time_steps"`
+	// Relative mass-balance error of the run, dimensionless.
+	MassBalanceError float64 `json:"mass_balance_error"`
+}
+
+// Caveat severities.
+const (
+	SeverityNote    = "note"
+	SeverityCaution = "caution"
+	SeverityWarning = "warning"
+)
+
+// Caveat is a caution attached to a result.
+type Caveat struct {
+	// Stable snake_case code, one of the Caveat* constants.
+	Code string `json:"code"`
+	// "note", "caution" or "warning".
+	Severity string `json:"severity"`
+	// Plain-English explanation with the numbers involved.
+	Message string `json:"message"`
+	// Receptor concerned; empty when the caveat concerns the whole result.
+	ReceptorID string `json:"receptor_id,omitempty"`
+}

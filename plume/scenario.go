@@ -1,0 +1,170 @@
+package plume
+
+// Scenario is a screening request (DESIGN.md section 4). Numbers are in the
+// units named by Units (length L, time T, concentration C); a nil pointer
+// means "not given" (JSON null or absent). Fields given directly win over
+// the ones they are derived from.
+type Scenario struct {
+	// Units of the request and of the response; empty fields default to m, d, mg/L.
+	Units Units `json:"units"`
+	// Aquifer properties.
+	Aquifer Aquifer `json:"aquifer"`
+	// Contaminant properties; Name may pick defaults from the reference table.
+	Contaminant Contaminant `json:"contaminant"`
+	// Source geometry, strength and history, in site coordinates.
+	Source Source `json:"source"`
+	// Receptors (wells, parcels, stream points) in site coordinates; at least one.
+	Receptors []Receptor `json:"receptors"`
+	// Times at which to report concentrations, T, each >= 0 and finite, on
+	// the clock of source.start (the source begins at source.start, default
+	// 0). May be empty: the steady state is always reported.
+	Times []float64 `json:"times"`
+	// Methods to run, from "exact", "domenico", "numeric"; empty means all three.
+	Methods []string `json:"methods,omitempty"`
+}
+
+// Units names the units of a request; the response echoes them.
+type Units struct {
+	// Length unit: "m" (default) or "ft". Applies to coordinates, depths,
+	// widths, dispersivities; velocities are L/T, conductivity L/T,
+	// diffusion L^2/T.
+	Length string `json:"length,omitempty"`
+	// Time unit: "d" (default) or "yr" (1 yr = 365.25 d). Applies to times,
+	// durations, half-lives; rates are 1/T.
+	Time string `json:"time,omitempty"`
+	// Concentration unit: "mg/L" (default) or "ug/L". Applies to source
+	// concentration, screening level, solubility and every result concentration.
+	Concentration string `json:"concentration,omitempty"`
+}
+
+// Aquifer holds the hydraulic and sorption properties of the saturated zone.
+// Either SeepageVelocity, or HydraulicConductivity, HydraulicGradient and
+// EffectivePorosity together, must be given.
+type Aquifer struct {
+	// Hydraulic conductivity K, L/T, > 0.
+	HydraulicConductivity *float64 `json:"hydraulic_conductivity"`
+	// Hydraulic gradient i along the flow direction, dimensionless (L/L), > 0.
+	HydraulicGradient *float64 `json:"hydraulic_gradient"`
+	// Effective porosity n_e, dimensionless, in (0, 1). Needed for Darcy's law,
+	// for retardation from sorption and for an instantaneous mass release.
+	EffectivePorosity *float64 `json:"effective_porosity"`
+	// Seepage (average linear) velocity v, L/T, > 0. When given, K and i are not needed.
+	SeepageVelocity *float64 `json:"seepage_velocity"`
+	// Dry bulk density rho_b, kg/L (= g/cm^3), > 0; no unit conversion.
+	BulkDensity *float64 `json:"bulk_density"`
+	// Fraction of organic carbon f_oc, dimensionless, in [0, 1].
+	OrganicCarbonFraction *float64 `json:"organic_carbon_fraction"`
+	// Dispersivities, L; any not given is estimated from the travel distance.
+	Dispersivity *Dispersivity `json:"dispersivity"`
+	// Effective molecular diffusion coefficient D_e, L^2/T, >= 0; default 0.
+	EffectiveDiffusion *float64 `json:"effective_diffusion"`
+}
+
+// Dispersivity holds the three dispersivities, L, each > 0 when given.
+type Dispersivity struct {
+	// Longitudinal dispersivity alpha_L, L, > 0.
+	Longitudinal *float64 `json:"longitudinal"`
+	// Transverse horizontal dispersivity alpha_T, L, > 0.
+	Transverse *float64 `json:"transverse"`
+	// Transverse vertical dispersivity alpha_V, L, > 0.
+	Vertical *float64 `json:"vertical"`
+}
+
+// Contaminant holds the compound's transport properties. When Name matches
+// the reference table (LookupContaminant), Koc, ScreeningLevel and Solubility
+// default to the table's values, and the response lists which were used.
+type Contaminant struct {
+	// Name of the compound, e.g. "benzene"; free text, matched against the
+	// reference table (a name not in the table is fine when the needed
+	// properties are given).
+	Name string `json:"name,omitempty"`
+	// Organic-carbon partition coefficient Koc, L/kg, >= 0.
+	Koc *float64 `json:"koc"`
+	// Half-life of first-order decay, T, > 0; null means no decay.
+	HalfLife *float64 `json:"half_life"`
+	// Use the long (conservative) end of the reference table's half-life range
+	// when HalfLife is null. Default false: null half-life means no decay.
+	UseTableHalfLife bool `json:"use_table_half_life,omitempty"`
+	// Retardation factor R, dimensionless, >= 1. When given, Koc, f_oc and
+	// bulk density are not needed.
+	Retardation *float64 `json:"retardation"`
+	// Screening level (for example a drinking-water limit), C, > 0.
+	ScreeningLevel *float64 `json:"screening_level"`
+	// Aqueous solubility, C, > 0; used only for the separate-phase caveat.
+	Solubility *float64 `json:"solubility"`
+	// Which mass the half-life acts on: "total" (default; dissolved and sorbed
+	// alike, decay rate used as is) or "dissolved" (dissolved phase only; the
+	// decay rate in the retarded equation is divided by R).
+	DecayAppliesTo string `json:"decay_applies_to,omitempty"`
+}
+
+// Source describes the release. A continuous source has Concentration; an
+// instantaneous release (spill) has Mass instead. A source with Width and
+// Depth is a vertical rectangle (3D methods); with neither it is a 1D column
+// (Ogata-Banks) whose inlet type is Inlet.
+type Source struct {
+	// Site x (east) of the centre of the source's downgradient face, L; default 0.
+	X *float64 `json:"x"`
+	// Site y (north) of the centre of the source's downgradient face, L; default 0.
+	Y *float64 `json:"y"`
+	// Direction groundwater flows, degrees clockwise from north, finite; default 90 (east).
+	FlowAzimuthDeg *float64 `json:"flow_azimuth_deg"`
+	// Source concentration C0, C, > 0 (continuous source).
+	Concentration *float64 `json:"concentration"`
+	// Width of the source perpendicular to flow, L, > 0 (3D).
+	Width *float64 `json:"width"`
+	// Depth of the source below the water table, L, > 0 (3D).
+	Depth *float64 `json:"depth"`
+	// Time the source starts, T, >= 0; default 0. Concentrations before it are 0.
+	Start *float64 `json:"start"`
+	// Duration of release, T, > 0; null means continuous.
+	Duration *float64 `json:"duration"`
+	// Half-life of exponential source depletion, T, > 0; null means constant strength.
+	HalfLife *float64 `json:"half_life"`
+	// Mass released instantaneously at Start, kg, > 0 (spill); replaces Concentration.
+	Mass *float64 `json:"mass"`
+	// Depth of an instantaneous release below the water table, L, >= 0; default 0.
+	ReleaseDepth *float64 `json:"release_depth"`
+	// Inlet condition of the 1D column: "concentration" (first type, default)
+	// or "flux" (third type).
+	Inlet string `json:"inlet,omitempty"`
+}
+
+// Receptor is a point of interest in site coordinates: a point at depth Z or
+// a well screen from ScreenTop to ScreenBottom (depth-averaged).
+type Receptor struct {
+	// Identifier echoed in the response; default "R<index+1>".
+	ID string `json:"id,omitempty"`
+	// Site x (east), L, required.
+	X *float64 `json:"x"`
+	// Site y (north), L, required.
+	Y *float64 `json:"y"`
+	// Depth below the water table, L, >= 0; default 0. Ignored when a screen is given.
+	Z *float64 `json:"z"`
+	// Depth of the top of the well screen below the water table, L, >= 0.
+	ScreenTop *float64 `json:"screen_top"`
+	// Depth of the bottom of the well screen, L, >= ScreenTop.
+	ScreenBottom *float64 `json:"screen_bottom"`
+}
+
+// Method names, as used in requests and responses.
+const (
+	MethodExact    = "exact"
+	MethodDomenico = "domenico"
+	MethodNumeric  = "numeric"
+)
+
+// AllMethods lists the known methods in their canonical order.
+var AllMethods = []string{MethodExact, MethodDomenico, MethodNumeric}
+
+// Values of Contaminant.DecayAppliesTo.
+const (
+	DecayTotal     = "total"
+	DecayDissolved = "dissolved"
+)
+
+// Values of Source.Inlet.
+const (
+	InletConcentration = "concentration"
+	InletFlux          = "flux"
+)

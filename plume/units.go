@@ -1,0 +1,176 @@
+package plume
+
+import "math"
+
+// Unit names accepted in Units.
+const (
+	LengthMetre = "m"
+	LengthFoot  = "ft"
+	TimeDay     = "d"
+	TimeYear    = "yr"
+	ConcMgL     = "mg/L"
+	ConcUgL     = "ug/L"
+)
+
+// Exact conversion factors to the canonical units (m, d, mg/L).
+const (
+	// MetresPerFoot: the international foot, exactly 0.3048 m (NIST SP 811, appendix B).
+	MetresPerFoot = 0.3048
+	// DaysPerYear: the Julian year of 365.25 d, our stated convention for "yr".
+	DaysPerYear = 365.25
+	// MgLPerUgL: 1 ug/L = 0.001 mg/L (SI prefixes).
+	MgLPerUgL = 0.001
+)
+
+// unitFactors are the multipliers from request units to canonical units:
+// a request value q in the request's unit is q*f in the canonical unit.
+type unitFactors struct {
+	L float64 // metres per request length unit
+	T float64 // days per request time unit
+	C float64 // mg/L per request concentration unit
+}
+
+// withDefaults fills empty unit names with m, d, mg/L.
+func (u Units) withDefaults() Units {
+	if u.Length == "" {
+		u.Length = LengthMetre
+	}
+	if u.Time == "" {
+		u.Time = TimeDay
+	}
+	if u.Concentration == "" {
+		u.Concentration = ConcMgL
+	}
+	return u
+}
+
+// factors returns the conversion factors of u; ok is false when a name is unknown.
+func (u Units) factors() (f unitFactors, ok bool) {
+	u = u.withDefaults()
+	ok = true
+	switch u.Length {
+	case LengthMetre:
+		f.L = 1
+	case LengthFoot:
+		f.L = MetresPerFoot
+	default:
+		ok = false
+	}
+	switch u.Time {
+	case TimeDay:
+		f.T = 1
+	case TimeYear:
+		f.T = DaysPerYear
+	default:
+		ok = false
+	}
+	switch u.Concentration {
+	case ConcMgL:
+		f.C = 1
+	case ConcUgL:
+		f.C = MgLPerUgL
+	default:
+		ok = false
+	}
+	return f, ok
+}
+
+// scaled returns a copy of p multiplied by k (nil stays nil).
+func scaled(p *float64, k float64) *float64 {
+	if p == nil {
+		return nil
+	}
+	v := *p * k
+	return &v
+}
+
+// toCanonical returns a deep copy of sc with every quantity in m, d, mg/L and
+// Units set to the canonical names. sc must have valid unit names.
+func toCanonical(sc Scenario) Scenario {
+	f, _ := sc.Units.factors()
+	L, T, C := f.L, f.T, f.C
+	out := sc
+	out.Units = Units{Length: LengthMetre, Time: TimeDay, Concentration: ConcMgL}
+
+	a := sc.Aquifer
+	out.Aquifer = Aquifer{
+		HydraulicConductivity: scaled(a.HydraulicConductivity, L/T),
+		HydraulicGradient:     scaled(a.HydraulicGradient, 1),
+		EffectivePorosity:     scaled(a.EffectivePorosity, 1),
+		SeepageVelocity:       scaled(a.SeepageVelocity, L/T),
+		BulkDensity:           scaled(a.BulkDensity, 1),
+		OrganicCarbonFraction: scaled(a.OrganicCarbonFraction, 1),
+		EffectiveDiffusion:    scaled(a.EffectiveDiffusion, L*L/T),
+	}
+	if a.Dispersivity != nil {
+		out.Aquifer.Dispersivity = &Dispersivity{
+			Longitudinal: scaled(a.Dispersivity.Longitudinal, L),
+			Transverse:   scaled(a.Dispersivity.Transverse, L),
+			Vertical:     scaled(a.Dispersivity.Vertical, L),
+		}
+	}
+
+	c := sc.Contaminant
+	out.Contaminant = Contaminant{
+		Name:             c.Name,
+		Koc:              scaled(c.Koc, 1),
+		HalfLife:         scaled(c.HalfLife, T),
+		UseTableHalfLife: c.UseTableHalfLife,
+		Retardation:      scaled(c.Retardation, 1),
+		ScreeningLevel:   scaled(c.ScreeningLevel, C),
+		Solubility:       scaled(c.Solubility, C),
+		DecayAppliesTo:   c.DecayAppliesTo,
+	}
+
+	s := sc.Source
+	out.Source = Source{
+		X:              scaled(s.X, L),
+		Y:              scaled(s.Y, L),
+		FlowAzimuthDeg: scaled(s.FlowAzimuthDeg, 1),
+		Concentration:  scaled(s.Concentration, C),
+		Width:          scaled(s.Width, L),
+		Depth:          scaled(s.Depth, L),
+		Start:          scaled(s.Start, T),
+		Duration:       scaled(s.Duration, T),
+		HalfLife:       scaled(s.HalfLife, T),
+		Mass:           scaled(s.Mass, 1),
+		ReleaseDepth:   scaled(s.ReleaseDepth, L),
+		Inlet:          s.Inlet,
+	}
+
+	out.Receptors = make([]Receptor, len(sc.Receptors))
+	for i, r := range sc.Receptors {
+		out.Receptors[i] = Receptor{
+			ID:           r.ID,
+			X:            scaled(r.X, L),
+			Y:            scaled(r.Y, L),
+			Z:            scaled(r.Z, L),
+			ScreenTop:    scaled(r.ScreenTop, L),
+			ScreenBottom: scaled(r.ScreenBottom, L),
+		}
+	}
+	out.Times = make([]float64, len(sc.Times))
+	for i, t := range sc.Times {
+		out.Times[i] = t * T
+	}
+	out.Methods = append([]string(nil), sc.Methods...)
+	return out
+}
+
+// finite reports whether x is neither NaN nor infinite.
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
+
+// clean returns x when finite, 0 for NaN, and the largest finite float64 of
+// the same sign for an infinity. It is the last line of defence: results
+// are built so that it never changes a value.
+func clean(x float64) float64 {
+	switch {
+	case math.IsNaN(x):
+		return 0
+	case math.IsInf(x, 1):
+		return math.MaxFloat64
+	case math.IsInf(x, -1):
+		return -math.MaxFloat64
+	}
+	return x
+}
