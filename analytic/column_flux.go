@@ -28,30 +28,30 @@ import "math"
 // Gauss-Legendre quadrature to a relative accuracy of 1e-12.
 // t = math.Inf(1) gives the steady state 2V/(V+w) exp((V-w)x/(2D)).
 func OgataBanksFlux(x, t float64, p Params) float64 {
-	if x < 0 || t <= 0 || math.IsNaN(x) || math.IsNaN(t) {
-		return 0
+	c, ok := ogataBanksFlux(x, t, p.Dx, p.R, p.V, p.Mu, 0)
+	if !ok {
+		c = fluxByIntegral(x, t, p)
 	}
-	d, r, v, mu := p.Dx, p.R, p.V, p.Mu
-	w := math.Sqrt(v*v + 4*d*r*mu)
-	a1 := -2 * r * mu * x / (v + w)
-	if math.IsInf(t, 1) {
-		return clamp01(2 * v / (v + w) * math.Exp(a1))
-	}
-	if c, ok := fluxClosedForm(x, t, d, r, v, mu, w, a1); ok {
-		return clamp01(c)
-	}
-	return clamp01(fluxByIntegral(x, t, p))
+	return clamp01(c)
 }
 
-// fluxClosedForm evaluates the closed forms in scaled arithmetic and reports
-// whether the sum kept at least twelve significant digits.
-func fluxClosedForm(x, t, d, r, v, mu, w, a1 float64) (float64, bool) {
+// ogataBanksFlux is the third-type closed form times exp(shift), unclamped,
+// for mu > -V^2/(4DR) (see ogataBanks). It reports false where the closed
+// form would lose more than four digits to cancellation.
+func ogataBanksFlux(x, t, d, r, v, mu, shift float64) (float64, bool) {
+	if x < 0 || t <= 0 || math.IsNaN(x) || math.IsNaN(t) {
+		return 0, true
+	}
+	w := math.Sqrt(v*v + 4*d*r*mu)
+	a1 := -2*r*mu*x/(v+w) + shift
+	if math.IsInf(t, 1) {
+		return 2 * v / (v + w) * math.Exp(a1), true
+	}
 	s := 2 * math.Sqrt(d*r*t)
 	b1 := (r*x - w*t) / s
 	b3 := (r*x + v*t) / s
 	q := (r*x - v*t) / s
-	e := -q*q - mu*t
-	ee := math.Exp(e)
+	ee := math.Exp(-q*q - mu*t + shift)
 	var t1 float64
 	if b1 >= 0 {
 		t1 = ee * Erfcx(b1)
@@ -83,7 +83,7 @@ func fluxClosedForm(x, t, d, r, v, mu, w, a1 float64) (float64, bool) {
 // fluxByIntegral evaluates integral_0^inf exp(-s) OgataBanks(x + s D/V, t) ds.
 func fluxByIntegral(x, t float64, p Params) float64 {
 	c1 := func(xx float64) float64 { return OgataBanks(xx, t, p) }
-	return fluxIntegral(x, t, p, c1, true)
+	return fluxIntegral(x, t, p, c1, true, 1e-12)
 }
 
 // fluxIntegral evaluates integral_0^inf exp(-s) c1(x + s D/V) ds, c1 a
@@ -91,8 +91,9 @@ func fluxByIntegral(x, t float64, p Params) float64 {
 // exp(-(1+k) s), k the logarithmic slope of the concentration profile in
 // units of D/V, so panels are laid out on the scale 1/(1+k). When c1 falls
 // with distance (monotone: true, as for a constant source) the panel bounds
-// use that; otherwise they use c1 <= 1.
-func fluxIntegral(x, t float64, p Params, c1 func(float64) float64, monotone bool) float64 {
+// use that; otherwise they use c1 <= 1. rel is the relative accuracy asked,
+// which must not be finer than c1's own.
+func fluxIntegral(x, t float64, p Params, c1 func(float64) float64, monotone bool, rel float64) float64 {
 	d, r, v := p.Dx, p.R, p.V
 	ell := d / v
 	f := func(s float64) float64 { return math.Exp(-s) * c1(x+s*ell) }
@@ -133,5 +134,5 @@ func fluxIntegral(x, t float64, p Params, c1 func(float64) float64, monotone boo
 		panels[n] = panel{a: a, b: 745, bound: math.Exp(-a) * c0 * (745 - a)}
 		n++
 	}
-	return integratePanels(f, panels[:n], 1e-12)
+	return integratePanels(f, panels[:n], rel)
 }

@@ -42,6 +42,11 @@ const exactRelTol = 1e-7
 // [t - h.Duration, t], and a depleting source weights age tau by
 // exp(-h.Depletion (t - tau)).
 func Exact3DAt(pt Point, t float64, p Params, s Source, h History) float64 {
+	return exact3D(pt, t, p, s, h, exactRelTol)
+}
+
+// exact3D is Exact3DAt with the relative tolerance of the quadrature given.
+func exact3D(pt Point, t float64, p Params, s Source, h History, rel float64) float64 {
 	x := pt.X
 	if x < 0 || !(t > 0) || math.IsNaN(x) || math.IsNaN(pt.Y) {
 		return 0
@@ -153,7 +158,7 @@ func Exact3DAt(pt Point, t float64, p Params, s Source, h History) float64 {
 			v *= math.Min(stripBound(y, halfW, sa*ky), stripBoundAbove(y, halfW, sb*ky))
 		}
 		if kz != 0 {
-			v *= math.Min(stripBound(bot, s.Depth, sa*kz), stripBoundAbove(top, s.Depth, sb*kz))
+			v *= screenBound(top, bot, s.Depth, sa*kz, sb*kz)
 		}
 		return v
 	}
@@ -168,15 +173,15 @@ func Exact3DAt(pt Point, t float64, p Params, s Source, h History) float64 {
 	}
 	// Around the peak of the weight, on the scale of its width.
 	w := 1 / (1 + math.Abs(u0))
-	for _, k := range []float64{0, 0.5, 1, 2, 3, 4.5, 6.5, 10, 16, 26, 40} {
+	for _, k := range []float64{0, 1.5, 3.5, 6.5, 12, 24, 40} {
 		add(u0 + k*w)
 		if k > 0 {
 			add(u0 - k*w)
 		}
 	}
 	// Where the factor sigma^2/(sigma^2+sigma*^2) steps, if sharply.
-	if sg := math.Sqrt(s2); sg < 0.5 {
-		for _, k := range []float64{0.5, 2, 8} {
+	if sg := math.Sqrt(s2); sg < 0.25 {
+		for _, k := range []float64{0.5, 4} {
 			add(k * sg)
 			add(-k * sg)
 		}
@@ -190,9 +195,8 @@ func Exact3DAt(pt Point, t float64, p Params, s Source, h History) float64 {
 			if e == 0 {
 				continue
 			}
-			sig := 1 / (k * e)
-			for _, m := range []float64{0.5, 1, 2} {
-				add(uOf(m * sig))
+			if ue := uOf(1 / (k * e)); math.Abs(ue-u0) < 6.5*w {
+				add(ue)
 			}
 		}
 	}
@@ -220,7 +224,7 @@ func Exact3DAt(pt Point, t float64, p Params, s Source, h History) float64 {
 		panels[np] = panel{a: a, b: b, bound: bound(a, b)}
 		np++
 	}
-	integral := integratePanels(f, panels[:np], exactRelTol)
+	integral := integratePanels(f, panels[:np], rel)
 	c := 2 * invSqrtPi * pref * math.Exp(-attenuation-u0*u0) * integral
 	return clamp01(c)
 }

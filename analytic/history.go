@@ -25,36 +25,37 @@ func OgataBanksAt(x, t float64, p Params, inlet Inlet, h History) float64 {
 	if math.IsInf(t, 1) && (g > 0 || h.finite()) {
 		return 0
 	}
+	// The substitution C = exp(-g t) C' holds for any effective rate
+	// Mu - g whose w = sqrt(V^2 + 4 D R (Mu - g)) stays real; keep a margin
+	// so that w does not lose digits.
+	closed := g == 0 || p.V*p.V+4*p.Dx*p.R*(p.Mu-g) > 0.01*p.V*p.V
+	one := func(tt float64) (float64, bool) {
+		if !(tt > 0) {
+			return 0, true
+		}
+		if inlet == ThirdType {
+			return ogataBanksFlux(x, tt, p.Dx, p.R, p.V, p.Mu-g, -g*tt)
+		}
+		return ogataBanks(x, tt, p.Dx, p.R, p.V, p.Mu-g, -g*tt), true
+	}
+	if closed {
+		c, ok := one(t)
+		if ok && h.finite() && t > h.Duration {
+			var c2 float64
+			c2, ok = one(t - h.Duration)
+			// A difference of nearly equal values is left to the quadrature.
+			if ok && c-c2 < 1e-6*c {
+				ok = inlet == ThirdType && c-c2 >= 0
+			}
+			c -= c2
+		}
+		if ok {
+			return clamp01(c)
+		}
+	}
 	if inlet == ThirdType {
-		if g > p.Mu {
-			c1 := func(xx float64) float64 { return OgataBanksAt(xx, t, p, FirstType, h) }
-			return clamp01(fluxIntegral(x, t, p, c1, false))
-		}
-		one := func(tt float64) float64 {
-			if !(tt > 0) {
-				return 0
-			}
-			if g == 0 {
-				return OgataBanksFlux(x, tt, p)
-			}
-			q := p
-			q.Mu -= g
-			return math.Exp(-g*tt) * OgataBanksFlux(x, tt, q)
-		}
-		c := one(t)
-		if h.finite() && t > h.Duration {
-			c -= one(t - h.Duration)
-		}
-		return clamp01(c)
+		c1 := func(xx float64) float64 { return OgataBanksAt(xx, t, p, FirstType, h) }
+		return clamp01(fluxIntegral(x, t, p, c1, !h.finite() && g <= p.Mu, 1e-6))
 	}
-	if h.finite() || g > p.Mu {
-		inf := math.Inf(1)
-		return Exact3DAt(Point{X: x}, t, p, Source{Width: inf, Depth: inf}, h)
-	}
-	if g == 0 {
-		return OgataBanks(x, t, p)
-	}
-	q := p
-	q.Mu -= g
-	return clamp01(math.Exp(-g*t) * OgataBanks(x, t, q))
+	return Exact3DAt(Point{X: x}, t, p, Source{Width: math.Inf(1), Depth: math.Inf(1)}, h)
 }

@@ -31,19 +31,26 @@ func gaussLegendre(f func(float64) float64, a, b float64) float64 {
 	return s * h
 }
 
+// maxPanelsPerIntegral bounds the work of one adaptive integration (each
+// panel costs 2*glOrder evaluations), so that a tolerance made unreachable by
+// round-off in the integrand cannot make the bisection run away.
+const maxPanelsPerIntegral = 400
+
 // adaptive integrates f over [a, b], whose fixed-rule value whole is already
 // known, by comparing it with the sum over the two halves and bisecting where
-// they disagree by more than tol (absolute). depth bounds the recursion; at
-// the limit the better estimate is returned.
-func adaptive(f func(float64) float64, a, b, whole, tol float64, depth int) float64 {
+// they disagree by more than tol (absolute). depth bounds the recursion and
+// *budget the number of bisections left; at either limit the better estimate
+// is returned.
+func adaptive(f func(float64) float64, a, b, whole, tol float64, depth int, budget *int) float64 {
 	m := (a + b) / 2
 	left := gaussLegendre(f, a, m)
 	right := gaussLegendre(f, m, b)
+	*budget--
 	sum := left + right
-	if depth <= 0 || math.Abs(sum-whole) <= tol {
+	if depth <= 0 || *budget <= 0 || math.Abs(sum-whole) <= tol {
 		return sum
 	}
-	return adaptive(f, a, m, left, tol/2, depth-1) + adaptive(f, m, b, right, tol/2, depth-1)
+	return adaptive(f, a, m, left, tol/2, depth-1, budget) + adaptive(f, m, b, right, tol/2, depth-1, budget)
 }
 
 // panel is one subinterval of an integration with a rigorous upper bound of
@@ -69,6 +76,7 @@ func integratePanels(f func(float64) float64, panels []panel, rel float64) float
 		rest += p.bound
 	}
 	var total float64
+	budget := maxPanelsPerIntegral
 	for _, p := range panels {
 		if p.bound == 0 {
 			break
@@ -82,7 +90,7 @@ func integratePanels(f func(float64) float64, panels []panel, rel float64) float
 		if scale == 0 {
 			scale = 1e-12 * p.bound
 		}
-		total += adaptive(f, p.a, p.b, whole, 0.1*rel*scale, 30)
+		total += adaptive(f, p.a, p.b, whole, 0.1*rel*scale, 20, &budget)
 	}
 	return total
 }

@@ -40,6 +40,23 @@ func stripBound(d, h, c float64) float64 {
 	return 1
 }
 
+// screenBound is an upper bound of stripAverage(top, bot, h, c) for every c
+// in [cLow, cHigh].
+func screenBound(top, bot, h, cLow, cHigh float64) float64 {
+	switch {
+	case math.IsInf(h, 1):
+		return 1
+	case top > h:
+		// Every depth of the screen lies below the source: the nearest one
+		// bounds the rest, and the bound falls with c.
+		return 0.5 * math.Erfc((top-h)*cLow)
+	case bot < h:
+		// Every depth lies inside: strip rises with c and falls with depth.
+		return strip(top, h, cHigh)
+	}
+	return 1
+}
+
 // stripBoundAbove is an upper bound of strip(d, h, c') for every c' <= c.
 func stripBoundAbove(d, h, c float64) float64 {
 	if d > h || math.IsInf(h, 1) {

@@ -10,6 +10,8 @@ type column struct {
 	n          int
 	centers    []float64
 	stor       []float64 // R * cell volume
+	inv        []float64 // 1/stor
+	parity     int
 	half1mc    []float64 // (1 - Courant_i)/2 for the current dt
 	q          float64
 	disp       *dispersionMatrix
@@ -33,15 +35,18 @@ func (m *column) setStep(dt float64) {
 }
 
 func (m *column) advance(t0, t1 float64) {
-	dt := m.dt
 	cb := m.hist.mean(t0, t1)
-	out := advectColumn(m.c, m.rhs, m.stor, m.half1mc, m.q, dt, cb)
-	m.acc.advIn.add(m.q * dt * cb)
-	m.acc.out.add(out * dt)
-	m.rhs[0] += dt * m.gIn * cb
-	m.disp.solve(m.rhs, 1, 1)
-	m.c, m.rhs = m.rhs, m.c
-	m.acc.dispIn.add(dt * m.gIn * (cb - m.c[0]))
+	// Alternate the order of the split operators (advection-dispersion,
+	// then dispersion-advection) so that each pair of steps is a symmetric
+	// (Strang) composition, second order in dt.
+	m.parity ^= 1
+	if m.parity == 1 {
+		m.advect(cb)
+		m.disperse(cb)
+	} else {
+		m.disperse(cb)
+		m.advect(cb)
+	}
 	if m.decay > 0 {
 		s := 0.0
 		for i, v := range m.c {
@@ -51,6 +56,21 @@ func (m *column) advance(t0, t1 float64) {
 		}
 		m.acc.decayed.add(s)
 	}
+}
+
+func (m *column) advect(cb float64) {
+	out := advectColumn(m.c, m.rhs, m.inv, m.half1mc, m.q, m.dt, cb)
+	m.acc.advIn.add(m.q * m.dt * cb)
+	m.acc.out.add(out * m.dt)
+	m.c, m.rhs = m.rhs, m.c
+}
+
+func (m *column) disperse(cb float64) {
+	c0 := m.c[0]
+	m.disp.explicit(m.c, m.rhs, cb)
+	m.disp.solve(m.rhs, 1, 1)
+	m.c, m.rhs = m.rhs, m.c
+	m.acc.dispIn.add(m.disp.inletFlux(cb, c0, m.c[0]))
 }
 
 func (m *column) storedMass() float64 {
@@ -63,20 +83,18 @@ func (m *column) storedMass() float64 {
 
 func (m *column) sample(t float64, out []float64) {
 	for r, x := range m.rec {
-		out[r] = m.valueAt(x, t)
+		out[r] = clamp01(m.valueAt(x, t))
 	}
 }
 
-// valueAt interpolates linearly between cell centres; between the inlet and
+// valueAt interpolates between cell centres (geometrically where positive,
+// see mix); between the inlet and
 // the first centre it uses the inlet concentration (first-type) or the linear
 // extrapolation of the first two cells (flux inlet), clipped to [0, 1].
 func (m *column) valueAt(x, t float64) float64 {
 	i, w := locate(m.centers, x)
 	if i >= 0 {
-		if w == 0 {
-			return m.c[i]
-		}
-		return (1-w)*m.c[i] + w*m.c[i+1]
+		return mix(m.c[i], m.c[min(i+1, m.n-1)], w)
 	}
 	var c0 float64
 	if m.inletFirst || m.n == 1 {
@@ -90,6 +108,5 @@ func (m *column) valueAt(x, t float64) float64 {
 		c0 = m.c[0] - (m.c[1]-m.c[0])*x0/(x1-x0)
 		c0 = math.Min(1, math.Max(0, c0))
 	}
-	w = x / m.centers[0]
-	return (1-w)*c0 + w*m.c[0]
+	return mix(c0, m.c[0], x/m.centers[0])
 }

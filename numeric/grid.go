@@ -106,16 +106,18 @@ func locate(centers []float64, p float64) (int, float64) {
 type refinePoint struct{ at, h float64 }
 
 // gradedAxis builds faces on [0, hi] whose cell sizes follow
-// h(x) = min(hmax, min_p (p.h + growth |x - p.at|)), with every break point
+// h(x) = scale * min(hmax, min_p (p.h + growth |x - p.at|)) (so a smaller
+// scale refines the whole axis uniformly, as a convergence study needs; the
+// ratio of neighbouring cells is about 1 + scale*growth), with every break point
 // inside (0, hi) a face. Cells are placed by equidistributing the integral of
 // 1/h over each segment between break points, so sizes vary smoothly.
-func gradedAxis(hi float64, breaks []float64, pts []refinePoint, hmax, growth float64) Axis {
+func gradedAxis(hi float64, breaks []float64, pts []refinePoint, hmax, growth, scale float64) Axis {
 	size := func(x float64) float64 {
 		h := hmax
 		for _, p := range pts {
 			h = math.Min(h, p.h+growth*math.Abs(x-p.at))
 		}
-		return h
+		return scale * h
 	}
 	bs := []float64{0}
 	sorted := append([]float64(nil), breaks...)

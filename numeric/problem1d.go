@@ -234,7 +234,7 @@ func Screen1D(ctx context.Context, p Problem1D) (*Result1D, error) {
 	}
 	m := &column{
 		n: n, centers: centers, stor: stor, half1mc: make([]float64, n), q: q,
-		disp: newDispersionMatrix(stor, cond, gIn, 0), gIn: gIn, mu: p.Mu,
+		disp: newDispersionMatrix(stor, cond, gIn), inv: invert(stor), gIn: gIn, mu: p.Mu,
 		c: make([]float64, n), rhs: make([]float64, n), hist: p.History,
 		inletFirst: p.Inlet == InletConcentration, rec: p.Receptors,
 	}
@@ -245,13 +245,16 @@ func Screen1D(ctx context.Context, p Problem1D) (*Result1D, error) {
 		dtMax = math.Min(dtMax, courant*s/q)
 	}
 	L := axis.Length()
-	tRes := p.R * L / p.V
+	tRes := 0.0 // residence time of the domain: stored volume over flow
+	for _, s := range stor {
+		tRes += s / q
+	}
 	plan := marchPlan{
 		times: p.Times, switchOff: p.History.switchOff(), dtMax: dtMax,
 		tMinSteady: 1.5 * tRes, tCapSteady: 200*tRes + 1e4*dtMax,
 		window: math.Max(0.02*tRes, dtMax), steadyZero: p.History.switchOff() < math.Inf(1) || p.History.Depletion > 0,
 	}
-	vals, st, err := march(ctx, m, len(p.Receptors), plan, "Problem1D.Times")
+	vals, st, err := march(ctx, m, len(p.Receptors), plan)
 	if err != nil {
 		return nil, err
 	}
@@ -269,6 +272,14 @@ func Screen1D(ctx context.Context, p Problem1D) (*Result1D, error) {
 		res.Grid.TimeStep, res.Grid.Courant = 0, 0
 	}
 	return res, nil
+}
+
+func invert(s []float64) []float64 {
+	v := make([]float64, len(s))
+	for i, x := range s {
+		v[i] = 1 / x
+	}
+	return v
 }
 
 func minSlice(s []float64) float64 {

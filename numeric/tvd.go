@@ -21,14 +21,14 @@ func vanLeer(a, b float64) float64 {
 // F_{-1/2} = q cin (the inlet value), F_{i+1/2} = q (C_i + (1-c_i)/2 phi b),
 // with c_i = q dt / stor_i the cell Courant number (<= 1) and the last face
 // first-order upwind, q C_{n-1}. The inlet value also serves as the ghost
-// value below cell 0. The new storage-weighted values stor_i C_i' are written
-// to rhs (ready for the implicit dispersion solve). The returned value is the
-// outflow flux q C_{n-1} (per unit dt).
+// value below cell 0. The new values C_i' are written to out (which must not
+// overlap c); inv holds 1/stor_i. The returned value is the outflow flux
+// q C_{n-1} (per unit dt).
 //
 // With the correction at face i+1/2 taken with the Courant number of its
 // upwind cell, each new value is a convex combination of C_i and C_{i-1}, so
 // no new extrema appear on any grid.
-func advectColumn(c, rhs, stor, half1mc []float64, q, dt, cin float64) float64 {
+func advectColumn(c, out, inv, half1mc []float64, q, dt, cin float64) float64 {
 	n := len(c)
 	qdt := q * dt
 	fin := qdt * cin
@@ -36,12 +36,12 @@ func advectColumn(c, rhs, stor, half1mc []float64, q, dt, cin float64) float64 {
 	for i := 0; i < n-1; i++ {
 		ci := c[i]
 		fout := qdt * (ci + half1mc[i]*vanLeer(ci-prev, c[i+1]-ci))
-		rhs[i] = stor[i]*ci - (fout - fin)
+		out[i] = ci - inv[i]*(fout-fin)
 		fin = fout
 		prev = ci
 	}
 	last := c[n-1]
 	fout := qdt * last
-	rhs[n-1] = stor[n-1]*last - (fout - fin)
+	out[n-1] = last - inv[n-1]*(fout-fin)
 	return q * last
 }
