@@ -47,6 +47,18 @@ func Exact3DAt(pt Point, t float64, p Params, s Source, h History) float64 {
 
 // exact3D is Exact3DAt with the relative tolerance of the quadrature given.
 func exact3D(pt Point, t float64, p Params, s Source, h History, rel float64) float64 {
+	return exact3DKernel(pt, t, p, s, h, rel, false)
+}
+
+// exact3DKernel integrates either the concentration-inlet kernel (flux
+// false) or, for the 1D column with a flux inlet, the response of that
+// column to a unit pulse of solute flux (flux true; van Genuchten & Alves
+// 1982, the time derivative of their no-decay third-type solution),
+//
+//	f3(x, tau) = exp(-(Rx - V tau)^2/(4DR tau)) [V/sqrt(pi D R tau) - V^2/(2DR) erfcx((Rx + V tau)/(2 sqrt(DR tau)))],
+//
+// against the same source history and decay weights.
+func exact3DKernel(pt Point, t float64, p Params, s Source, h History, rel float64, flux bool) float64 {
 	x := pt.X
 	if x < 0 || !(t > 0) || math.IsNaN(x) || math.IsNaN(pt.Y) {
 		return 0
@@ -87,7 +99,7 @@ func exact3D(pt Point, t float64, p Params, s Source, h History, rel float64) fl
 	// (g > Mu) the weight exp(-g (t-tau) - Mu tau) <= 1 stays in the
 	// integrand.
 	var pref, gam float64
-	inside := g > p.Mu
+	inside := g > p.Mu || flux
 	if inside || g == 0 {
 		pref = 1
 	} else {
@@ -140,7 +152,20 @@ func exact3D(pt Point, t float64, p Params, s Source, h History, rel float64) fl
 		}
 		if inside {
 			tau := x * x / (4 * dp * sig * sig)
-			v *= math.Exp(-g*(t-tau) - p.Mu*tau)
+			wt := -p.Mu * tau
+			if g > 0 {
+				wt -= g * (t - tau)
+			}
+			v *= math.Exp(wt)
+			if flux {
+				// Ratio of the flux-pulse kernel to the concentration kernel
+				// in the variable u: B x^2 sqrt(pi) / (4 D' sigma^3), at most
+				// 2 beta / sigma^2.
+				drt := p.Dx * p.R * tau
+				b3 := (p.R*x + p.V*tau) / (2 * math.Sqrt(drt))
+				bb := p.V/math.Sqrt(math.Pi*drt) - p.V*p.V/(2*p.Dx*p.R)*Erfcx(b3)
+				v *= math.Max(bb, 0) * x * x / (4 * dp * sig * sig * sig) / invSqrtPi
+			}
 		}
 		return v
 	}
@@ -154,6 +179,10 @@ func exact3D(pt Point, t float64, p Params, s Source, h History, rel float64) fl
 		sa, _ := shape(a)
 		sb, rb := shape(b)
 		v := math.Exp(-(m-u0)*(m+u0)) * rb * (b - a)
+		if flux {
+			v *= 2 * beta / (sa * sa) / rb * sb * sb / (sb*sb + s2)
+			v = math.Min(v, 2*(b-a)*math.Exp(-(m-u0)*(m+u0)))
+		}
 		if ky != 0 {
 			v *= math.Min(stripBound(y, halfW, sa*ky), stripBoundAbove(y, halfW, sb*ky))
 		}
@@ -173,7 +202,7 @@ func exact3D(pt Point, t float64, p Params, s Source, h History, rel float64) fl
 	}
 	// Around the peak of the weight, on the scale of its width.
 	w := 1 / (1 + math.Abs(u0))
-	for _, k := range []float64{0, 1.5, 3.5, 6.5, 12, 24, 40} {
+	for _, k := range []float64{0, 2, 6.5, 12, 24, 40} {
 		add(u0 + k*w)
 		if k > 0 {
 			add(u0 - k*w)

@@ -13,10 +13,12 @@ import "math"
 // source was active and so never subtracts nearly equal values.
 //
 // Third-type inlet: superposition of OgataBanksFlux, C(t) - C(t - Duration),
-// and for a depleting source the same substitution as above where
-// h.Depletion <= Mu, otherwise the identity
-// C_flux(x, t) = integral_0^inf exp(-s) C_conc(x + s D/V, t) ds over the
-// first-type solution for the same history.
+// and for a depleting source the same substitution as above while the
+// effective rate Mu - g keeps w = sqrt(V^2 + 4DR(Mu - g)) real. Where these
+// closed forms do not apply (or would subtract nearly equal values), the
+// time integral of the column's response to a pulse of solute flux against
+// the history, in the same variable and with the same error control as
+// Exact3DAt (relative accuracy 1e-6).
 func OgataBanksAt(x, t float64, p Params, inlet Inlet, h History) float64 {
 	if x < 0 || !(t > 0) || math.IsNaN(x) {
 		return 0
@@ -53,9 +55,9 @@ func OgataBanksAt(x, t float64, p Params, inlet Inlet, h History) float64 {
 			return clamp01(c)
 		}
 	}
+	inf := math.Inf(1)
 	if inlet == ThirdType {
-		c1 := func(xx float64) float64 { return OgataBanksAt(xx, t, p, FirstType, h) }
-		return clamp01(fluxIntegral(x, t, p, c1, !h.finite() && g <= p.Mu, 1e-6))
+		return clamp01(exact3DKernel(Point{X: x}, t, p, Source{Width: inf, Depth: inf}, h, exactRelTol, true))
 	}
-	return Exact3DAt(Point{X: x}, t, p, Source{Width: math.Inf(1), Depth: math.Inf(1)}, h)
+	return Exact3DAt(Point{X: x}, t, p, Source{Width: inf, Depth: inf}, h)
 }

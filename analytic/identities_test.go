@@ -266,3 +266,28 @@ func TestRandomInputsStayFiniteAndBounded(t *testing.T) {
 		}
 	}
 }
+
+// The flux-pulse kernel path of the 1D flux inlet reproduces the closed form
+// (van Genuchten & Alves 1982) for a constant source with and without decay,
+// and its steady state 2V/(V+w) exp((V-w)x/(2D)).
+func TestFluxKernelMatchesClosedForm(t *testing.T) {
+	inf := math.Inf(1)
+	for _, p := range []Params{{V: 0.1, Dx: 1, R: 1.4}, {V: 0.1, Dx: 1, R: 1.4, Mu: 1e-3}, {V: 1, Dx: 0.01, R: 2, Mu: 0.05}} {
+		for _, x := range []float64{0.5, 10, 80} {
+			for _, tt := range []float64{30, 300, 3000, inf} {
+				want := OgataBanksFlux(x, tt, p)
+				got := exact3DKernel(Point{X: x}, tt, p, Source{inf, inf}, History{}, exactRelTol, true)
+				if want > 1e-250 && relErr(got, want) > 1e-6 {
+					t.Errorf("p=%+v x=%v t=%v: kernel path %v, closed form %v", p, x, tt, got, want)
+				}
+			}
+		}
+	}
+	// The slow case reported by the domain layer: depletion far faster
+	// than decay, so that V^2 + 4DR(Mu - g) < 0.
+	p := Params{V: 9.81e-4, Dx: 7.81e-3, R: 2.162, Mu: 1.615e-5}
+	c := OgataBanksAt(7.27, 1e6, p, ThirdType, History{Depletion: 1.7185e-3})
+	if math.IsNaN(c) || c < 0 || c > 1 {
+		t.Errorf("depleting flux inlet gave %v", c)
+	}
+}

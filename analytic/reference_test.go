@@ -288,8 +288,8 @@ func TestReferenceExact3DAndDomenico(t *testing.T) {
 		// Time integral of the continuous patch source (the point-source
 		// kernel integrated over the source and over time, e.g. Wexler 1992,
 		// USGS TWRI 3-B7, with a water-table image); values from mpmath.quad
-		// at 40 digits, tanh-sinh and Gauss-Legendre on different subinterval
-		// sets agreeing to 1e-25 (testdata/reference/gen_analytic.py).
+		// at 40 digits, tanh-sinh and Gauss-Legendre rules agreeing to 1e-25
+		// (testdata/reference/gen_analytic.py).
 		// Tolerance 1e-6: the documented accuracy of Exact3D.
 		ex.check(t, c.Label, Exact3D(x, y, z, tt, p, s), float64(c.Exact), 0, 1e-6)
 		// Domenico (1987), J. Hydrol. 91:49-58, formula as in

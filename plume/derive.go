@@ -80,6 +80,7 @@ type model struct {
 	width      float64    // source width, m (+Inf for 1D)
 	depth      float64    // source depth, m (+Inf for 1D)
 	relDepth   float64    // release depth of an instantaneous mass, m
+	geomUnused bool       // width or depth given for an instantaneous release (not used)
 	start      float64    // source start, d
 	duration   float64    // release duration, d (+Inf = continuous)
 	depletion  float64    // source depletion rate, 1/d
@@ -121,7 +122,6 @@ func derive(c Scenario, maxPlumeX float64) *model {
 	} else {
 		m.v = SeepageVelocity(*a.HydraulicConductivity, *a.HydraulicGradient, m.porosity)
 		d.SeepageVelocitySource = OriginDarcy
-		estimated("aquifer.seepage_velocity")
 	}
 	// Retardation.
 	if k.Retardation != nil {
@@ -136,7 +136,6 @@ func derive(c Scenario, maxPlumeX float64) *model {
 		d.Koc = ptr(*koc)
 		m.r = Retardation(*a.BulkDensity, *koc, *a.OrganicCarbonFraction, m.porosity)
 		d.RetardationSource = OriginSorption
-		estimated("contaminant.retardation")
 	}
 	// Decay.
 	hl := k.HalfLife
@@ -228,6 +227,7 @@ func derive(c Scenario, maxPlumeX float64) *model {
 		if s.ReleaseDepth != nil {
 			m.relDepth = *s.ReleaseDepth
 		}
+		m.geomUnused = s.Width != nil || s.Depth != nil
 	case s.Width != nil:
 		m.kind = SourceKind3D
 		m.c0 = *s.Concentration

@@ -59,15 +59,12 @@ func (m *model) strength(tau float64) float64 {
 }
 
 // closedForm evaluates the exact (exact == true) or Domenico value at the
-// receptor at absolute time t, d (+Inf for the steady state), in mg/L.
-// Domenico is not defined for an instantaneous release (returns 0).
-func (m *model) closedForm(exact bool, p point, t float64) float64 {
-	tau := t - m.start
-	if math.IsInf(t, 1) {
-		tau = t
-		if !m.continuous() {
-			return 0 // the source is spent; everything leaves or decays
-		}
+// receptor at elapsed time tau since the source started, d (+Inf for the
+// steady state), in mg/L. Domenico is not defined for an instantaneous
+// release (returns 0).
+func (m *model) closedForm(exact bool, p point, tau float64) float64 {
+	if math.IsInf(tau, 1) && !m.continuous() {
+		return 0 // the source is spent; everything leaves or decays
 	}
 	if !(tau > 0) {
 		return 0

@@ -123,8 +123,9 @@ func (m *model) findPeak(f func(float64) float64, p point, steady float64, extra
 }
 
 // firstExceedance returns the earliest elapsed time, d, at which f reaches
-// level (mg/L), or ok == false when it never does. pk is the receptor's peak.
-func (m *model) firstExceedance(f func(float64) float64, p point, pk peakResult, level float64) (tau float64, ok bool) {
+// level (mg/L), or ok == false when it never does. pk is the receptor's
+// peak; known holds values of f already computed (the requested times).
+func (m *model) firstExceedance(f func(float64) float64, p point, pk peakResult, known timeline, level float64) (tau float64, ok bool) {
 	if !(pk.c >= level) || p.upgradient {
 		return 0, false
 	}
@@ -134,26 +135,47 @@ func (m *model) firstExceedance(f func(float64) float64, p point, pk peakResult,
 	g := func(t float64) float64 { return f(t) - level }
 	const rel = 1e-12
 	if m.continuous() {
-		// Monotone in t: double up from the characteristic time until the
-		// level is reached, then halve down for a lower bracket.
-		hi := m.charTime(p)
-		fhi := g(hi)
-		for i := 0; fhi < 0 && i < 80; i++ {
-			hi *= 2
+		// Monotone in t. Bracket from the known samples (the requested
+		// times) when they straddle the level; otherwise double up from the
+		// characteristic time until the level is reached, then halve down.
+		lo, flo, hi, fhi := 0.0, -level, math.Inf(1), math.NaN()
+		for i, t := range known.tau {
+			if !(t > 0) || math.IsInf(t, 1) {
+				continue
+			}
+			if g := known.c[i] - level; g >= 0 && t < hi {
+				hi, fhi = t, g
+			}
+		}
+		for i, t := range known.tau {
+			if t > lo && t < hi && known.c[i] < level {
+				lo, flo = t, known.c[i]-level
+			}
+		}
+		if math.IsInf(hi, 1) {
+			hi = math.Max(m.charTime(p), lo)
 			fhi = g(hi)
+			for i := 0; fhi < 0 && i < 80; i++ {
+				lo, flo = hi, fhi
+				hi *= 2
+				fhi = g(hi)
+			}
+			if fhi < 0 {
+				return 0, false // reached only in the limit
+			}
 		}
-		if fhi < 0 {
-			return 0, false // reached only in the limit
-		}
-		lo := hi / 2
-		flo := g(lo)
-		for i := 0; flo >= 0 && i < 200; i++ {
-			hi, fhi = lo, flo
-			lo /= 2
+		if lo == 0 {
+			// Halve down for a lower bracket with a positive time.
+			lo = hi / 2
 			flo = g(lo)
-		}
-		if flo >= 0 {
-			return lo, true
+			for i := 0; flo >= 0 && i < 200; i++ {
+				hi, fhi = lo, flo
+				lo /= 2
+				flo = g(lo)
+			}
+			if flo >= 0 {
+				return lo, true
+			}
 		}
 		return brentRoot(g, lo, hi, flo, fhi, rel*hi, 200), true
 	}

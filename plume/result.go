@@ -36,8 +36,7 @@ type Derived struct {
 	SeepageVelocitySource string `json:"seepage_velocity_source"`
 	// Retardation factor R, dimensionless.
 	Retardation float64 `json:"retardation"`
-	// How R was obtained: "given", "sorption" (R = 1 + rho_b Koc f_oc / n_e)
-	// or "none" (R = 1: no sorption data, no Koc).
+	// How R was obtained: "given" or "sorption" (R = 1 + rho_b Koc f_oc / n_e).
 	RetardationSource string `json:"retardation_source"`
 	// Koc used for R, L/kg; null when R was given.
 	Koc *float64 `json:"koc"`
@@ -69,7 +68,8 @@ type Derived struct {
 	SourceKind string `json:"source_kind"`
 	// Inlet condition of the 1D column: "concentration" or "flux"; empty otherwise.
 	Inlet string `json:"inlet,omitempty"`
-	// JSON paths of the values estimated by the engine (e.g. "aquifer.dispersivity.longitudinal").
+	// JSON paths of the values estimated by the engine rather than given or
+	// computed from given data (e.g. "aquifer.dispersivity.longitudinal").
 	Estimated []string `json:"estimated"`
 	// JSON paths of the values taken from the contaminant reference table.
 	FromReferenceTable []string `json:"from_reference_table"`
@@ -179,22 +179,38 @@ type Agreement struct {
 }
 
 // NumericReport describes the finite-volume grid the numeric method used.
+// The 3D grid covers half the plume (y >= 0; the solution is symmetric).
 type NumericReport struct {
-	// Number of cells along x, y and z.
+	// Which solver ran: "3d" (rectangular source) or "1d" (column).
+	Solver string `json:"solver"`
+	// Number of cells along x, y and z (1 and 1 for the column).
 	Cells [3]int `json:"cells"`
 	// Total number of cells.
 	TotalCells int `json:"total_cells"`
-	// Cell sizes along x, y, z, L (smallest, where the grid is graded).
+	// Smallest cell size along x, y, z, L (the grid is graded).
 	Spacing [3]float64 `json:"spacing"`
-	// Extent of the grid: x from XMin to XMax, y from -YHalf to YHalf, z from 0 to ZMax, L.
-	XMin  float64 `json:"x_min"`
-	XMax  float64 `json:"x_max"`
+	// Largest cell size along x, y, z, L.
+	MaxSpacing [3]float64 `json:"max_spacing"`
+	// Grid extent along flow from the source face: x from XMin to XMax, L.
+	XMin float64 `json:"x_min"`
+	// See XMin, L.
+	XMax float64 `json:"x_max"`
+	// Half-width of the grid across flow (from the plume axis), L.
 	YHalf float64 `json:"y_half"`
-	ZMax  float64 `json:"z_max"`
+	// Depth of the grid below the water table, L.
+	ZMax float64 `json:"z_max"`
+	// Largest grid Peclet number along flow, v dx / D_x, dimensionless.
+	GridPeclet float64 `json:"grid_peclet"`
+	// Largest time step, T.
+	TimeStep float64 `json:"time_step"`
+	// Largest Courant number v dt / (R dx), dimensionless.
+	Courant float64 `json:"courant"`
 	// Number of time steps taken.
 	TimeSteps int `json:"time_steps"`
-	// Relative mass-balance error of the run, dimensionless.
+	// Closure error of the mass budget relative to the mass in, dimensionless.
 	MassBalanceError float64 `json:"mass_balance_error"`
+	// Cell budget the grid had to fit in.
+	CellBudget int `json:"cell_budget"`
 }
 
 // Caveat severities.

@@ -1,0 +1,122 @@
+package plume
+
+import "math"
+
+// fromCanonical converts a result computed in m, d, mg/L into the request's
+// units (factors f: request unit -> canonical).
+func (r *Result) fromCanonical(f unitFactors) {
+	L, T, C := f.L, f.T, f.C
+	d := &r.Derived
+	d.SeepageVelocity /= L / T
+	d.HalfLife = scaled(d.HalfLife, 1/T)
+	d.DecayRate *= T
+	d.EffectiveDecayRate *= T
+	d.Dispersivity = DispersivityValues{d.Dispersivity.Longitudinal / L, d.Dispersivity.Transverse / L, d.Dispersivity.Vertical / L}
+	k := L * L / T
+	d.Dispersion = DispersionValues{d.Dispersion.Longitudinal / k, d.Dispersion.Transverse / k, d.Dispersion.Vertical / k}
+	d.TravelDistance = scaled(d.TravelDistance, 1/L)
+	d.ScreeningLevel = scaled(d.ScreeningLevel, 1/C)
+	d.Solubility = scaled(d.Solubility, 1/C)
+
+	conc := func(p *float64) *float64 { return scaled(p, 1/C) }
+	for i := range r.Receptors {
+		rr := &r.Receptors[i]
+		rr.PlumeX /= L
+		rr.PlumeY /= L
+		rr.Z /= L
+		rr.ScreenTop = scaled(rr.ScreenTop, 1/L)
+		rr.ScreenBottom = scaled(rr.ScreenBottom, 1/L)
+		for j := range rr.Series {
+			sp := &rr.Series[j]
+			sp.Exact, sp.Domenico, sp.Numeric = conc(sp.Exact), conc(sp.Domenico), conc(sp.Numeric)
+			// sp.Time is the request's own value, echoed unconverted.
+		}
+		ss := &rr.SteadyState
+		ss.Exact, ss.Domenico, ss.Numeric = conc(ss.Exact), conc(ss.Domenico), conc(ss.Numeric)
+		rr.Peak.Time = scaled(rr.Peak.Time, 1/T)
+		rr.Peak.Concentration /= C
+		rr.FirstExceedanceTime = scaled(rr.FirstExceedanceTime, 1/T)
+		if a := rr.NumericAgreement; a != nil {
+			a.Floor /= C
+			// a.Time is a requested time, already in the request's unit.
+		}
+	}
+	if n := r.Numeric; n != nil {
+		for i := range n.Spacing {
+			n.Spacing[i] /= L
+			n.MaxSpacing[i] /= L
+		}
+		n.TimeStep /= T
+		n.XMin /= L
+		n.XMax /= L
+		n.YHalf /= L
+		n.ZMax /= L
+	}
+}
+
+// sanitize replaces any NaN or infinity left in r (none should be) by a
+// finite value, and negative concentrations by 0.
+func (r *Result) sanitize() {
+	fix := func(x *float64) { *x = clean(*x) }
+	fixP := func(p *float64) {
+		if p != nil {
+			*p = clean(*p)
+		}
+	}
+	conc := func(p *float64) {
+		if p != nil {
+			*p = math.Max(clean(*p), 0)
+		}
+	}
+	d := &r.Derived
+	for _, x := range []*float64{&d.SeepageVelocity, &d.Retardation, &d.DecayRate, &d.EffectiveDecayRate,
+		&d.Dispersivity.Longitudinal, &d.Dispersivity.Transverse, &d.Dispersivity.Vertical,
+		&d.Dispersion.Longitudinal, &d.Dispersion.Transverse, &d.Dispersion.Vertical} {
+		fix(x)
+	}
+	for _, p := range []*float64{d.Koc, d.HalfLife, d.TravelDistance, d.ScreeningLevel, d.Solubility} {
+		fixP(p)
+	}
+	for i := range r.Receptors {
+		rr := &r.Receptors[i]
+		fix(&rr.PlumeX)
+		fix(&rr.PlumeY)
+		fix(&rr.Z)
+		fixP(rr.ScreenTop)
+		fixP(rr.ScreenBottom)
+		for j := range rr.Series {
+			sp := &rr.Series[j]
+			fix(&sp.Time)
+			conc(sp.Exact)
+			conc(sp.Domenico)
+			conc(sp.Numeric)
+		}
+		conc(rr.SteadyState.Exact)
+		conc(rr.SteadyState.Domenico)
+		conc(rr.SteadyState.Numeric)
+		fixP(rr.Peak.Time)
+		conc(&rr.Peak.Concentration)
+		fixP(rr.FirstExceedanceTime)
+		fixP(rr.DomenicoDeviation)
+		if a := rr.NumericAgreement; a != nil {
+			fix(&a.MaxRelativeDifference)
+			fix(&a.Time)
+			fix(&a.Tolerance)
+			fix(&a.Floor)
+		}
+	}
+	if n := r.Numeric; n != nil {
+		for i := range n.Spacing {
+			fix(&n.Spacing[i])
+			fix(&n.MaxSpacing[i])
+		}
+		fix(&n.GridPeclet)
+		fix(&n.TimeStep)
+		fix(&n.Courant)
+		fix(&n.XMin)
+		fix(&n.XMax)
+		fix(&n.YHalf)
+		fix(&n.ZMax)
+		fix(&n.MassBalanceError)
+	}
+}
