@@ -217,7 +217,9 @@ func TestExactQuadratureConverged(t *testing.T) {
 // or (without decay, for the relative solutions) a value above the source.
 func TestRandomInputsStayFiniteAndBounded(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
-	logU := func(lo, hi float64) float64 { return math.Exp(math.Log(lo) + rng.Float64()*(math.Log(hi)-math.Log(lo))) }
+	logU := func(lo, hi float64) float64 {
+		return math.Exp(math.Log(lo) + rng.Float64()*(math.Log(hi)-math.Log(lo)))
+	}
 	n := 1500
 	if testing.Short() {
 		n = 300

@@ -21,19 +21,36 @@
 //     limiter), total variation diminishing for Courant numbers up to 1, so it
 //     creates no negative values and no overshoot above the source at any
 //     grid Peclet number;
-//   - dispersion, one direction at a time: backward Euler, each direction a
-//     set of symmetric positive definite tridiagonal systems factored once per
-//     time step size with LAPACK Dpttrf (gonum) and solved for many right-hand
-//     sides; backward Euler is unconditionally stable and keeps the maximum
-//     principle (no new extrema);
+//   - dispersion, one direction at a time: a theta-scheme between
+//     Crank-Nicolson and backward Euler (the smallest theta >= 1/2 that keeps
+//     every coefficient non-negative), each direction a set of symmetric
+//     positive definite tridiagonal systems factored once per time step size
+//     with LAPACK Dpttrf (gonum) and solved for many right-hand sides; it is
+//     unconditionally stable and keeps the maximum principle (no new
+//     extrema);
 //   - decay: the exact factor exp(-Mu dt).
 //
-// Splitting (Lie order: advection, dispersion x, y, z, decay) is first order
-// in the time step; the time step is set by the Courant limit V dt/(R dx) <=
-// Courant (default 1) which the caller can tighten to reduce the splitting
-// error. Advection and dispersion with constant coefficients commute away from
-// boundaries, so the splitting error is confined to the inlet and is small in
-// practice (tests measure it).
+// The order of the split operators is reversed from one step to the next
+// (advection, dispersion, decay, then decay, dispersion, advection), so each
+// pair of steps is a symmetric (Strang) composition, second order in the
+// time step; the time step is set by the Courant limit V dt/(R dx) <=
+// Courant (default 1), which the caller can tighten, and on the automatic 3D
+// grid also by at least 16 steps over the travel time to the nearest
+// receptor. In the 1D solver, where the positivity-preserving theta exceeds
+// 1/2 the dispersion step first tries Crank-Nicolson and keeps it when it
+// adds no variation and stays within the old range; the third-type inlet
+// flux is shared between the advection and dispersion sub-steps as the
+// Robin condition shares it between the two fluxes. Measured orders at a
+// fixed Courant number: 1.45 (first-type inlet), 1.97 (third-type), 1.45
+// (3D); about 2 with dt refined like dx^2.
+//
+// Steady states (an output time of +Inf) are solved directly from the steady
+// balance of the cells with the same face fluxes, not by marching, so they
+// carry no splitting error: in 1D by Picard iteration on the
+// positive-coefficient form of the limited fluxes with LAPACK Dgtsv, in 3D
+// by defect correction with an ADI preconditioner (see steady3d.go); both
+// iterate until the summed absolute cell residual is below SteadyTolerance
+// of the inflow, and report the iterations and the steady budget in rates.
 //
 // Every run keeps a mass budget (mass in through the inlet by advection and by
 // dispersion, out through the outflow face, decayed, stored) whose closure

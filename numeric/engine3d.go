@@ -11,6 +11,7 @@ type grid3 struct {
 	xc, yc, zc     []float64
 	dx, dy, dz     []float64
 	v, r           float64
+	dDisp          [3]float64 // Dx, Dy, Dz
 
 	c, buf []float64 // field and work array, len nx*np
 	fin    []float64 // face flux plane (advection)
@@ -35,7 +36,7 @@ type grid3 struct {
 }
 
 func newGrid3(x, y, z Axis, v, dxc, dyc, dzc, r, mu, halfWidth, depth float64, hist History) *grid3 {
-	g := &grid3{nx: x.N(), ny: y.N(), nz: z.N(), x: x, y: y, z: z, v: v, r: r, mu: mu, hist: hist}
+	g := &grid3{nx: x.N(), ny: y.N(), nz: z.N(), x: x, y: y, z: z, v: v, r: r, mu: mu, hist: hist, dDisp: [3]float64{dxc, dyc, dzc}}
 	g.np = g.ny * g.nz
 	g.xc, g.yc, g.zc = x.centers(), y.centers(), z.centers()
 	g.dx, g.dy, g.dz = x.widths(), y.widths(), z.widths()

@@ -13,8 +13,9 @@ var ErrInvalid = errors.New("numeric: invalid input")
 // requested accuracy exceeds the caller's cell budget.
 var ErrBudget = errors.New("numeric: cell budget exceeded")
 
-// ErrNotConverged is wrapped when a steady state was asked for and the
-// solution did not settle within the marching limit.
+// ErrNotConverged is wrapped when a steady state was asked for and its
+// iterative solution did not reach SteadyTolerance within the iteration
+// limit.
 var ErrNotConverged = errors.New("numeric: steady state not reached")
 
 func invalid(field, format string, args ...any) error {

@@ -16,6 +16,9 @@ type model interface {
 	sample(t float64, out []float64)
 	// storedMass is the mass in the domain now.
 	storedMass() float64
+	// solveSteady replaces the field by the steady state of a constant
+	// source, computed directly (no time stepping).
+	solveSteady(ctx context.Context) (steadyStats, error)
 }
 
 // marchPlan says where to stop and how long a step may be.
@@ -23,28 +26,19 @@ type marchPlan struct {
 	times      []float64 // ascending output times, >= 0; the last may be +Inf
 	switchOff  float64   // source switch-off time (+Inf: none); a step boundary
 	dtMax      float64   // largest step (Courant limit)
-	tMinSteady float64   // steady state: do not test convergence before this time
-	tCapSteady float64   // steady state: give up after this time
-	window     float64   // steady state: interval between convergence tests
 	steadyZero bool      // the source switches off or depletes: the steady state is 0
 }
 
-// Steady-state tolerance: the receptor values and the stored mass change by
-// less than this (relative, with an absolute floor for receptor values) over
-// one test window.
-const (
-	steadyRelTol = 1e-8
-	steadyAbsTol = 1e-11
-)
-
 type marchStats struct {
-	steps      int
-	steadyTime float64 // time reached when the steady state was accepted (0 if not asked)
-	dtLast     float64
+	steps  int
+	dtLast float64
+	steady *steadyStats // set when a (non-zero) steady state was solved
 }
 
 // march advances m through the plan and returns values[receptor][time].
-func march(ctx context.Context, m model, nrec int, p marchPlan) ([][]float64, marchStats, error) {
+// marchedMass receives the stored mass at the end of the time stepping
+// (before a steady state replaces the field).
+func march(ctx context.Context, m model, nrec int, p marchPlan, marchedMass *float64) ([][]float64, marchStats, error) {
 	var st marchStats
 	vals := make([][]float64, nrec)
 	for r := range vals {
@@ -111,9 +105,14 @@ func march(ctx context.Context, m model, nrec int, p marchPlan) ([][]float64, ma
 			continue
 		}
 		if math.IsInf(target, 1) {
-			if err := runSteady(m, &t, p, buf, nrec, step, &st); err != nil {
+			*marchedMass = m.storedMass()
+			ss, err := m.solveSteady(ctx)
+			if err != nil {
 				return nil, st, err
 			}
+			st.steady = &ss
+			// Sampled as at t = 0, when the (constant) source is on.
+			m.sample(0, buf)
 			put(ti)
 			continue
 		}
@@ -123,54 +122,8 @@ func march(ctx context.Context, m model, nrec int, p marchPlan) ([][]float64, ma
 		m.sample(t, buf)
 		put(ti)
 	}
-	return vals, st, nil
-}
-
-func runSteady(m model, t *float64, p marchPlan, buf []float64, nrec int,
-	step func(t0, t1 float64) error, st *marchStats) error {
-	// Steps of dtMax in windows of an even number of steps: the split
-	// operators alternate their order from step to step, so the state is
-	// compared at the same parity.
-	dt := p.dtMax
-	nw := 2 * int(math.Ceil(p.window/dt/2))
-	prev := make([]float64, nrec)
-	m.sample(*t, prev)
-	prevMass := m.storedMass()
-	for {
-		for k := 0; k < nw; k++ {
-			if err := step(*t, *t+dt); err != nil {
-				return err
-			}
-			*t += dt
-		}
-		m.sample(*t, buf)
-		mass := m.storedMass()
-		ok := *t >= p.tMinSteady && math.Abs(mass-prevMass) <= steadyRelTol*math.Abs(mass)
-		for r := 0; ok && r < nrec; r++ {
-			if math.Abs(buf[r]-prev[r]) > steadyAbsTol+steadyRelTol*math.Abs(buf[r]) {
-				ok = false
-			}
-		}
-		if ok {
-			// The two orders of the split step leave states a splitting
-			// error O(dt) apart on either side of the steady state; their
-			// mean cancels the leading term.
-			if err := step(*t, *t+dt); err != nil {
-				return err
-			}
-			*t += dt
-			m.sample(*t, prev)
-			for r := range buf {
-				buf[r] = 0.5 * (buf[r] + prev[r])
-			}
-			st.steadyTime = *t
-			return nil
-		}
-		if *t > p.tCapSteady {
-			return fmt.Errorf("%w: still changing at t = %g (limit %g); receptor or mass change over the last %g exceeds %g relative",
-				ErrNotConverged, *t, p.tCapSteady, float64(nw)*dt, steadyRelTol)
-		}
-		copy(prev, buf)
-		prevMass = mass
+	if len(p.times) == 0 || !math.IsInf(p.times[len(p.times)-1], 1) || p.steadyZero {
+		*marchedMass = m.storedMass()
 	}
+	return vals, st, nil
 }

@@ -56,13 +56,19 @@ type Problem1D struct {
 }
 
 // Result1D holds the concentrations at the receptors, the grid and the mass
-// budget.
+// budget. Budget covers the time stepping to the last finite output time
+// (all zero when only the steady state was asked for).
 type Result1D struct {
 	C      [][]float64 // C/C0 at receptor r and output time k: C[r][k]
 	Grid   GridReport
 	Budget MassBudget
+	// SteadyBudget is the budget (in rates) of the steady state when one
+	// was asked for (Times ending with +Inf) and the source is constant;
+	// nil otherwise.
+	SteadyBudget *SteadyBudget
 	// Centers and Final are the cell centres (L) and the concentrations
-	// (C/C0) in them at the end of the run.
+	// (C/C0) in them at the end of the run (the steady state when one was
+	// asked for).
 	Centers []float64
 	Final   []float64
 }
@@ -228,16 +234,20 @@ func Screen1D(ctx context.Context, p Problem1D) (*Result1D, error) {
 		}
 	}
 	pe = math.Max(pe, p.V*axis.Width(0)/p.Dx)
-	gIn := 0.0
-	if p.Inlet == InletConcentration {
-		gIn = a0 * p.Dx / (0.5 * axis.Width(0))
+	gIn := a0 * p.Dx / (0.5 * axis.Width(0))
+	gFirst := gIn
+	if p.Inlet == InletFlux {
+		gIn = gIn * q / (gIn + q)
+		gFirst = 0
 	}
 	m := &column{
 		n: n, centers: centers, stor: stor, half1mc: make([]float64, n), q: q,
-		disp: newDispersionMatrix(stor, cond, gIn), inv: invert(stor), gIn: gIn, mu: p.Mu,
+		disp: newDispersionMatrix(stor, cond, gFirst), inv: invert(stor), gIn: gIn, mu: p.Mu,
 		c: make([]float64, n), rhs: make([]float64, n), hist: p.History,
 		inletFirst: p.Inlet == InletConcentration, rec: p.Receptors,
 	}
+	m.dispCN = newDispersionMatrix(stor, cond, gFirst)
+	m.dispCN.fixedTheta = 0.5
 	// Courant limit on the smallest storage per unit flow.
 	courant := orDefault(p.Courant, 1)
 	dtMax := math.Inf(1)
@@ -245,16 +255,12 @@ func Screen1D(ctx context.Context, p Problem1D) (*Result1D, error) {
 		dtMax = math.Min(dtMax, courant*s/q)
 	}
 	L := axis.Length()
-	tRes := 0.0 // residence time of the domain: stored volume over flow
-	for _, s := range stor {
-		tRes += s / q
-	}
+	var marchedMass float64
 	plan := marchPlan{
 		times: p.Times, switchOff: p.History.switchOff(), dtMax: dtMax,
-		tMinSteady: 1.5 * tRes, tCapSteady: 200*tRes + 1e4*dtMax,
-		window: math.Max(0.02*tRes, dtMax), steadyZero: p.History.switchOff() < math.Inf(1) || p.History.Depletion > 0,
+		steadyZero: p.History.switchOff() < math.Inf(1) || p.History.Depletion > 0,
 	}
-	vals, st, err := march(ctx, m, len(p.Receptors), plan)
+	vals, st, err := march(ctx, m, len(p.Receptors), plan, &marchedMass)
 	if err != nil {
 		return nil, err
 	}
@@ -263,13 +269,18 @@ func Screen1D(ctx context.Context, p Problem1D) (*Result1D, error) {
 		C: vals,
 		Grid: GridReport{NX: n, NY: 1, NZ: 1, Cells: n, XLength: L, DXMin: dxMin, DXMax: dxMax,
 			PecletX: pe, TimeStep: dtMax, Courant: q * dtMax / minSlice(stor),
-			Steps: st.steps, CellSteps: float64(n) * float64(st.steps), SteadyTime: st.steadyTime},
-		Budget:  m.acc.result(m.storedMass(), 1),
+			Steps: st.steps, CellSteps: float64(n) * float64(st.steps)},
+		Budget:  m.acc.result(marchedMass, 1),
 		Centers: centers,
 		Final:   append([]float64(nil), m.c...),
 	}
 	if st.steps == 0 {
 		res.Grid.TimeStep, res.Grid.Courant = 0, 0
+	}
+	if st.steady != nil {
+		b := st.steady.budget
+		res.SteadyBudget = &b
+		res.Grid.SteadyIterations, res.Grid.SteadyResidual = st.steady.iterations, st.steady.residual
 	}
 	return res, nil
 }

@@ -23,7 +23,10 @@ type GridReport struct {
 	// Steps is the number of time steps; CellSteps = Cells * Steps, the work.
 	Steps     int
 	CellSteps float64
-	// SteadyTime is the simulated time at which the steady state was accepted
-	// (0 when no steady state was asked for).
-	SteadyTime float64
+	// SteadyIterations is the number of iterations of the steady-state
+	// solver (0 when no steady state was solved) and SteadyResidual its
+	// final residual: the summed absolute mass-balance residual of the
+	// cells relative to the inflow rate (at most SteadyTolerance).
+	SteadyIterations int
+	SteadyResidual   float64
 }

@@ -33,7 +33,10 @@ type dispersionMatrix struct {
 	dinv  []float64 // 1/d
 	dt    float64
 	theta float64
-	ex    float64 // (1 - theta) dt
+	// fixedTheta, when > 0, is used instead of the positivity-preserving
+	// choice (Crank-Nicolson candidate steps of the 1D solver).
+	fixedTheta float64
+	ex         float64 // (1 - theta) dt
 }
 
 func newDispersionMatrix(stor, cond []float64, gLo float64) *dispersionMatrix {
@@ -66,10 +69,13 @@ func (m *dispersionMatrix) factor(dt float64) {
 	}
 	n := len(m.stor)
 	theta := 0.5
-	for i := 0; i < n; i++ {
+	for i := 0; i < n && m.fixedTheta == 0; i++ {
 		if k := m.diagK(i); k > 0 {
 			theta = math.Max(theta, 1-m.stor[i]/(dt*k))
 		}
+	}
+	if m.fixedTheta > 0 {
+		theta = m.fixedTheta
 	}
 	td := theta * dt
 	for i := 0; i < n; i++ {

@@ -96,7 +96,7 @@ func (m *model) addCaveats(res *Result, pts []point, run methods, opt Options, u
 				fm.length(p.px))
 		case p.inside:
 			res.caveat(CaveatReceptorInsideSource, SeverityWarning, p.id,
-				"The receptor lies within the source footprint (%s along the flow from the source's downgradient face): values reported are the source concentration.",
+				"The receptor lies within the source zone (%s along the flow from the source's downgradient face; the zone is taken as the source footprint reaching one source width upgradient of that face): values reported are the source concentration.",
 				fm.length(p.px))
 		}
 		if rr.DomenicoDeviation != nil && *rr.DomenicoDeviation > opt.DomenicoTolerance {

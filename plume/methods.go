@@ -21,14 +21,17 @@ type point struct {
 func (p point) mid() float64 { return 0.5 * (p.top + p.bot) }
 
 // classify marks receptors upgradient of or inside a continuous source: the
-// planar-source model covers only px > 0. Inside the footprint (|py| <= W/2
-// and top <= source depth; every px <= 0 for a 1D column) the value reported
-// is the source concentration; elsewhere upgradient it is 0.
+// planar-source model covers only px > 0. Inside the source zone the value
+// reported is the source concentration; elsewhere upgradient it is 0. The
+// planar source has no length along flow, so this service takes the source
+// zone to be its footprint (|py| <= W/2, top <= source depth) from the
+// downgradient face back one source width upgradient (our convention, stated
+// in the caveat); for a 1D column every px <= 0 is the inlet.
 func (m *model) classify(p *point) {
 	if m.kind == SourceKindInstantaneous || p.px > 0 {
 		return
 	}
-	if m.kind == SourceKind1D || (math.Abs(p.py) <= m.width/2 && p.top <= m.depth) {
+	if m.kind == SourceKind1D || (math.Abs(p.py) <= m.width/2 && p.top <= m.depth && p.px >= -m.width) {
 		p.inside = true
 	} else {
 		p.upgradient = true

