@@ -165,10 +165,6 @@ func scenarioFromQuery(q url.Values, params openapi3.Parameters) (sc plume.Scena
 	if err != nil {
 		return sc, false, "", newProblem(kindMalformed, "the query does not form a scenario: "+err.Error())
 	}
-	if steady && method == plume.MethodNumeric {
-		return sc, false, "", newProblem(kindInvalid, "the numeric method is not run to steady state",
-			FieldProblem{Field: paramMethod, Message: "numeric has no steady state; use exact or domenico with time=steady, or give a time"})
-	}
 	return sc, steady, method, nil
 }
 

@@ -156,7 +156,24 @@ func (m *model) attachNumeric(res *Result, nr *numericRun, pts []point, times, t
 			if math.Max(*e, v) >= floor && *e > 0 {
 				d := math.Abs(v-*e) / math.Max(*e, floor)
 				if !compared || d > ag.MaxRelativeDifference {
-					ag.MaxRelativeDifference, ag.Time = d, times[j]
+					ag.MaxRelativeDifference, ag.Time, ag.AtSteadyState = d, times[j], false
+				}
+				compared = true
+			}
+		}
+		if nr.steady != nil && !math.IsNaN(nr.steady[i]) {
+			v := nr.steady[i]
+			rr.SteadyState.Numeric = ptr(v)
+			e := rr.SteadyState.Exact
+			if e == nil {
+				ev := m.closedForm(true, pts[i], math.Inf(1))
+				e = &ev
+			}
+			if math.Max(*e, v) >= floor && *e > 0 {
+				d := math.Abs(v-*e) / math.Max(*e, floor)
+				ag.SteadyStateRelativeDifference = ptr(d)
+				if !compared || d > ag.MaxRelativeDifference {
+					ag.MaxRelativeDifference, ag.Time, ag.AtSteadyState = d, 0, true
 				}
 				compared = true
 			}
@@ -168,8 +185,16 @@ func (m *model) attachNumeric(res *Result, nr *numericRun, pts []point, times, t
 		rr.NumericAgreement = &ag
 		if !ag.WithinTolerance {
 			res.caveat(CaveatNumericDisagreement, SeverityCaution, rr.ID,
-				"The numeric cross-check differs from the exact solution by %.3g %% at time %g %s (tolerance %.3g %%); the grid may be too coarse here, or the inputs are at the edge of the closed forms' assumptions.",
-				100*ag.MaxRelativeDifference, ag.Time, res.Units.Time, 100*tol)
+				"The numeric cross-check differs from the exact solution by %.3g %% %s (tolerance %.3g %%); the grid may be too coarse here, or the inputs are at the edge of the closed forms' assumptions.",
+				100*ag.MaxRelativeDifference, ag.where(res.Units.Time), 100*tol)
 		}
 	}
+}
+
+// where says at which time the largest difference occurs, in words.
+func (ag Agreement) where(timeUnit string) string {
+	if ag.AtSteadyState {
+		return "at steady state"
+	}
+	return fmt.Sprintf("at time %g %s", ag.Time, timeUnit)
 }

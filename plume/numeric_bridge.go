@@ -14,13 +14,15 @@ import (
 // domain).
 type numericRun struct {
 	values [][]float64 // [receptor][time]
+	steady []float64   // [receptor]; nil when the steady state was not solved
 	report *NumericReport
 }
 
 // runNumeric runs the finite-volume cross-check (numeric.Screen3D for a
 // rectangular source, numeric.Screen1D for a column) for every receptor
 // downgradient of the source face at the requested elapsed times taus (d).
-// It is not run to steady state. It returns a nil run and the reason when
+// For a constant continuous source it also solves the steady state
+// directly. It returns a nil run and the reason when
 // the method cannot run for this scenario (instantaneous release, no
 // receptor in the domain, no time after the start, cell budget exceeded);
 // ctx errors are returned as errors.
@@ -46,8 +48,12 @@ func (m *model) runNumeric(ctx context.Context, pts []point, taus []float64, bud
 	}
 	sort.Float64s(times)
 	times = uniq(times)
+	steady := m.continuous()
+	if steady {
+		times = append(times, math.Inf(1))
+	}
 	if len(times) == 0 {
-		return nil, "no requested time falls after the source start (the numeric method has no steady state)", nil
+		return nil, "no requested time falls after the source start (and a source that stops or depletes has no steady state to solve)", nil
 	}
 	hist := numeric.History{Duration: m.duration, Depletion: m.depletion}
 
@@ -105,6 +111,15 @@ func (m *model) runNumeric(ctx context.Context, pts []point, taus []float64, bud
 		run.values[i] = make([]float64, len(taus))
 		for j := range taus {
 			run.values[i][j] = math.NaN()
+		}
+	}
+	if steady {
+		run.steady = make([]float64, len(pts))
+		for i := range run.steady {
+			run.steady[i] = math.NaN()
+		}
+		for k, i := range idx {
+			run.steady[i] = m.c0 * c[k][len(times)-1]
 		}
 	}
 	for k, i := range idx {

@@ -31,6 +31,29 @@ func TestScreenNumeric(t *testing.T) {
 	}
 }
 
+// With no times, a constant continuous source still gets the numeric
+// steady state (solved directly), and it agrees with the exact one.
+func TestScreenNumericSteadyOnly(t *testing.T) {
+	sc := demoScenario()
+	sc.Methods = []string{MethodNumeric, MethodExact}
+	sc.Times = nil
+	r := screenOK(t, sc)
+	if r.Numeric == nil {
+		t.Fatalf("numeric not run: %+v", r.Caveats)
+	}
+	for _, rr := range r.Receptors {
+		if rr.PlumeX <= 0 {
+			continue
+		}
+		if rr.SteadyState.Numeric == nil || rr.NumericAgreement == nil {
+			t.Fatalf("%s: steady %+v agreement %+v", rr.ID, rr.SteadyState, rr.NumericAgreement)
+		}
+		if !rr.NumericAgreement.WithinTolerance || rr.NumericAgreement.SteadyStateRelativeDifference == nil {
+			t.Errorf("%s: agreement %+v", rr.ID, *rr.NumericAgreement)
+		}
+	}
+}
+
 func TestScreenNumericNotRun(t *testing.T) {
 	tests := []struct {
 		name string
@@ -38,7 +61,7 @@ func TestScreenNumericNotRun(t *testing.T) {
 	}{
 		{"spill", func(s *Scenario) { s.Source.Concentration, s.Source.Mass = nil, f(1) }},
 		{"only upgradient receptors", func(s *Scenario) { s.Receptors = []Receptor{{ID: "UP", X: f(-10), Y: f(50)}} }},
-		{"no times", func(s *Scenario) { s.Times = nil }},
+		{"no times, finite source", func(s *Scenario) { s.Times, s.Source.Duration = nil, f(1000) }},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

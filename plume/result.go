@@ -168,8 +168,14 @@ type Peak struct {
 type Agreement struct {
 	// Largest |numeric - exact| / max(exact, floor) over the series, dimensionless.
 	MaxRelativeDifference float64 `json:"max_relative_difference"`
-	// Time at which the largest difference occurs, T.
+	// Time at which the largest difference occurs, T (0 when it occurs at
+	// steady state; see AtSteadyState).
 	Time float64 `json:"time"`
+	// True when the largest difference is the steady-state one.
+	AtSteadyState bool `json:"at_steady_state"`
+	// |numeric - exact| / max(exact, floor) at steady state, when the
+	// numeric steady state was solved (constant continuous sources).
+	SteadyStateRelativeDifference *float64 `json:"steady_state_relative_difference,omitempty"`
 	// Tolerance applied, dimensionless.
 	Tolerance float64 `json:"tolerance"`
 	// Concentration floor below which differences are not counted, C.
