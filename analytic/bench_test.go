@@ -3,7 +3,35 @@ package analytic
 import (
 	"math"
 	"testing"
+	"time"
 )
+
+// assertPerOp fails a benchmark whose mean time per operation exceeds
+// limit, once enough iterations have run for the mean to mean something
+// (the speed targets of DESIGN.md section 7 live here, not in unit tests).
+func assertPerOp(b *testing.B, limit time.Duration) {
+	b.Helper()
+	if b.N < 1000 {
+		return
+	}
+	per := b.Elapsed() / time.Duration(b.N)
+	b.ReportMetric(float64(limit.Nanoseconds()), "target-ns/op")
+	if per > limit {
+		b.Errorf("%v per evaluation, target %v", per, limit)
+	}
+}
+
+// erfcPairCost times two math.Erfc calls, the floor of the 1D target.
+func erfcPairCost() time.Duration {
+	const n = 2_000_000
+	x := 0.3
+	start := time.Now()
+	for i := 0; i < n; i++ {
+		sink += math.Erfc(x) + math.Erfc(x+1.1)
+		x += 1e-9
+	}
+	return time.Since(start) / n
+}
 
 var sink float64
 
@@ -28,6 +56,11 @@ func BenchmarkOgataBanks(b *testing.B) {
 		k := i % 27
 		sink += OgataBanks(xs[k%3], ts[(k/3)%3], ps[k/9])
 	}
+	b.StopTimer()
+	if b.N >= 1000 {
+		// Target: within 3x of the cost of two math.Erfc calls.
+		assertPerOp(b, 3*erfcPairCost())
+	}
 }
 
 // demoParams is a typical screening case (alpha_L 10 m, alpha_T 1 m,
@@ -45,6 +78,7 @@ func BenchmarkExact3D(b *testing.B) {
 		q := pts[i%5]
 		sink += Exact3D(q[0], q[1], q[2], ts[(i/5)%3], demoParams, demoSource)
 	}
+	assertPerOp(b, 20*time.Microsecond)
 }
 
 // BenchmarkDomenico evaluates the Domenico value (target: under 1 us).
@@ -56,4 +90,5 @@ func BenchmarkDomenico(b *testing.B) {
 		q := pts[i%5]
 		sink += Domenico(q[0], q[1], q[2], ts[(i/5)%3], demoParams, demoSource)
 	}
+	assertPerOp(b, time.Microsecond)
 }

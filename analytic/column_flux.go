@@ -18,7 +18,7 @@ import "math"
 //	     - 1/2 (1 + Vx/D + V^2 t/(DR)) exp(Vx/D) erfc((Rx+Vt)/(2 sqrt(DRt))).
 //
 // Both forms subtract terms of nearly equal size where decay is weak or in
-// the early-time tail. Where the closed form would lose more than four
+// the early-time tail. Where the closed form would lose more than two
 // digits this way, the value is computed instead from the exact identity
 //
 //	C_flux(x, t) = integral_0^inf exp(-s) C_conc(x + s D/V, t) ds
@@ -74,7 +74,7 @@ func ogataBanksFlux(x, t, d, r, v, mu, shift float64) (float64, bool) {
 	}
 	sum := terms[0] + terms[1] + terms[2]
 	mag := math.Abs(terms[0]) + math.Abs(terms[1]) + math.Abs(terms[2])
-	if math.IsNaN(sum) || math.IsInf(mag, 0) || math.Abs(sum) < 1e-4*mag {
+	if math.IsNaN(sum) || math.IsInf(mag, 0) || math.Abs(sum) < 1e-2*mag {
 		return 0, false
 	}
 	return sum, true

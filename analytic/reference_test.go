@@ -277,6 +277,7 @@ func TestReferenceExact3DAndDomenico(t *testing.T) {
 	}
 	ex := newRefTracker("Exact3D")
 	dm := newRefTracker("Domenico")
+	devWorst := 0.0
 	for _, c := range f.Cases {
 		if c.QuadAgreed > 1e-20 {
 			t.Fatalf("reference case %q: the generator's two quadratures agree only to %g", c.Label, c.QuadAgreed)
@@ -296,9 +297,19 @@ func TestReferenceExact3DAndDomenico(t *testing.T) {
 		// notes/analytic_api.md; values from mpmath at 60 and 120 digits
 		// (testdata/reference/gen_analytic.py)
 		dm.check(t, c.Label, Domenico(x, y, z, tt, p, s), float64(c.Domenico), float64(c.DomCond), 1e-12)
+		// (Domenico - Exact)/Exact from the two reference values above;
+		// absolute tolerance 1e-5*(1+|dev|), the 1e-6 of Exact3D with margin.
+		wantDev := (float64(c.Domenico) - float64(c.Exact)) / float64(c.Exact)
+		gotDev := DomenicoDeviation(x, y, z, tt, p, s)
+		d := math.Abs(gotDev - wantDev)
+		if math.IsNaN(gotDev) || d > 1e-5*(1+math.Abs(wantDev)) {
+			t.Errorf("DomenicoDeviation [%s]: got %.9g, want %.9g", c.Label, gotDev, wantDev)
+		}
+		devWorst = math.Max(devWorst, d/(1+math.Abs(wantDev)))
 	}
 	ex.log(t)
 	dm.log(t)
+	t.Logf("DomenicoDeviation: worst |error|/(1+|dev|) %.3g over %d cases", devWorst, len(f.Cases))
 }
 
 // ---------------------------------------------------------------------------
