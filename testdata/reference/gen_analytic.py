@@ -531,6 +531,8 @@ def gen_1d():
                       "van Genuchten & Alves (1982), USDA Technical Bulletin 1661 (decay; third-type inlet)"]
     doc["laplace_domain"] = ("lambda = (V - sqrt(V^2 + 4 Dx R (s+Mu)))/(2 Dx); first-type exp(lambda x)/s; "
                              "third-type 2V/(s (V + sqrt(V^2+4DxR(s+Mu)))) exp(lambda x)")
+    doc["relerr_note"] = ("talbot_relerr and time_integral_relerr are |other/value - 1| formed at 70 digits; "
+                          "\"0.0\" means agreement beyond 70 digits (Talbot's second pass runs at 80+ digits)")
     doc["dropped"] = stats.get("dropped", 0)
     doc["dropped_note"] = "cases with true value in [1e-320, 1e-300) are left out"
     doc["cases"] = cases
