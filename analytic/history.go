@@ -27,6 +27,12 @@ func OgataBanksAt(x, t float64, p Params, inlet Inlet, h History) float64 {
 	if math.IsInf(t, 1) && (g > 0 || h.finite()) {
 		return 0
 	}
+	if g == 0 && !h.finite() {
+		if inlet == ThirdType {
+			return OgataBanksFlux(x, t, p)
+		}
+		return OgataBanks(x, t, p)
+	}
 	// The substitution C = exp(-g t) C' holds for any effective rate
 	// Mu - g whose w = sqrt(V^2 + 4 D R (Mu - g)) stays real; keep a margin
 	// so that w does not lose digits.
@@ -35,10 +41,14 @@ func OgataBanksAt(x, t float64, p Params, inlet Inlet, h History) float64 {
 		if !(tt > 0) {
 			return 0, true
 		}
-		if inlet == ThirdType {
-			return ogataBanksFlux(x, tt, p.Dx, p.R, p.V, p.Mu-g, -g*tt)
+		shift := 0.0
+		if g > 0 {
+			shift = -g * tt
 		}
-		return ogataBanks(x, tt, p.Dx, p.R, p.V, p.Mu-g, -g*tt), true
+		if inlet == ThirdType {
+			return ogataBanksFlux(x, tt, p.Dx, p.R, p.V, p.Mu-g, shift)
+		}
+		return ogataBanks(x, tt, p.Dx, p.R, p.V, p.Mu-g, shift), true
 	}
 	if closed {
 		c, ok := one(t)

@@ -89,6 +89,15 @@ func TestMonotoneAndBounded(t *testing.T) {
 			}
 			prev = c
 		}
+		// OgataBanksAt with a constant source is OgataBanks, steady state too.
+		for _, tt := range []float64{100, inf} {
+			if a, b := OgataBanksAt(pt[0], tt, p, FirstType, History{Duration: inf}), OgataBanks(pt[0], tt, p); a != b {
+				t.Errorf("OgataBanksAt(x=%v, t=%v) = %v, OgataBanks %v", pt[0], tt, a, b)
+			}
+			if a, b := OgataBanksAt(pt[0], tt, p, ThirdType, History{}), OgataBanksFlux(pt[0], tt, p); a != b {
+				t.Errorf("OgataBanksAt flux (x=%v, t=%v) = %v, OgataBanksFlux %v", pt[0], tt, a, b)
+			}
+		}
 		ss := Exact3D(pt[0], pt[1], pt[2], inf, p, demoSource)
 		if e := relErr(prev, ss); e > 1e-4 {
 			t.Errorf("%v: late value %v vs steady %v", pt, prev, ss)
