@@ -17,7 +17,7 @@ type Options struct {
 
 // Defaults of Options.
 const (
-	DefaultCellBudget        = 200_000
+	DefaultCellBudget        = 600_000
 	DefaultNumericTolerance  = 0.05
 	DefaultDomenicoTolerance = 0.10
 )
