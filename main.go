@@ -66,6 +66,9 @@ func run(args []string) error {
 	addr := fs.String("addr", envOr("ADDR", ":8080"), "listen address (env ADDR)")
 	maxBody := fs.Int64("max-body", api.DefaultMaxBodyBytes, "largest request body, bytes")
 	timeout := fs.Duration("request-timeout", api.DefaultRequestTimeout, "per-request computation deadline")
+	grace := fs.Duration("shutdown-grace", api.DefaultRequestTimeout+5*time.Second, "on SIGTERM, how long requests in flight may take to finish")
+	maxHeavy := fs.Int("max-heavy", api.DefaultMaxHeavy(), "computing requests run at once")
+	maxWaiting := fs.Int("max-waiting", api.DefaultMaxWaiting, "computing requests that may wait for a slot (beyond: 503); negative: none")
 	logJSON := fs.Bool("log-json", true, "write logs as JSON (false: text)")
 	healthcheck := fs.Bool("healthcheck", false, "check GET /healthz of a server on -addr and exit 0 if healthy (for container health checks)")
 	if err := fs.Parse(args); err != nil {
@@ -87,29 +90,54 @@ func run(args []string) error {
 		MaxBodyBytes:   *maxBody,
 		RequestTimeout: *timeout,
 		Logger:         log,
+		MaxHeavy:       *maxHeavy,
+		MaxWaiting:     *maxWaiting,
 	})
 	if err != nil {
 		return err
 	}
-	srv := &http.Server{
-		Addr:              *addr,
-		Handler:           e,
+	srv := newServer(e, *timeout, handler)
+
+	// The signal handler is in place before the port opens.
+	ctx, stop := signal.NotifyContext(context.Background(), syscall.SIGTERM, os.Interrupt)
+	defer stop()
+	ln, err := net.Listen("tcp", *addr)
+	if err != nil {
+		return err
+	}
+	log.Info("listening", "addr", ln.Addr().String(), "version", engineVersion())
+	if onListening != nil {
+		onListening(ln.Addr())
+	}
+	return serve(ctx, srv, ln, *grace, log)
+}
+
+// onListening, when set (tests), is told the address once the port is open.
+var onListening func(net.Addr)
+
+// newServer wraps h with the connection timeouts; timeout is the
+// per-request computation deadline.
+func newServer(h http.Handler, timeout time.Duration, logHandler slog.Handler) *http.Server {
+	return &http.Server{
+		Handler:           h,
 		ReadHeaderTimeout: 5 * time.Second,
 		ReadTimeout:       30 * time.Second,
 		// Long enough for the computation deadline plus writing the answer.
-		WriteTimeout:   *timeout + 30*time.Second,
+		WriteTimeout:   timeout + 30*time.Second,
 		IdleTimeout:    120 * time.Second,
 		MaxHeaderBytes: 64 << 10,
-		ErrorLog:       slog.NewLogLogger(handler, slog.LevelWarn),
+		ErrorLog:       slog.NewLogLogger(logHandler, slog.LevelWarn),
 	}
+}
 
-	ctx, stop := signal.NotifyContext(context.Background(), syscall.SIGTERM, os.Interrupt)
-	defer stop()
+// serve answers on ln until ctx ends (SIGTERM or SIGINT in run), then shuts
+// down gracefully: the listener closes at once (new connections are
+// refused), idle connections are closed, and requests in flight have up to
+// grace to finish; after that the remaining connections are closed and
+// serve reports the error.
+func serve(ctx context.Context, srv *http.Server, ln net.Listener, grace time.Duration, log *slog.Logger) error {
 	errc := make(chan error, 1)
-	go func() {
-		log.Info("listening", "addr", *addr, "version", engineVersion())
-		errc <- srv.ListenAndServe()
-	}()
+	go func() { errc <- srv.Serve(ln) }()
 	select {
 	case err := <-errc:
 		if !errors.Is(err, http.ErrServerClosed) {
@@ -118,11 +146,12 @@ func run(args []string) error {
 		return nil
 	case <-ctx.Done():
 	}
-	log.Info("shutting down")
-	shutCtx, cancel := context.WithTimeout(context.Background(), *timeout+5*time.Second)
+	log.Info("shutting down", "grace", grace.String())
+	shutCtx, cancel := context.WithTimeout(context.Background(), grace)
 	defer cancel()
 	if err := srv.Shutdown(shutCtx); err != nil {
-		return fmt.Errorf("shutdown: %w", err)
+		_ = srv.Close()
+		return fmt.Errorf("shutdown: requests still running after the grace period of %s: %w", grace, err)
 	}
 	log.Info("stopped")
 	return nil

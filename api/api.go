@@ -47,6 +47,13 @@ type Config struct {
 	RequestTimeout time.Duration
 	// Structured request log; nil means no request log.
 	Logger *slog.Logger
+	// Computing requests run at once; 0 means DefaultMaxHeavy().
+	MaxHeavy int
+	// Computing requests that may wait for a slot; 0 means DefaultMaxWaiting,
+	// negative means none (refuse at once when every slot is busy).
+	MaxWaiting int
+	// Longest wait for a slot before 503; 0 means DefaultWaitTimeout.
+	WaitTimeout time.Duration
 }
 
 func (c Config) withDefaults() Config {
@@ -62,13 +69,23 @@ func (c Config) withDefaults() Config {
 	if c.Version == "" {
 		c.Version = "dev"
 	}
+	if c.MaxHeavy <= 0 {
+		c.MaxHeavy = DefaultMaxHeavy()
+	}
+	if c.MaxWaiting == 0 {
+		c.MaxWaiting = DefaultMaxWaiting
+	}
+	if c.WaitTimeout <= 0 {
+		c.WaitTimeout = DefaultWaitTimeout
+	}
 	return c
 }
 
 type server struct {
-	cfg    Config
-	spec   *openapi.Spec
-	routes routeTable
+	cfg     Config
+	spec    *openapi.Spec
+	routes  routeTable
+	metrics *metrics
 }
 
 // New builds the echo instance serving every route of the OpenAPI document.
@@ -78,24 +95,36 @@ func New(cfg Config) (*echo.Echo, error) {
 	if err != nil {
 		return nil, err
 	}
-	s := &server{cfg: cfg.withDefaults(), spec: spec, routes: newRouteTable(spec.Doc)}
+	s := &server{cfg: cfg.withDefaults(), spec: spec, routes: newRouteTable(spec.Doc), metrics: newMetrics()}
 
 	e := echo.New()
 	e.HideBanner = true
 	e.HidePort = true
 	e.HTTPErrorHandler = errorHandler
+	// Outermost first: request ID, metrics (counts the status sent), panics,
+	// the request log, the body cap and computation slots, validation.
+	e.Use(requestIDMiddleware, s.metrics.middleware)
 	e.Use(recoverer)
 	if s.cfg.Logger != nil {
 		e.Use(requestLogger(s.cfg.Logger))
 	}
+	e.Use(newLimiter(s.cfg, s.metrics).middleware)
 	e.Use(s.validator)
 
 	e.POST("/v1/screenings", s.screenings)
+	e.POST("/v1/plume-maps", s.plumeMaps)
+	e.POST("/v1/plots", s.plotsHandler)
+	e.POST("/v1/reports", s.reports)
+	e.POST("/v1/uncertainty", s.uncertainty)
+	e.POST("/v1/attenuation", s.attenuation)
+	e.POST("/v1/calibrations", s.calibrations)
 	e.GET("/v1/concentration", s.concentration)
 	e.GET("/v1/contaminants", s.contaminants)
 	e.GET("/openapi.yaml", s.openapiYAML)
 	e.GET("/openapi.json", s.openapiJSON)
 	e.GET("/healthz", s.healthz)
+	e.GET("/metrics", s.metrics.handler())
+	s.metrics.knowRoutes(e)
 	return e, nil
 }
 
@@ -107,7 +136,7 @@ func recoverer(next echo.HandlerFunc) echo.HandlerFunc {
 				if r == http.ErrAbortHandler {
 					panic(r)
 				}
-				slog.Error("panic", "path", c.Request().URL.Path, "panic", fmt.Sprint(r), "stack", string(debug.Stack()))
+				slog.Error("panic", "path", c.Request().URL.Path, "request_id", RequestID(c.Request().Context()), "panic", fmt.Sprint(r), "stack", string(debug.Stack()))
 				err = newProblem(kindInternal, "the server could not complete the request")
 			}
 		}()
@@ -137,6 +166,7 @@ func requestLogger(log *slog.Logger) echo.MiddlewareFunc {
 				slog.Int64("bytes", res.Size),
 				slog.Float64("duration_ms", float64(time.Since(start).Microseconds())/1000),
 				slog.String("remote", c.RealIP()),
+				slog.String("request_id", RequestID(req.Context())),
 			)
 			return nil
 		}

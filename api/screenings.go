@@ -116,6 +116,7 @@ func (s *server) screen(ctx context.Context, sc plume.Scenario, rename func(stri
 	if o.res == nil {
 		return nil, newProblem(kindInternal, "the engine returned no result")
 	}
+	s.metrics.observeResult(o.res)
 	return o.res, nil
 }
 

@@ -165,6 +165,9 @@ func (m *model) screenReceptor(ctx context.Context, p point, reqTimes, taus []fl
 	}
 	var known timeline // primary-method values at the requested times
 	for j, tau := range taus {
+		if ctx.Err() != nil {
+			return rr // Screen discards it and returns ctx.Err()
+		}
 		sp := SeriesPoint{Time: reqTimes[j]} // echoed in the request's unit
 		var e, d float64
 		if run.exact {

@@ -1,0 +1,155 @@
+package api
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"strings"
+
+	"github.com/getkin/kin-openapi/openapi3"
+
+	"downgradient/plume"
+)
+
+// The uncertainty, attenuation and calibration bodies carry the scenario as
+// a free-form object (the uncertainty one may hold distribution objects
+// where numbers stand). These helpers check it against the Scenario schema
+// of the OpenAPI document and decode it, naming bad fields
+// "scenario.<path>".
+
+// decodeBodyTree decodes a body (already syntax-checked) as generic JSON.
+func decodeBodyTree(body []byte) (map[string]any, *Problem) {
+	var m map[string]any
+	dec := json.NewDecoder(bytes.NewReader(body))
+	if err := dec.Decode(&m); err != nil || m == nil {
+		return nil, newProblem(kindMalformed, "the body must be a JSON object", FieldProblem{Field: "", Message: "not a JSON object"})
+	}
+	return m, nil
+}
+
+// scenarioTree returns the body's "scenario" member as an object.
+func scenarioTree(body map[string]any) (map[string]any, *Problem) {
+	raw, ok := body["scenario"]
+	if !ok || raw == nil {
+		return nil, newProblem(kindInvalid, "the body needs a scenario", FieldProblem{Field: "scenario", Message: "required field is missing"})
+	}
+	m, ok := raw.(map[string]any)
+	if !ok {
+		return nil, newProblem(kindMalformed, "wrong JSON type", FieldProblem{Field: "scenario", Message: "wrong type: must be an object, got " + jsonTypeName(raw)})
+	}
+	return m, nil
+}
+
+// decodeScenarioTree checks a scenario tree against the Scenario schema
+// (400 for wrong types, 413 for arrays over their limits, 422 otherwise)
+// and decodes it.
+func (s *server) decodeScenarioTree(tree map[string]any) (plume.Scenario, *Problem) {
+	schema := s.spec.Doc.Components.Schemas["Scenario"]
+	if schema == nil || schema.Value == nil {
+		return plume.Scenario{}, newProblem(kindInternal, "the Scenario schema is missing from the OpenAPI document")
+	}
+	if err := schema.Value.VisitJSON(tree, openapi3.MultiErrors()); err != nil {
+		return plume.Scenario{}, problemFromValidation(err).under("scenario")
+	}
+	b, err := json.Marshal(tree)
+	if err != nil {
+		return plume.Scenario{}, newProblem(kindMalformed, "the scenario could not be read: "+err.Error())
+	}
+	sc, p := decodeScenario(b)
+	if p != nil {
+		return sc, p.under("scenario")
+	}
+	return sc, nil
+}
+
+// under prefixes every field of p with prefix (a JSON path).
+func (p *Problem) under(prefix string) *Problem {
+	for i, e := range p.Errors {
+		p.Errors[i].Field = joinFieldPath(prefix, e.Field)
+	}
+	return p
+}
+
+func joinFieldPath(prefix, field string) string {
+	switch {
+	case field == "":
+		return prefix
+	case strings.HasPrefix(field, "["):
+		return prefix + field
+	}
+	return prefix + "." + field
+}
+
+// renameOutside prefixes "scenario." to the fields of plume's errors except
+// those that name members of the request body itself (top).
+func renameOutside(top ...string) func(string) string {
+	return func(f string) string {
+		head := f
+		if i := strings.IndexAny(f, ".["); i >= 0 {
+			head = f[:i]
+		}
+		for _, t := range top {
+			if head == t {
+				return f
+			}
+		}
+		return joinFieldPath("scenario", f)
+	}
+}
+
+// fillReceptors gives a scenario without receptors one per observed well
+// (first position of each well_id), so that attenuation and calibration
+// need not repeat the wells.
+func fillReceptors(tree map[string]any, obs []plume.Observation) {
+	if r, ok := tree["receptors"].([]any); ok && len(r) > 0 {
+		return
+	}
+	if _, present := tree["receptors"]; present && tree["receptors"] != nil {
+		if _, isArr := tree["receptors"].([]any); !isArr {
+			return // wrong type: the schema check reports it
+		}
+	}
+	seen := map[string]bool{}
+	var rs []any
+	for i, o := range obs {
+		if o.X == nil || o.Y == nil {
+			continue
+		}
+		id := o.WellID
+		if id == "" {
+			id = fmt.Sprintf("observation %d", i+1)
+		}
+		if seen[id] || len(rs) >= MaxReceptors {
+			continue
+		}
+		seen[id] = true
+		r := map[string]any{"id": id, "x": *o.X, "y": *o.Y}
+		if o.Z != nil {
+			r["z"] = *o.Z
+		}
+		rs = append(rs, r)
+	}
+	if len(rs) > 0 {
+		tree["receptors"] = rs
+	}
+}
+
+// decodeMembers decodes the body's members other than the scenario into v
+// (a struct with json tags; unknown members were refused by the schema).
+func decodeMembers(body []byte, v any) *Problem {
+	dec := json.NewDecoder(bytes.NewReader(body))
+	if err := dec.Decode(v); err != nil {
+		var ute *json.UnmarshalTypeError
+		if errors.As(err, &ute) {
+			if strings.HasPrefix(ute.Value, "number") {
+				return newProblem(kindInvalid, "a number is out of range",
+					FieldProblem{Field: ute.Field, Message: "number out of range: " + ute.Value})
+			}
+			return newProblem(kindMalformed, "wrong JSON type",
+				FieldProblem{Field: ute.Field, Message: fmt.Sprintf("wrong type: must be %s, got %s", ute.Type, ute.Value)})
+		}
+		return newProblem(kindMalformed, "the body could not be decoded: "+err.Error(), FieldProblem{Field: "", Message: err.Error()})
+	}
+	return nil
+}

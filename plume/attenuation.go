@@ -1,0 +1,275 @@
+package plume
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"gonum.org/v1/gonum/stat"
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// CentrelineCone is the slope of the cone around the plume axis within
+// which a well counts as near the centreline: |plume_y| <= W/2 +
+// CentrelineCone * plume_x, W the source width (0 for a 1D column). Our
+// choice: about 5.7 degrees either side of the axis beyond the source's edges.
+const CentrelineCone = 0.1
+
+// PoorFitRSquared is the coefficient of determination below which the
+// attenuation regression is flagged as a poor fit (our choice).
+const PoorFitRSquared = 0.8
+
+// AttenuationConfidence is the level of the regression intervals.
+const AttenuationConfidence = 0.95
+
+// AttenuationRequest asks for the attenuation rates implied by monitoring data.
+type AttenuationRequest struct {
+	// The scenario: source position, flow direction, width, seepage
+	// velocity (or K, i, n_e), retardation and longitudinal dispersivity.
+	Scenario Scenario
+	// The monitoring results.
+	Observations []Observation
+	// The sampling round to use, T; nil uses every observation as one
+	// steady-state data set.
+	Time *float64
+}
+
+// AttenuationResult holds the rates, in the request's units.
+type AttenuationResult struct {
+	Units Units `json:"units"`
+	// First-order bulk attenuation rate along the centreline, per L: the
+	// negative slope of ln C against distance along the flow.
+	BulkAttenuationRate float64 `json:"bulk_attenuation_rate"`
+	// 95 % confidence interval of the bulk rate (Student t, n-2 degrees of
+	// freedom); null with fewer than three points.
+	BulkAttenuationRateCI []float64 `json:"bulk_attenuation_rate_ci"`
+	// Biodegradation rate by Buscheck & Alcantar (1995), per T; null when
+	// concentrations do not fall with distance.
+	BiodegradationRate *float64 `json:"biodegradation_rate"`
+	// The bulk rate's interval mapped through the same relation, per T.
+	BiodegradationRateCI []float64 `json:"biodegradation_rate_ci"`
+	// ln 2 / biodegradation_rate, T; null when the rate is null.
+	HalfLife *float64 `json:"half_life"`
+	// Wells whose detects entered the regression.
+	WellsUsed []string `json:"wells_used"`
+	// Coefficient of determination of the regression; null with two points.
+	RSquared *float64 `json:"r_squared"`
+	// Concentration of the fitted line at the source face (plume_x = 0), C.
+	InterceptConcentration float64 `json:"intercept_concentration"`
+	// Parameters of the relation: seepage velocity (L/T), retardation,
+	// contaminant velocity v/R (L/T), longitudinal dispersivity (L).
+	SeepageVelocity          float64 `json:"seepage_velocity"`
+	Retardation              float64 `json:"retardation"`
+	ContaminantVelocity      float64 `json:"contaminant_velocity"`
+	LongitudinalDispersivity float64 `json:"longitudinal_dispersivity"`
+	// Every observation of the round, with its plume-frame position and
+	// how it was used.
+	Points []AttenuationPoint `json:"points"`
+	// Cautions and notes.
+	Caveats []Caveat `json:"caveats"`
+}
+
+// AttenuationPoint reports one observation.
+type AttenuationPoint struct {
+	WellID string  `json:"well_id"`
+	PlumeX float64 `json:"plume_x"`
+	PlumeY float64 `json:"plume_y"`
+	// Concentration (detect) or detection limit (non-detect), C.
+	Concentration float64 `json:"concentration"`
+	Detected      bool    `json:"detected"`
+	// "regression", "non_detect_check" (a censored value checked against the
+	// fitted line), "off_centreline", "upgradient" or "other_round".
+	Use string `json:"use"`
+}
+
+// BuscheckAlcantar is the first-order biodegradation rate, 1/T, from the
+// bulk attenuation rate along distance kx (1/L, the negative slope of ln C
+// against distance, i.e. k/v_x of the original), the contaminant velocity
+// vc = v/R (L/T) and the longitudinal dispersivity alphaX (L), by Buscheck
+// & Alcantar (1995):
+//
+//	lambda = vc/(4 alphaX) * ((1 + 2 alphaX kx)^2 - 1).
+//
+// It inverts the steady-state 1D advection-dispersion-decay solution
+// C = C0 exp(-kx x): substituting into (alphaX v) C” - v C' - R lambda C = 0
+// gives lambda = vc (kx + alphaX kx^2), the same expression expanded. The
+// rate acts on dissolved and sorbed mass alike (decay_applies_to "total").
+// It is evaluated in the expanded form vc kx (1 + alphaX kx), which avoids
+// the cancellation in (1 + 2 alphaX kx)^2 - 1 when alphaX kx is small.
+func BuscheckAlcantar(kx, vc, alphaX float64) float64 {
+	return vc * kx * (1 + alphaX*kx)
+}
+
+// Attenuation fits ln C against distance along the plume axis for the
+// detects near the centreline and converts the slope to a biodegradation
+// rate. Non-detects are censored: they are not put into the regression (not
+// as zero, not as the limit); each one near the centreline downgradient of
+// the source is checked against the fitted line, and a caveat says when the
+// line predicts more than its detection limit there (the true rate is then
+// likely larger). Fewer than two detects at distinct distances is a
+// FieldErrors on "observations" saying what data would fix it.
+func Attenuation(req AttenuationRequest) (*AttenuationResult, error) {
+	sc := req.Scenario
+	if err := ValidateObservations(req.Observations, req.Time != nil); err != nil {
+		return nil, err
+	}
+	if req.Time != nil && (!finite(*req.Time) || *req.Time < 0) {
+		return nil, FieldErrors{{Field: "time", Message: fmt.Sprintf("must be a finite number >= 0, got %g", *req.Time)}}
+	}
+	pr, err := prepare(sc, wellPlumeX(sc, req.Observations)...)
+	if err != nil {
+		return nil, err
+	}
+	uf := pr.uf
+	pts := pr.observationPoints(req.Observations)
+
+	halfW := 0.0
+	if pr.m.kind == SourceKind3D {
+		halfW = pr.m.width / 2
+	}
+	res := &AttenuationResult{Units: pr.units, WellsUsed: []string{}, Points: make([]AttenuationPoint, len(pts)), Caveats: []Caveat{
+		{Code: CaveatScreeningEstimate, Severity: SeverityCaution, Message: ScreeningCaution}}}
+	var rounds []float64
+	var xs, ys []float64
+	var nonDetects []int
+	wells := map[string]bool{}
+	for i, o := range pts {
+		ap := AttenuationPoint{WellID: o.well, PlumeX: o.pt.px / uf.L, PlumeY: o.pt.py / uf.L, Concentration: o.c / uf.C, Detected: o.detected}
+		t := req.Observations[i].Time
+		if t != nil {
+			rounds = append(rounds, *t)
+		}
+		switch {
+		case req.Time != nil && math.Abs(*t-*req.Time) > 1e-9*math.Max(1, math.Abs(*req.Time)):
+			ap.Use = "other_round"
+		case o.pt.px < 0:
+			ap.Use = "upgradient"
+		case math.Abs(o.pt.py) > halfW+CentrelineCone*o.pt.px:
+			ap.Use = "off_centreline"
+		case !o.detected:
+			ap.Use = "non_detect_check"
+			nonDetects = append(nonDetects, i)
+		default:
+			ap.Use = "regression"
+			xs = append(xs, o.pt.px/uf.L)
+			ys = append(ys, math.Log(o.c/uf.C))
+			if !wells[o.well] {
+				wells[o.well] = true
+				res.WellsUsed = append(res.WellsUsed, o.well)
+			}
+		}
+		res.Points[i] = ap
+	}
+	distinct := map[float64]bool{}
+	for _, x := range xs {
+		distinct[x] = true
+	}
+	if len(distinct) < 2 {
+		msg := fmt.Sprintf("%d detect(s) at %d distinct distance(s) lie near the plume centreline (|plume_y| <= %g + %g plume_x, downgradient of the source face)",
+			len(xs), len(distinct), halfW/uf.L, CentrelineCone)
+		if req.Time != nil {
+			msg += fmt.Sprintf(" in the round at time %g", *req.Time)
+		}
+		msg += "; the rate needs detected concentrations at two or more distances along the axis, three or more for a confidence interval: add samples from wells along the plume axis"
+		if req.Time != nil {
+			msg += " or pick another round (rounds present: " + listRounds(rounds) + ")"
+		}
+		return nil, FieldErrors{{Field: "observations", Message: msg}}
+	}
+
+	intercept, slope := stat.LinearRegression(xs, ys, nil, false)
+	n := len(xs)
+	res.BulkAttenuationRate = clean(-slope)
+	res.InterceptConcentration = clean(math.Exp(math.Min(intercept, 700)))
+	if n >= 3 {
+		r2 := stat.RSquared(xs, ys, nil, intercept, slope)
+		r2 = clean(math.Max(0, math.Min(1, r2)))
+		res.RSquared = &r2
+		mx := stat.Mean(xs, nil)
+		sxx, ssr := 0.0, 0.0
+		for i := range xs {
+			sxx += (xs[i] - mx) * (xs[i] - mx)
+			e := ys[i] - (intercept + slope*xs[i])
+			ssr += e * e
+		}
+		se := math.Sqrt(ssr / float64(n-2) / sxx)
+		tq := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(n - 2)}.Quantile(0.5 + AttenuationConfidence/2)
+		res.BulkAttenuationRateCI = []float64{clean(-slope - tq*se), clean(-slope + tq*se)}
+	}
+
+	v := pr.m.v / (uf.L / uf.T)
+	R := pr.m.r
+	vc := v / R
+	alpha := pr.m.alpha[0] / uf.L
+	res.SeepageVelocity, res.Retardation, res.ContaminantVelocity, res.LongitudinalDispersivity = clean(v), clean(R), clean(vc), clean(alpha)
+	k := res.BulkAttenuationRate
+	if k > 0 {
+		lam := clean(BuscheckAlcantar(k, vc, alpha))
+		res.BiodegradationRate = &lam
+		hl := clean(math.Ln2 / lam)
+		res.HalfLife = &hl
+		if ci := res.BulkAttenuationRateCI; ci != nil {
+			lo := 0.0
+			if ci[0] > 0 {
+				lo = clean(BuscheckAlcantar(ci[0], vc, alpha))
+			}
+			res.BiodegradationRateCI = []float64{lo, clean(BuscheckAlcantar(math.Max(ci[1], 0), vc, alpha))}
+		}
+	}
+	res.attenuationCaveats(pr, n, len(res.WellsUsed), nonDetects, pts, intercept, slope)
+	return res, nil
+}
+
+func listRounds(ts []float64) string {
+	sort.Float64s(ts)
+	var out []string
+	for i, t := range ts {
+		if i == 0 || t != ts[i-1] {
+			out = append(out, fmt.Sprintf("%g", t))
+		}
+		if len(out) == 20 {
+			out = append(out, "...")
+			break
+		}
+	}
+	return strings.Join(out, ", ")
+}
+
+// attenuationCaveats adds the caveats of an attenuation result.
+func (res *AttenuationResult) attenuationCaveats(pr *prepared, n, nWells int, nonDetects []int, pts []obsPoint, intercept, slope float64) {
+	add := func(code, sev, format string, args ...any) {
+		res.Caveats = append(res.Caveats, Caveat{Code: code, Severity: sev, Message: fmt.Sprintf(format, args...)})
+	}
+	u := pr.units
+	if nWells < 3 || n < 3 {
+		add(CaveatFewCentrelineWells, SeverityWarning,
+			"Only %d well(s) (%d detect(s)) near the plume centreline entered the regression; with fewer than three the rate has no confidence interval and rests on too few points. Sample more wells along the plume axis.", nWells, n)
+	}
+	if res.RSquared != nil && *res.RSquared < PoorFitRSquared {
+		add(CaveatPoorFit, SeverityWarning,
+			"The regression of ln C on distance explains %.0f %% of the variance (r^2 = %.3f < %.1f): the data do not follow one exponential decline along the axis; the rates are poorly determined.", 100**res.RSquared, *res.RSquared, PoorFitRSquared)
+	}
+	if res.BiodegradationRate == nil {
+		add(CaveatNoAttenuation, SeverityWarning,
+			"Concentrations near the centreline do not fall with distance (bulk rate %.4g per %s): no biodegradation rate can be derived. The plume may still be expanding, or the wells may not lie on its axis.", res.BulkAttenuationRate, u.Length)
+	}
+	add(CaveatNonDetects, SeverityNote,
+		"Non-detects are censored values: they are not entered in the regression (neither as zero nor at the detection limit). Each one near the centreline downgradient of the source is checked against the fitted line instead.")
+	for _, i := range nonDetects {
+		o := pts[i]
+		pred := math.Exp(intercept + slope*o.pt.px/pr.uf.L)
+		if pred > o.c/pr.uf.C {
+			res.Caveats = append(res.Caveats, Caveat{Code: CaveatNonDetectAboveFit, Severity: SeverityCaution, ReceptorID: o.well, Message: fmt.Sprintf(
+				"The fitted line predicts %.4g %s at %s (plume_x %.4g %s), above its detection limit of %.4g %s: concentrations fall faster there than the fit says, so the rates reported are likely low (conservative).",
+				pred, u.Concentration, o.well, o.pt.px/pr.uf.L, u.Length, o.c/pr.uf.C, u.Concentration)})
+		}
+	}
+	add(CaveatSteadyPlumeAssumed, SeverityCaution,
+		"The biodegradation rate follows Buscheck & Alcantar (1995): it assumes a plume at steady state, one-dimensional transport along the axis (transverse dilution is counted as biodegradation, so the rate is an upper estimate), and this scenario's seepage velocity (%.4g %s/%s), retardation (%.4g) and longitudinal dispersivity (%.4g %s), to which it is sensitive. The rate acts on dissolved and sorbed mass alike: use it as contaminant.half_life with decay_applies_to \"total\" (for \"dissolved\" the equivalent rate is R times larger).",
+		res.SeepageVelocity, u.Length, u.Time, res.Retardation, res.LongitudinalDispersivity, u.Length)
+	if pr.m.derived.DispersivityEstimated {
+		add(CaveatDispersivityEstimated, SeverityCaution,
+			"The longitudinal dispersivity (%.4g %s) was estimated from the distance to the farthest well (%s), not measured.", res.LongitudinalDispersivity, u.Length, DispersivityRelation)
+	}
+}

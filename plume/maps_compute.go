@@ -1,0 +1,438 @@
+package plume
+
+import (
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"fmt"
+	"math"
+	"runtime"
+	"sync"
+	"sync/atomic"
+
+	"github.com/paulmach/orb"
+	"github.com/paulmach/orb/planar"
+)
+
+// CaveatMapResolution notes that the map grid is coarse next to the source.
+const CaveatMapResolution = "map_grid_coarse"
+
+// PlumeLengthMethod says how Map.SteadyPlumeLength is found.
+const PlumeLengthMethod = "root of the steady-state exact solution along the centreline (y = 0) at the map depth: bracketed by doubling, then bisection to 1e-9 relative"
+
+// PlumeMap computes a gridded concentration field of a scenario, the
+// outlines of its levels and the steady-state plume length (DESIGN.md
+// section 4b). Validation failures come back as FieldErrors (paths of the
+// request body: "scenario.aquifer...", "levels[0]", "time"); a grid over
+// the limits as an error whose OverBudget() is true (see OverLimitFields);
+// a cancelled ctx as ctx.Err(). The grid is evaluated on all cores.
+func PlumeMap(ctx context.Context, sc Scenario, mo MapOptions, opt Options) (*Map, error) {
+	opt = opt.withDefaults()
+	bad, over := validateMapOptions(mo)
+	if err := Validate(sc); err != nil {
+		if fe, ok := err.(FieldErrors); ok {
+			bad = append(fe.prefixed("scenario."), bad...)
+		} else {
+			return nil, err
+		}
+	}
+	if len(bad) > 0 {
+		return nil, bad.orNil()
+	}
+	if len(over) > 0 {
+		return nil, &mapError{over}
+	}
+	method := mo.Method
+	if method == "" {
+		method = MethodExact
+	}
+	view := mo.View
+	if view == "" {
+		view = ViewPlan
+	}
+	mt := MapTime{Steady: true}
+	if mo.Time != nil {
+		mt = *mo.Time
+	}
+
+	// Derived parameters and caveats exactly as a screening reports them.
+	ssc := sc
+	ssc.Methods = []string{method}
+	ssc.Times = nil
+	res, err := Screen(ctx, ssc, opt)
+	if err != nil {
+		if fe, ok := err.(FieldErrors); ok {
+			return nil, fe.prefixed("scenario.")
+		}
+		return nil, err
+	}
+
+	units := sc.Units.withDefaults()
+	uf, _ := units.factors()
+	c := toCanonical(sc)
+	cframe := frameOf(c.Source)
+	maxX := math.Inf(-1)
+	for _, r := range c.Receptors {
+		px, _ := cframe.ToPlume(*r.X, *r.Y)
+		maxX = math.Max(maxX, px)
+	}
+	m := derive(c, maxX)
+
+	// Levels, canonical.
+	var levels []float64
+	if len(mo.Levels) > 0 {
+		for _, l := range mo.Levels {
+			levels = append(levels, l*uf.C)
+		}
+	} else if m.screening != nil {
+		s := *m.screening
+		levels = []float64{s, 10 * s, 100 * s}
+	} else {
+		return nil, FieldErrors{{Field: "levels", Message: "no screening level is known (give scenario.contaminant.screening_level or a compound of the reference table), so give the levels"}}
+	}
+	lowest := math.Inf(1)
+	for _, l := range levels {
+		lowest = math.Min(lowest, l)
+	}
+
+	ev := mapEvaluator{m: m, exact: method == MethodExact, tau: math.Inf(1)}
+	if !mt.Steady {
+		ev.tau = mt.Value*uf.T - m.start
+	}
+	if mo.Depth != nil {
+		ev.top = *mo.Depth * uf.L
+	}
+	ev.bot = ev.top
+	if mo.DepthBottom != nil && view == ViewPlan {
+		ev.bot = *mo.DepthBottom * uf.L
+	}
+
+	var g Grid
+	if mo.Extent != nil {
+		e := *mo.Extent
+		e = Extent{e.XMin * uf.L, e.XMax * uf.L, e.YMin * uf.L, e.YMax * uf.L}
+		g, err = layout(e, view, mo, uf)
+	} else {
+		g, err = layout(ev.autoExtent(ctx, view, cframe, c, lowest), view, mo, uf)
+	}
+	if err != nil {
+		return nil, err
+	}
+	if err := ev.fill(ctx, &g, view, cframe); err != nil {
+		return nil, err
+	}
+
+	out := &Map{
+		Engine:    Engine{Version: opt.EngineVersion, InputSHA256: mapInputSHA256(sc, mo)},
+		Units:     units,
+		View:      view,
+		Time:      mt,
+		Depth:     ev.top / uf.L,
+		Method:    method,
+		Derived:   res.Derived,
+		Caveats:   res.Caveats,
+		Frame:     frameOf(sc.Source),
+		Receptors: make([]MapPoint, len(res.Receptors)),
+	}
+	if mo.DepthBottom != nil && view == ViewPlan {
+		out.DepthBottom = ptr(ev.bot / uf.L)
+	}
+	if m.kind == SourceKind3D {
+		out.SourceWidth = m.width / uf.L
+	}
+	for i, rr := range res.Receptors {
+		if view == ViewSection {
+			out.Receptors[i] = MapPoint{ID: rr.ID, X: rr.PlumeX, Y: rr.Z}
+		} else {
+			out.Receptors[i] = MapPoint{ID: rr.ID, X: *sc.Receptors[i].X, Y: *sc.Receptors[i].Y}
+		}
+	}
+
+	// Grid and levels in the request's units.
+	g.X0, g.Y0, g.DX, g.DY = g.X0/uf.L, g.Y0/uf.L, g.DX/uf.L, g.DY/uf.L
+	for i, v := range g.Values {
+		g.Values[i] = clean(v) / uf.C
+	}
+	out.Grid = g
+	for _, l := range levels {
+		lv := l / uf.C
+		out.Levels = append(out.Levels, lv)
+		out.Outlines = append(out.Outlines, outlineOf(&g, lv, view, out.Frame))
+	}
+
+	if m.screening != nil {
+		pl := &PlumeLength{Level: *m.screening / uf.C, Depth: ev.top / uf.L, Method: PlumeLengthMethod}
+		if L, ok := ev.steadyLength(*m.screening); ok {
+			pl.Length = ptr(L / uf.L)
+		}
+		out.SteadyPlumeLength = pl
+	}
+	if w := m.width; m.kind == SourceKind3D && math.Max(g.DX, g.DY)*uf.L > w/2 {
+		out.Caveats = append(out.Caveats, Caveat{Code: CaveatMapResolution, Severity: SeverityNote, Message: fmt.Sprintf(
+			"The map's nodes are %.4g %s apart, more than half the source width (%.4g %s): outlines are interpolated between nodes, so features narrower than about two node spacings are smoothed. Ask for more cells or a smaller extent for detail.",
+			math.Max(g.DX, g.DY), units.Length, w/uf.L, units.Length)})
+	}
+	return out, nil
+}
+
+// mapInputSHA256 hashes the canonical JSON of the scenario and the map options.
+func mapInputSHA256(sc Scenario, mo MapOptions) string {
+	b, err := json.Marshal(struct {
+		Scenario Scenario `json:"scenario"`
+		MapOptions
+	}{sc, mo})
+	if err != nil {
+		b = []byte(err.Error())
+	}
+	sum := sha256.Sum256(b)
+	return hex.EncodeToString(sum[:])
+}
+
+// mapEvaluator evaluates the chosen closed form, canonical units.
+type mapEvaluator struct {
+	m        *model
+	exact    bool
+	tau      float64 // elapsed time since the source started, d (+Inf: steady)
+	top, bot float64 // depth interval of a plan view, m
+}
+
+// at is the concentration at plume-frame (px, py) over depths [top, bot], mg/L.
+func (ev *mapEvaluator) at(px, py, top, bot float64) float64 {
+	p := point{px: px, py: py, top: top, bot: bot, screen: bot > top}
+	ev.m.classify(&p)
+	return ev.m.closedForm(ev.exact, p, ev.tau)
+}
+
+// steadyLength finds the centreline distance where the steady-state exact
+// concentration falls to level, m; ok false when it does not within
+// MaxPlumeLength or the source is not constant and continuous.
+func (ev *mapEvaluator) steadyLength(level float64) (float64, bool) {
+	m := ev.m
+	if !m.continuous() {
+		return 0, false
+	}
+	f := func(x float64) float64 {
+		p := point{px: x, top: ev.top, bot: ev.bot, screen: ev.bot > ev.top}
+		return m.closedForm(true, p, math.Inf(1)) - level
+	}
+	lo := 1e-6
+	if f(lo) < 0 {
+		return 0, true
+	}
+	hi := 1.0
+	for f(hi) >= 0 {
+		lo = hi
+		hi *= 2
+		if hi > MaxPlumeLength {
+			return 0, false
+		}
+	}
+	for range 200 {
+		mid := 0.5 * (lo + hi)
+		if f(mid) >= 0 {
+			lo = mid
+		} else {
+			hi = mid
+		}
+		if hi-lo <= 1e-9*hi {
+			break
+		}
+	}
+	return 0.5 * (lo + hi), true
+}
+
+// autoExtent is the default extent, canonical: the region above the lowest
+// level (found along the centreline and across it), the source and the
+// receptors, with margins. Plan: site x, y; section: plume_x, depth.
+func (ev *mapEvaluator) autoExtent(ctx context.Context, view string, fr Frame, c Scenario, lowest float64) Extent {
+	m := ev.m
+	top, bot := ev.top, ev.bot
+	if view == ViewSection {
+		top, bot = 0, 0
+	}
+	// Reach along the centreline: a geometric scan (the front of a spill or
+	// of a finite release may be detached from the source).
+	reach := 0.0
+	for x := 0.25; x <= 1e5 && ctx.Err() == nil; x *= 1.15 {
+		if ev.at(x, 0, top, bot) >= lowest {
+			reach = x * 1.15
+		}
+	}
+	w := 0.0
+	if m.kind == SourceKind3D {
+		w = m.width
+	}
+	pad := math.Max(math.Max(w, 0.05*reach), 2)
+	// Half-width (plan) or depth reach (section) at stations along the plume.
+	spread := 0.0
+	for s := 1; s <= 10 && reach > 0 && ctx.Err() == nil; s++ {
+		x := reach * float64(s) / 10
+		g := func(d float64) bool {
+			if view == ViewSection {
+				return ev.at(x, 0, d, d) >= lowest
+			}
+			return ev.at(x, d, top, bot) >= lowest
+		}
+		if !g(0) {
+			continue
+		}
+		hi := math.Max(w/2, 1)
+		for g(hi) && hi < 1e5 {
+			hi *= 2
+		}
+		lo := 0.0
+		for range 30 {
+			mid := 0.5 * (lo + hi)
+			if g(mid) {
+				lo = mid
+			} else {
+				hi = mid
+			}
+		}
+		spread = math.Max(spread, hi)
+	}
+	if view == ViewSection {
+		zmax := math.Max(spread*1.15, 1)
+		if m.kind == SourceKind3D {
+			zmax = math.Max(zmax, 1.5*m.depth)
+		}
+		xmax := math.Max(reach*1.05+pad, 10*pad)
+		return Extent{XMin: -pad, XMax: xmax, YMin: 0, YMax: zmax}
+	}
+	half := math.Max(spread*1.1+pad/2, math.Max(w, 5))
+	xmax := math.Max(reach*1.05+pad, 10*pad)
+	b := orb.Bound{Min: orb.Point{math.Inf(1), math.Inf(1)}, Max: orb.Point{math.Inf(-1), math.Inf(-1)}}
+	for _, pc := range [][2]float64{{-pad, -half}, {xmax, -half}, {xmax, half}, {-pad, half}} {
+		x, y := fr.ToSite(pc[0], pc[1])
+		b = b.Extend(orb.Point{x, y})
+	}
+	for _, r := range c.Receptors {
+		b = b.Extend(orb.Point{*r.X, *r.Y})
+	}
+	mx := 0.04 * math.Max(b.Max[0]-b.Min[0], b.Max[1]-b.Min[1])
+	return Extent{b.Min[0] - mx, b.Max[0] + mx, b.Min[1] - mx, b.Max[1] + mx}
+}
+
+// niceStep rounds a spacing up to 1, 1.2, 1.5, 2, 2.5, 3, 4, 5, 6 or 8 times
+// a power of ten, so that grid coordinates are round numbers.
+func niceStep(d float64) float64 {
+	if !(d > 0) || !finite(d) {
+		return 1
+	}
+	p := math.Pow(10, math.Floor(math.Log10(d)))
+	for _, k := range []float64{1, 1.2, 1.5, 2, 2.5, 3, 4, 5, 6, 8, 10} {
+		if k*p >= d*(1-1e-12) {
+			return k * p
+		}
+	}
+	return 10 * p
+}
+
+// layout chooses the nodes of a grid covering e (canonical) within the
+// node budget, with round spacings and an origin on a multiple of them.
+func layout(e Extent, view string, mo MapOptions, uf unitFactors) (Grid, error) {
+	budget := DefaultMapCells
+	if mo.Cells != nil {
+		budget = *mo.Cells
+	}
+	w, h := e.XMax-e.XMin, e.YMax-e.YMin
+	// Round numbers in the request's unit.
+	nice := func(d float64) float64 { return niceStep(d/uf.L) * uf.L }
+	var dx, dy float64
+	switch {
+	case view == ViewPlan && mo.Spacing != nil:
+		dx, dy = *mo.Spacing*uf.L, *mo.Spacing*uf.L
+	case view == ViewPlan:
+		d := math.Sqrt(w * h / float64(budget))
+		for dx = nice(d); (math.Floor(w/dx)+2)*(math.Floor(h/dx)+2) > float64(budget); dx = nice(dx * 1.01) {
+		}
+		dy = dx
+	case mo.Spacing != nil:
+		dx = *mo.Spacing * uf.L
+		dy = nice(h / 50)
+	default:
+		nz := math.Max(11, math.Min(201, math.Round(math.Sqrt(float64(budget)/4))))
+		dy = nice(h / (nz - 1))
+		nzz := math.Floor(h/dy) + 2
+		for dx = nice(w / (float64(budget)/nzz - 1)); (math.Floor(w/dx)+2)*nzz > float64(budget); dx = nice(dx * 1.01) {
+		}
+	}
+	x0 := math.Floor(e.XMin/dx) * dx
+	y0 := math.Floor(e.YMin/dy) * dy
+	if view == ViewSection {
+		y0 = math.Max(y0, 0)
+	}
+	nxf := math.Ceil((e.XMax-x0)/dx*(1-1e-12)) + 1
+	nyf := math.Ceil((e.YMax-y0)/dy*(1-1e-12)) + 1
+	if mo.Spacing == nil && nxf*nyf > float64(budget) {
+		// Rounding the origin down added a row or column: drop it.
+		nxf = math.Min(nxf, math.Floor(float64(budget)/nyf))
+	}
+	if nxf*nyf > MaxMapCells || nxf > MaxMapCells || nyf > MaxMapCells {
+		return Grid{}, &mapError{FieldErrors{{Field: "spacing", Message: fmt.Sprintf(
+			"the grid would hold %.0f x %.0f nodes; at most %d allowed: give a larger spacing or a smaller extent", nxf, nyf, MaxMapCells)}}}
+	}
+	nx, ny := max(int(nxf), 2), max(int(nyf), 2)
+	return Grid{X0: x0, Y0: y0, DX: dx, DY: dy, NX: nx, NY: ny, Values: make([]float64, nx*ny)}, nil
+}
+
+// fill evaluates every node of g (canonical) on all cores, row by row,
+// stopping when ctx is done.
+func (ev *mapEvaluator) fill(ctx context.Context, g *Grid, view string, fr Frame) error {
+	workers := min(runtime.GOMAXPROCS(0), g.NY, 8)
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				j := int(next.Add(1) - 1)
+				if j >= g.NY || ctx.Err() != nil {
+					return
+				}
+				y := g.Y(j)
+				row := g.Values[j*g.NX : (j+1)*g.NX]
+				for i := range row {
+					x := g.X(i)
+					if view == ViewSection {
+						row[i] = ev.at(x, 0, y, y)
+					} else {
+						px, py := fr.ToPlume(x, y)
+						row[i] = ev.at(px, py, ev.top, ev.bot)
+					}
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	return ctx.Err()
+}
+
+// outlineOf contours g at level and measures the outline; fr is the flow
+// frame in the grid's unit (plan view).
+func outlineOf(g *Grid, level float64, view string, fr Frame) Outline {
+	o := Outline{Level: level, Geometry: Contour(g, level)}
+	if o.Geometry == nil {
+		o.Geometry = orb.MultiPolygon{}
+	}
+	if len(o.Geometry) == 0 {
+		return o
+	}
+	o.Area = planar.Area(o.Geometry)
+	o.Perimeter = planar.Length(o.Geometry)
+	minX, maxX, minY, maxY := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
+	for _, poly := range o.Geometry {
+		for _, p := range poly[0] {
+			px, py := p[0], p[1]
+			if view == ViewPlan {
+				px, py = fr.ToPlume(p[0], p[1])
+			}
+			minX, maxX = math.Min(minX, px), math.Max(maxX, px)
+			minY, maxY = math.Min(minY, py), math.Max(maxY, py)
+		}
+	}
+	o.Length, o.Width, o.Reach = maxX-minX, maxY-minY, maxX
+	return o
+}

@@ -1,0 +1,230 @@
+package plume
+
+import (
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"math"
+	"testing"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// uncertainDemo is the invented demo scenario (helpers_test.go) with ten
+// receptors and ten times, as the benchmark uses.
+func uncertainDemo() Scenario {
+	sc := benchScenario(MethodExact)
+	return sc
+}
+
+// ExtractUncertain finds every distribution object, names it by its JSON
+// path and puts its median in its place.
+func TestUncertainExtract(t *testing.T) {
+	var tree map[string]any
+	body := `{"aquifer": {"hydraulic_conductivity": {"distribution": "lognormal", "p05": 2, "p95": 40}, "hydraulic_gradient": 0.004},
+	          "receptors": [{"x": 1, "y": 0}, {"x": {"distribution": "uniform", "min": 10, "max": 20}, "y": 0}]}`
+	if err := json.Unmarshal([]byte(body), &tree); err != nil {
+		t.Fatal(err)
+	}
+	params, mal, inv := ExtractUncertain(tree)
+	if len(mal)+len(inv) > 0 || len(params) != 2 {
+		t.Fatalf("params %v, errors %v %v", params, mal, inv)
+	}
+	if params[0].Path != "aquifer.hydraulic_conductivity" || params[1].Path != "receptors[1].x" {
+		t.Errorf("paths %q %q", params[0].Path, params[1].Path)
+	}
+	// Median of a lognormal given by p05 and p95 is their geometric mean
+	// (symmetry of ln X about mu); of a uniform, the midpoint.
+	if k := tree["aquifer"].(map[string]any)["hydraulic_conductivity"].(float64); math.Abs(k-math.Sqrt(80)) > 1e-12 {
+		t.Errorf("median %g, want sqrt(80)", k)
+	}
+	if x := tree["receptors"].([]any)[1].(map[string]any)["x"].(float64); x != 15 {
+		t.Errorf("median %g, want 15", x)
+	}
+}
+
+// setNumber edits a shallow copy without touching the shared template.
+func TestUncertainSetNumberCopyOnWrite(t *testing.T) {
+	tmpl := demoScenario()
+	sc := tmpl
+	for _, c := range []struct {
+		path string
+		v    float64
+	}{{"aquifer.dispersivity.longitudinal", 3}, {"receptors[1].x", 99}, {"times[2]", 42}, {"source.concentration", 7}} {
+		if err := setNumber(&sc, c.path, c.v); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if *sc.Aquifer.Dispersivity.Longitudinal != 3 || *sc.Receptors[1].X != 99 || sc.Times[2] != 42 || *sc.Source.Concentration != 7 {
+		t.Errorf("values not set: %s", mustJSON(sc))
+	}
+	if *tmpl.Aquifer.Dispersivity.Longitudinal != 10 || *tmpl.Receptors[1].X != 60 || tmpl.Times[2] != 3650 || *tmpl.Source.Concentration != 12 {
+		t.Errorf("template changed: %s", mustJSON(tmpl))
+	}
+	if err := setNumber(&sc, "contaminant.name", 1); err == nil {
+		t.Error("a text field accepted a number")
+	}
+}
+
+// Probability of exceedance against a closed form: with only the source
+// concentration uncertain and log-normal, the concentration at a receptor is
+// C0 f with f fixed, so P(C >= L) = P(C0 >= L/f) = 1 - Phi((ln(L/f) - mu)/sigma)
+// (log-normal distribution: ln C0 ~ N(mu, sigma^2)); Phi from gonum
+// distuv.UnitNormal. One parameter and a monotone response: the Latin
+// hypercube puts exactly one draw in each of n strata, so the count of
+// exceedances is within 1 of n P (McKay et al. 1979).
+func TestUncertainExceedanceClosedForm(t *testing.T) {
+	sc := uncertainDemo()
+	sc.Receptors = sc.Receptors[6:7]
+	sc.Times = []float64{1825}
+	unit := sc
+	unit.Source.Concentration = f(1)
+	res, err := Screen(context.Background(), unit, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fac := *res.Receptors[0].Series[0].Exact
+	level := 15 * fac
+	sc.Contaminant.ScreeningLevel = f(level)
+	d := Distribution{Kind: DistLognormal, P05: 2, P95: 40}
+	sc.Source.Concentration = f(d.Median())
+	const n = 1000
+	ur, err := RunUncertainty(context.Background(), UncertaintyRequest{Template: sc, Parameters: []UncertainParameter{{Path: "source.concentration", Dist: d}}, Realizations: n, Seed: 3}, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	mu, sigma := d.lognormalParams()
+	want := 1 - distuv.UnitNormal.CDF((math.Log(level/fac)-mu)/sigma)
+	got := ur.Receptors[0].Series[0].ExceedanceProbability
+	if got == nil || math.Abs(*got-want) > 1.5/n {
+		t.Fatalf("P = %v, closed form %g", got, want)
+	}
+	ci := ur.Receptors[0].Series[0].ExceedanceProbabilityCI
+	if !(ci[0] <= want && want <= ci[1]) {
+		t.Errorf("interval %v excludes %g", ci, want)
+	}
+	// Mean of C = f E[C0] = f exp(mu + sigma^2/2) within the sampling error.
+	if m := ur.Receptors[0].Series[0].Mean; math.Abs(m/(fac*d.Mean())-1) > 0.03 {
+		t.Errorf("mean %g, want %g", m, fac*d.Mean())
+	}
+	// Median of C is f times the median of C0 (a monotone map keeps quantiles).
+	if p50 := ur.Receptors[0].Series[0].Percentiles.P50; math.Abs(p50/(fac*d.Median())-1) > 0.01 {
+		t.Errorf("p50 %g, want %g", p50, fac*d.Median())
+	}
+	if dr := ur.Receptors[0].Drivers; len(dr) != 1 || math.Abs(dr[0].RankCorrelation-1) > 1e-12 {
+		t.Errorf("drivers %v, want source.concentration with rho 1 (a monotone response)", dr)
+	}
+}
+
+// A seed reproduces a run bit for bit, whatever the number of workers.
+func TestUncertainReproducible(t *testing.T) {
+	sc := uncertainDemo()
+	params := []UncertainParameter{
+		{Path: "aquifer.hydraulic_conductivity", Dist: Distribution{Kind: DistLognormal, P05: 3, P95: 25}},
+		{Path: "contaminant.half_life", Dist: Distribution{Kind: DistTriangular, Min: 200, Mode: 720, Max: 1500}},
+		{Path: "aquifer.dispersivity.longitudinal", Dist: Distribution{Kind: DistLogUniform, Min: 3, Max: 30}},
+	}
+	run := func(workers int, seed uint64) []byte {
+		r, err := RunUncertainty(context.Background(), UncertaintyRequest{Template: sc, Parameters: params, Realizations: 60, Seed: seed, Workers: workers}, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, _ := json.Marshal(r)
+		return b
+	}
+	a, b, c := run(1, 11), run(2, 11), run(2, 12)
+	if string(a) != string(b) {
+		t.Error("same seed, different results with 1 and 2 workers")
+	}
+	if string(a) == string(c) {
+		t.Error("different seeds, same results")
+	}
+	var r UncertaintyResult
+	_ = json.Unmarshal(a, &r)
+	// Faster flow and slower decay raise concentrations downgradient: at the
+	// farthest receptor conductivity and half-life correlate positively with
+	// the peak (physics of advection with first-order decay).
+	far := r.Receptors[len(r.Receptors)-1]
+	for _, d := range far.Drivers {
+		if (d.Parameter == "aquifer.hydraulic_conductivity" || d.Parameter == "contaminant.half_life") && !(d.RankCorrelation > 0.2) {
+			t.Errorf("driver %s rho %g, want clearly positive", d.Parameter, d.RankCorrelation)
+		}
+	}
+}
+
+// Bad settings and distributions reaching outside a field's range are
+// reported against the field.
+func TestUncertainRefusals(t *testing.T) {
+	sc := uncertainDemo()
+	cases := []struct {
+		name  string
+		req   UncertaintyRequest
+		field string
+	}{
+		{"numeric above the limit", UncertaintyRequest{Template: sc, Realizations: 21, Methods: []string{"exact", "numeric"}}, "realizations"},
+		{"too many realizations", UncertaintyRequest{Template: sc, Realizations: MaxRealizations + 1}, "realizations"},
+		{"unknown method", UncertaintyRequest{Template: sc, Methods: []string{"magic"}}, "methods[0]"},
+		{"porosity beyond 1", UncertaintyRequest{Template: sc, Realizations: 200, Parameters: []UncertainParameter{
+			{Path: "aquifer.effective_porosity", Dist: Distribution{Kind: DistLognormal, P05: 0.1, P95: 0.9}}}}, "aquifer.effective_porosity"},
+		{"negative conductivity", UncertaintyRequest{Template: sc, Realizations: 50, Parameters: []UncertainParameter{
+			{Path: "aquifer.hydraulic_conductivity", Dist: Distribution{Kind: DistUniform, Min: -1, Max: 10}}}}, "aquifer.hydraulic_conductivity"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := RunUncertainty(context.Background(), tc.req, Options{})
+			var fe FieldErrors
+			if !errors.As(err, &fe) {
+				t.Fatalf("err %v, want FieldErrors", err)
+			}
+			found := false
+			for _, e := range fe {
+				found = found || e.Field == tc.field
+			}
+			if !found {
+				t.Errorf("errors %v lack %s", fe, tc.field)
+			}
+		})
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	if _, err := RunUncertainty(ctx, UncertaintyRequest{Template: sc, Realizations: 10}, Options{}); !errors.Is(err, context.Canceled) {
+		t.Errorf("cancelled: err %v", err)
+	}
+}
+
+// Every number of a result is finite, also with a far receptor and early times.
+func TestUncertainFinite(t *testing.T) {
+	sc := uncertainDemo()
+	sc.Receptors = append(sc.Receptors, Receptor{ID: "far", X: f(5000), Y: f(0), Z: f(0)}, Receptor{ID: "up", X: f(-50), Y: f(0)})
+	sc.Times = []float64{0, 1e-6, 365}
+	r, err := RunUncertainty(context.Background(), UncertaintyRequest{Template: sc, Realizations: 30, Seed: 1, Methods: []string{"exact", "domenico"},
+		Parameters: []UncertainParameter{{Path: "aquifer.seepage_velocity", Dist: Distribution{Kind: DistLognormal, P05: 0.01, P95: 5}}}}, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := json.Marshal(r); err != nil {
+		t.Fatalf("not encodable (NaN or Inf?): %v", err)
+	}
+	if got := fmt.Sprint(len(r.Receptors[0].Series)); got != "6" {
+		t.Errorf("series items %s, want 3 times x 2 methods", got)
+	}
+}
+
+// BenchmarkUncertaintyDemo: 1,000 realizations of the demo scenario (10
+// receptors, 10 times, exact method) with four uncertain parameters, on
+// every core. Target (issue 5): under 1 s on the 2-core machine.
+func BenchmarkUncertaintyDemo(b *testing.B) {
+	sc := uncertainDemo()
+	params := []UncertainParameter{
+		{Path: "aquifer.hydraulic_conductivity", Dist: Distribution{Kind: DistLognormal, P05: 3, P95: 25}},
+		{Path: "contaminant.half_life", Dist: Distribution{Kind: DistTriangular, Min: 200, Mode: 720, Max: 1500}},
+		{Path: "aquifer.dispersivity.longitudinal", Dist: Distribution{Kind: DistLogUniform, Min: 3, Max: 30}},
+		{Path: "source.concentration", Dist: Distribution{Kind: DistUniform, Min: 8, Max: 16}},
+	}
+	for b.Loop() {
+		if _, err := RunUncertainty(context.Background(), UncertaintyRequest{Template: sc, Parameters: params, Realizations: 1000, Seed: 7}, Options{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
