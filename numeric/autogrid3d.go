@@ -11,6 +11,10 @@ type design3 struct {
 }
 
 func (d design3) cells() float64 {
+	if d.x.oversize > 0 || d.y.oversize > 0 || d.z.oversize > 0 {
+		// Never fits a budget, whatever the budget: the axis was not built.
+		return math.Max(float64(d.x.N())*float64(d.y.N())*float64(d.z.N()), math.MaxInt64)
+	}
 	return float64(d.x.N()) * float64(d.y.N()) * float64(d.z.N())
 }
 

@@ -27,9 +27,6 @@ func FuzzSolverInputs(f *testing.F) {
 	f.Add(math.NaN(), 1.0, 0.1, 0.01, 1.0, 0.0, 15.0, 3.0, 100.0, 0.0, 0.0, 0.0, 365.0, 730.0, 0.0, 0.0, uint16(3000), false, false)
 	f.Add(1e6, 1e-9, 1e-9, 1e-9, 1e9, 1e3, 1e-3, 1e-3, 1e9, -1e9, 0.0, 1e9, 1e-9, 1e12, math.Inf(1), 0.0, uint16(65535), false, false)
 	f.Fuzz(func(t *testing.T, v, dx, dy, dz, r, mu, width, depth, x, y, top, bot, t1, t2, dur, dep float64, budget uint16, steady, oneD bool) {
-		if knownUnboundedGrid(v, dx, dy, dz, r, width, depth, x, y, bot, t1, t2, oneD) {
-			t.Skip("region of the known unbounded grid design; see TestRegressionGradedAxisUnbounded")
-		}
 		times := []float64{t1, t2}
 		if steady {
 			times = append(times, math.Inf(1))
@@ -79,31 +76,6 @@ func FuzzSolverInputs(f *testing.F) {
 	})
 }
 
-// knownUnboundedGrid reports inputs whose automatic 3D grid design would
-// materialise far more faces than any budget before the budget is checked
-// (finding of FuzzSolverInputs, see TestRegressionGradedAxisUnbounded): a
-// domain much longer than the smallest spacing the design asks for. The
-// bound is crude on purpose (ratio of the largest length to the smallest
-// spacing scale over 1e4); remove it once gradedAxis is bounded.
-func knownUnboundedGrid(v, dx, dy, dz, r, width, depth, x, y, bot, t1, t2 float64, oneD bool) bool {
-	if oneD || !(v > 0) || !(dx > 0) || !(dy > 0) || !(dz > 0) || !(r >= 1) || !(width > 0) || !(depth > 0) {
-		return false // rejected by the input checks first
-	}
-	tEnd := t2
-	if math.IsInf(tEnd, 1) || math.IsNaN(tEnd) {
-		tEnd = t1
-	}
-	long := math.Max(math.Abs(x), math.Max(math.Abs(y), math.Max(bot, math.Max(width, depth))))
-	if tEnd > 0 && !math.IsInf(tEnd, 0) {
-		long = math.Max(long, math.Max(v*tEnd/r, math.Sqrt(dx*tEnd/r)))
-	}
-	short := math.Min(math.Min(dx, math.Min(dy, dz))/v, math.Min(width, depth))
-	if t1 > 0 && !math.IsInf(t1, 0) {
-		short = math.Min(short, math.Sqrt(math.Min(dx, math.Min(dy, dz))*t1/r))
-	}
-	return !(long/short <= 1e4)
-}
-
 // TestRegressionGradedAxisUnbounded is the crasher FuzzSolverInputs found
 // (seed 5 of the target): Screen3D with a fast, barely dispersive flow, a
 // 1 mm source and a receptor 1e9 m away. designGrid3 builds each graded
@@ -113,12 +85,10 @@ func knownUnboundedGrid(v, dx, dy, dz, r, width, depth, x, y, bot, t1, t2 float6
 // the design. The same input reaches the solver through POST /v1/screenings
 // (seepage_velocity 1e6, dispersivities 1e-9, width and depth 1e-3,
 // receptor x 1e9, methods ["numeric"]): one request exhausts the server's
-// memory. The fix belongs in package numeric (count the cells of each
-// segment, sum(ceil(phi)), before appending faces, and report an axis over
-// the budget without building it); this test is skipped until then because
-// running it kills the test process.
+// memory. Fixed: gradedAxis now counts the cells of each segment,
+// sum(ceil(phi)), before appending faces, and reports an axis beyond
+// maxAxisCells by count without building it.
 func TestRegressionGradedAxisUnbounded(t *testing.T) {
-	t.Skip("known finding, reported to the lead: numeric.gradedAxis is unbounded (runs out of memory); unskip once fixed")
 	ctx, cancel := context.WithTimeout(context.Background(), time.Second)
 	defer cancel()
 	_, err := Screen3D(ctx, Problem3D{V: 1e6, Dx: 1e-9, Dy: 1e-9, Dz: 1e-9, R: 1e9, Mu: 1e3, Width: 1e-3, Depth: 1e-3,

@@ -10,7 +10,17 @@ import (
 // Faces are strictly ascending; cell i spans [Faces[i], Faces[i+1]].
 type Axis struct {
 	Faces []float64
+	// oversize is the cell count of an automatic axis that was too long to
+	// build (more than maxAxisCells cells); Faces is then nil and the axis
+	// can only be counted, never solved on; oversizeLength is its length.
+	oversize       int
+	oversizeLength float64
 }
+
+// maxAxisCells bounds the cells of one automatically designed axis. An axis
+// needing more is reported by count without building its faces, so a design
+// far beyond any cell budget costs no memory.
+const maxAxisCells = 1 << 22
 
 // UniformAxis divides [0, length] into n equal cells.
 func UniformAxis(length float64, n int) Axis {
@@ -23,7 +33,12 @@ func UniformAxis(length float64, n int) Axis {
 }
 
 // N is the number of cells.
-func (a Axis) N() int { return len(a.Faces) - 1 }
+func (a Axis) N() int {
+	if a.oversize > 0 {
+		return a.oversize
+	}
+	return len(a.Faces) - 1
+}
 
 // Width of cell i, L.
 func (a Axis) Width(i int) float64 { return a.Faces[i+1] - a.Faces[i] }
@@ -52,8 +67,13 @@ func (a Axis) centers() []float64 {
 
 // minMax returns the smallest and largest cell width.
 func (a Axis) minMax() (lo, hi float64) {
+	if a.oversize > 0 {
+		// Not built: the mean width stands for both.
+		w := a.oversizeLength / float64(a.oversize)
+		return w, w
+	}
 	lo, hi = math.Inf(1), 0
-	for i := 0; i < a.N(); i++ {
+	for i := 0; i+1 < len(a.Faces); i++ {
 		w := a.Width(i)
 		lo = math.Min(lo, w)
 		hi = math.Max(hi, w)
@@ -128,8 +148,26 @@ func gradedAxis(hi float64, breaks []float64, pts []refinePoint, hmax, growth, s
 		}
 	}
 	bs = append(bs, hi)
-	faces := []float64{0}
+	// First count the cells (the integral of 1/size over each segment,
+	// rounded up), so that an axis beyond maxAxisCells is never built.
 	const samples = 512
+	total := 0.0
+	for s := 0; s+1 < len(bs); s++ {
+		a, b := bs[s], bs[s+1]
+		var phi float64
+		prev := 1 / size(a)
+		for k := 1; k <= samples; k++ {
+			x := a + (b-a)*float64(k)/samples
+			cur := 1 / size(x)
+			phi += 0.5 * (prev + cur) * (b - a) / samples
+			prev = cur
+		}
+		total += math.Max(math.Ceil(phi-1e-9), 1)
+	}
+	if !(total <= maxAxisCells) {
+		return Axis{oversize: int(math.Min(total, math.MaxInt32)), oversizeLength: hi}
+	}
+	faces := []float64{0}
 	xs := make([]float64, samples+1)
 	phi := make([]float64, samples+1)
 	for s := 0; s+1 < len(bs); s++ {
