@@ -18,16 +18,8 @@ type attenuationBody struct {
 // plume centreline from the observations and the Buscheck & Alcantar
 // biodegradation rate. A scenario without receptors gets one per well.
 func (s *server) attenuation(c echo.Context) error {
-	body, _ := c.Get(ctxBody).([]byte)
 	var ab attenuationBody
-	if p := decodeMembers(body, &ab); p != nil {
-		return p
-	}
-	root, p := decodeBodyTree(body)
-	if p != nil {
-		return p
-	}
-	tree, p := scenarioTree(root)
+	tree, p := decodeEnvelope(c, &ab)
 	if p != nil {
 		return p
 	}

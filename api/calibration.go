@@ -20,16 +20,8 @@ type calibrationBody struct {
 // observations, then screen the scenario with the fitted values. A scenario
 // without receptors gets one per well.
 func (s *server) calibrations(c echo.Context) error {
-	body, _ := c.Get(ctxBody).([]byte)
 	var cb calibrationBody
-	if p := decodeMembers(body, &cb); p != nil {
-		return p
-	}
-	root, p := decodeBodyTree(body)
-	if p != nil {
-		return p
-	}
-	tree, p := scenarioTree(root)
+	tree, p := decodeEnvelope(c, &cb)
 	if p != nil {
 		return p
 	}

@@ -29,16 +29,8 @@ func (s *server) uncertainty(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	body, _ := c.Get(ctxBody).([]byte)
 	var ub uncertaintyBody
-	if p := decodeMembers(body, &ub); p != nil {
-		return p
-	}
-	root, p := decodeBodyTree(body)
-	if p != nil {
-		return p
-	}
-	tree, p := scenarioTree(root)
+	tree, p := decodeEnvelope(c, &ub)
 	if p != nil {
 		return p
 	}

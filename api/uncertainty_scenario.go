@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"github.com/labstack/echo/v4"
 	"strings"
 
 	"github.com/getkin/kin-openapi/openapi3"
@@ -152,4 +153,19 @@ func decodeMembers(body []byte, v any) *Problem {
 		return newProblem(kindMalformed, "the body could not be decoded: "+err.Error(), FieldProblem{Field: "", Message: err.Error()})
 	}
 	return nil
+}
+
+// decodeEnvelope reads the validated body of a request that wraps a
+// scenario ({"scenario": {...}, ...}): the other members into v, and the
+// scenario as a generic JSON tree for the caller to finish decoding.
+func decodeEnvelope(c echo.Context, v any) (map[string]any, *Problem) {
+	body, _ := c.Get(ctxBody).([]byte)
+	if p := decodeMembers(body, v); p != nil {
+		return nil, p
+	}
+	root, p := decodeBodyTree(body)
+	if p != nil {
+		return nil, p
+	}
+	return scenarioTree(root)
 }
