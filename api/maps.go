@@ -8,10 +8,8 @@ import (
 	"errors"
 	"fmt"
 	"log/slog"
-	"mime"
 	"net/http"
 	"runtime/debug"
-	"strconv"
 	"strings"
 
 	"github.com/labstack/echo/v4"
@@ -62,34 +60,8 @@ func negotiateMap(c echo.Context) (string, *Problem) {
 	if f := c.QueryParam("format"); f != "" {
 		return f, nil
 	}
-	accept := strings.TrimSpace(c.Request().Header.Get(echo.HeaderAccept))
-	if accept == "" {
-		return "geojson", nil
-	}
-	best, bestQ := "", -1.0
-	for _, part := range strings.Split(accept, ",") {
-		mt, params, err := mime.ParseMediaType(strings.TrimSpace(part))
-		if err != nil {
-			continue
-		}
-		q := 1.0
-		if v, err := strconv.ParseFloat(params["q"], 64); err == nil && v >= 0 && v <= 1 {
-			q = v
-		}
-		var f string
-		switch mt {
-		case mimeGeoJSON, "application/json", "application/*", "*/*":
-			f = "geojson"
-		case mimeCSV, "text/*":
-			f = "csv"
-		default:
-			continue
-		}
-		if q > 0 && q > bestQ {
-			best, bestQ = f, q
-		}
-	}
-	if best == "" {
+	best, ok := acceptBest(c, "geojson", mapTypes)
+	if !ok {
 		return "", newProblem(kindNotAccept,
 			"plume maps are available as application/geo+json (or application/json with ?format=grid) and text/csv; the Accept header admits none of them",
 			FieldProblem{Field: "Accept", Message: "admits none of application/geo+json, application/json, text/csv"})
@@ -277,4 +249,10 @@ func gridCSV(mp *plume.Map) []byte {
 	}
 	w.Flush()
 	return buf.Bytes()
+}
+
+// mapTypes are the media types a plume map is offered in.
+var mapTypes = map[string]string{
+	mimeGeoJSON: "geojson", "application/json": "geojson", "application/*": "geojson", "*/*": "geojson",
+	mimeCSV: "csv", "text/*": "csv",
 }

@@ -36,44 +36,53 @@ func negotiate(c echo.Context) (outputFormat, *Problem) {
 	case "geojson":
 		return formatGeoJSON, nil
 	}
+	best, ok := acceptBest(c, "json", screeningTypes)
+	if !ok {
+		return formatJSON, newProblem(kindNotAccept,
+			"this resource is available as application/json, text/csv or application/geo+json; the Accept header admits none of them",
+			FieldProblem{Field: "Accept", Message: "admits none of application/json, text/csv, application/geo+json"})
+	}
+	return screeningFormats[best], nil
+}
+
+// The media types a screening result is offered in, by representation name.
+var (
+	screeningTypes = map[string]string{
+		"application/json": "json", "application/*": "json", "*/*": "json",
+		mimeCSV: "csv", "text/*": "csv",
+		mimeGeoJSON: "geojson",
+	}
+	screeningFormats = map[string]outputFormat{"json": formatJSON, "csv": formatCSV, "geojson": formatGeoJSON}
+)
+
+// acceptBest picks, from the request's Accept header, the representation
+// of the media type with the highest q (the first on ties) among those the
+// table maps to a representation name. No Accept header gives def; a header
+// that admits none of the table's types gives ok == false.
+func acceptBest(c echo.Context, def string, table map[string]string) (best string, ok bool) {
 	accept := strings.TrimSpace(c.Request().Header.Get(echo.HeaderAccept))
 	if accept == "" {
-		return formatJSON, nil
+		return def, true
 	}
-	best, bestQ := formatJSON, -1.0
+	bestQ := -1.0
 	for _, part := range strings.Split(accept, ",") {
 		mt, params, err := mime.ParseMediaType(strings.TrimSpace(part))
 		if err != nil {
 			continue
 		}
 		q := 1.0
-		if qs, ok := params["q"]; ok {
+		if qs, found := params["q"]; found {
 			if v, err := strconv.ParseFloat(qs, 64); err == nil && v >= 0 && v <= 1 {
 				q = v
 			}
 		}
-		if q == 0 {
-			continue
-		}
-		var f outputFormat
-		switch mt {
-		case "application/json", "application/*", "*/*":
-			f = formatJSON
-		case mimeCSV, "text/*":
-			f = formatCSV
-		case mimeGeoJSON:
-			f = formatGeoJSON
-		default:
+		f, known := table[mt]
+		if !known || q == 0 {
 			continue
 		}
 		if q > bestQ {
 			best, bestQ = f, q
 		}
 	}
-	if bestQ < 0 {
-		return formatJSON, newProblem(kindNotAccept,
-			"this resource is available as application/json, text/csv or application/geo+json; the Accept header admits none of them",
-			FieldProblem{Field: "Accept", Message: "admits none of application/json, text/csv, application/geo+json"})
-	}
-	return best, nil
+	return best, bestQ >= 0
 }

@@ -3,10 +3,7 @@ package api
 import (
 	"context"
 	"fmt"
-	"mime"
 	"net/http"
-	"strconv"
-	"strings"
 
 	"github.com/labstack/echo/v4"
 
@@ -92,36 +89,13 @@ func negotiatePicture(c echo.Context) (string, *Problem) {
 	if f := c.QueryParam("format"); f != "" {
 		return f, nil
 	}
-	accept := strings.TrimSpace(c.Request().Header.Get(echo.HeaderAccept))
-	if accept == "" {
-		return plots.SVG, nil
-	}
-	best, bestQ := "", -1.0
-	for _, part := range strings.Split(accept, ",") {
-		mt, params, err := mime.ParseMediaType(strings.TrimSpace(part))
-		if err != nil {
-			continue
-		}
-		q := 1.0
-		if v, err := strconv.ParseFloat(params["q"], 64); err == nil && v >= 0 && v <= 1 {
-			q = v
-		}
-		var f string
-		switch mt {
-		case mimeSVG, "image/*", "*/*":
-			f = plots.SVG
-		case mimePNG:
-			f = plots.PNG
-		default:
-			continue
-		}
-		if q > 0 && q > bestQ {
-			best, bestQ = f, q
-		}
-	}
-	if best == "" {
+	best, ok := acceptBest(c, plots.SVG, pictureTypes)
+	if !ok {
 		return "", newProblem(kindNotAccept, "pictures are available as image/svg+xml and image/png; the Accept header admits neither",
 			FieldProblem{Field: "Accept", Message: "admits neither image/svg+xml nor image/png"})
 	}
 	return best, nil
 }
+
+// pictureTypes are the media types a picture is offered in.
+var pictureTypes = map[string]string{mimeSVG: plots.SVG, "image/*": plots.SVG, "*/*": plots.SVG, mimePNG: plots.PNG}
