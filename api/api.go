@@ -1,8 +1,11 @@
 // Package api is the HTTP layer of downgradient: echo routes and handlers,
 // request validation against the OpenAPI document (package openapi) with
 // kin-openapi, encoders for JSON, CSV and GeoJSON, and RFC 9457
-// problem+json errors. It knows nothing of the methods: it decodes a
-// plume.Scenario, calls plume.Screen and encodes the plume.Result.
+// problem+json errors. It knows nothing of the methods: it decodes the
+// requests into the domain's types (packages plume, plume/maps,
+// plume/uncertainty, plume/fit), runs every engine call through one path
+// (compute: the deadline, recovered panics, and one table from domain error
+// kinds to problems) and encodes the results.
 package api
 
 import (
@@ -15,20 +18,13 @@ import (
 	"github.com/labstack/echo/v4"
 
 	"downgradient/openapi"
+	"downgradient/plume"
 )
 
 // Limits of a request (the array limits are also in openapi.yaml).
 const (
 	// DefaultMaxBodyBytes is the default limit of a request body, 1 MiB.
 	DefaultMaxBodyBytes = 1 << 20
-	// MaxReceptors is the most receptors one screening may hold.
-	MaxReceptors = 10_000
-	// MaxTimes is the most times one screening may hold.
-	MaxTimes = 1_000
-	// DefaultMaxEvaluations is the default limit of closed-form point
-	// evaluations per request: receptors x (times + 1 steady state) x
-	// closed-form methods.
-	DefaultMaxEvaluations = 2_000_000
 	// DefaultRequestTimeout is the default per-request computation deadline.
 	DefaultRequestTimeout = 30 * time.Second
 )
@@ -39,7 +35,8 @@ type Config struct {
 	Version string
 	// Largest request body accepted, bytes; 0 means DefaultMaxBodyBytes.
 	MaxBodyBytes int64
-	// Largest number of closed-form evaluations per request; 0 means DefaultMaxEvaluations.
+	// Largest number of closed-form evaluations per request; 0 means
+	// plume.DefaultMaxEvaluations.
 	MaxEvaluations int
 	// Largest number of finite-volume cells of the numeric method; 0 means plume's default.
 	CellBudget int
@@ -61,7 +58,7 @@ func (c Config) withDefaults() Config {
 		c.MaxBodyBytes = DefaultMaxBodyBytes
 	}
 	if c.MaxEvaluations <= 0 {
-		c.MaxEvaluations = DefaultMaxEvaluations
+		c.MaxEvaluations = plume.DefaultMaxEvaluations
 	}
 	if c.RequestTimeout <= 0 {
 		c.RequestTimeout = DefaultRequestTimeout
@@ -88,9 +85,14 @@ type server struct {
 	metrics *metrics
 }
 
-// New builds the echo instance serving every route of the OpenAPI document.
-// It fails only when the embedded document does not load.
-func New(cfg Config) (*echo.Echo, error) {
+// New builds the handler serving every route of the OpenAPI document. It
+// fails only when the embedded document does not load.
+func New(cfg Config) (http.Handler, error) {
+	return newEcho(cfg)
+}
+
+// newEcho builds the echo instance behind New (tests list its routes).
+func newEcho(cfg Config) (*echo.Echo, error) {
 	spec, err := openapi.Load()
 	if err != nil {
 		return nil, err

@@ -1,17 +1,18 @@
 package api
 
 import (
+	"context"
 	"net/http"
 
 	"github.com/labstack/echo/v4"
 
-	"downgradient/plume"
+	"downgradient/plume/fit"
 )
 
 // attenuationBody is the body of POST /v1/attenuation apart from the scenario.
 type attenuationBody struct {
-	Observations []plume.Observation `json:"observations"`
-	Time         *float64            `json:"time"`
+	Observations []fit.Observation `json:"observations"`
+	Time         *float64          `json:"time"`
 }
 
 // attenuation is POST /v1/attenuation: the bulk attenuation rate along the
@@ -28,9 +29,11 @@ func (s *server) attenuation(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	res, err := plume.Attenuation(plume.AttenuationRequest{Scenario: sc, Observations: ab.Observations, Time: ab.Time})
-	if err != nil {
-		return s.problemFromScreen(c.Request().Context(), err, renameOutside("observations", "time"))
+	res, p := compute(c.Request().Context(), s, renameOutside("observations", "time"), func(ctx context.Context) (*fit.AttenuationResult, error) {
+		return fit.Attenuation(ctx, fit.AttenuationRequest{Scenario: sc, Observations: ab.Observations, Time: ab.Time})
+	})
+	if p != nil {
+		return p
 	}
 	return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, res)
 }

@@ -2,16 +2,19 @@ package api
 
 import (
 	"context"
+	"fmt"
 	"net/http"
+	"strings"
 
 	"github.com/labstack/echo/v4"
 
 	"downgradient/plume"
+	"downgradient/plume/fit"
 )
 
 // calibrationBody is the body of POST /v1/calibrations apart from the scenario.
 type calibrationBody struct {
-	Observations []plume.Observation   `json:"observations"`
+	Observations []fit.Observation     `json:"observations"`
 	Fit          []string              `json:"fit"`
 	Bounds       map[string][2]float64 `json:"bounds"`
 }
@@ -30,20 +33,34 @@ func (s *server) calibrations(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	if p := s.checkWorkload(sc); p != nil {
-		return p.under("scenario")
+	ctx := c.Request().Context()
+	if err := plume.CheckWorkload(sc, s.cfg.MaxEvaluations); err != nil {
+		return s.problemFromError(ctx, err, scenarioField)
 	}
-	ctx, cancel := context.WithTimeout(c.Request().Context(), s.cfg.RequestTimeout)
-	defer cancel()
-	rename := renameOutside("observations", "fit", "bounds")
-	res, err := plume.Calibrate(ctx, plume.CalibrationRequest{Scenario: sc, Observations: cb.Observations, Fit: cb.Fit, Bounds: cb.Bounds})
-	if err != nil {
-		return s.problemFromScreen(ctx, err, rename)
+	type answer struct {
+		res *fit.CalibrationResult
+		p   *Problem
 	}
-	screening, p := s.screen(ctx, res.FittedScenario.Scenario, func(f string) string { return joinFieldPath("fitted_scenario", f) })
-	if p != nil {
+	a, p := compute(ctx, s, renameOutside("observations", "fit", "bounds"), func(ctx context.Context) (answer, error) {
+		res, err := fit.Calibrate(ctx, fit.CalibrationRequest{Scenario: sc, Observations: cb.Observations, Fit: cb.Fit, Bounds: cb.Bounds})
+		if err != nil {
+			return answer{}, err
+		}
+		desc := fmt.Sprintf("Fitted by POST /v1/calibrations to %d observations: %s", len(cb.Observations), strings.Join(cb.Fit, ", "))
+		res.FittedScenario.Description = &desc
+		screening, err := plume.Screen(ctx, res.FittedScenario.Scenario, s.engineOptions())
+		if err != nil {
+			return answer{p: s.problemFromError(ctx, err, func(f string) string { return joinFieldPath("fitted_scenario", f) })}, nil
+		}
+		res.Screening = screening
+		return answer{res: res}, nil
+	})
+	switch {
+	case p != nil:
 		return p
+	case a.p != nil:
+		return a.p
 	}
-	res.Screening = screening
-	return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, res)
+	s.metrics.observeResult(a.res.Screening)
+	return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, a.res)
 }

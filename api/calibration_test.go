@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"downgradient/plume"
+	"downgradient/plume/fit"
 )
 
 // monitoringRounds samples the demo scenario's exact solution at its six
@@ -66,7 +67,7 @@ func TestCalibrationsEndToEnd(t *testing.T) {
 	if rec.Code != 200 {
 		t.Fatalf("%d %s", rec.Code, rec.Body.String())
 	}
-	var res plume.CalibrationResult
+	var res fit.CalibrationResult
 	if err := json.Unmarshal(rec.Body.Bytes(), &res); err != nil {
 		t.Fatal(err)
 	}
@@ -87,7 +88,7 @@ func TestAttenuationEndToEnd(t *testing.T) {
 	if rec.Code != 200 {
 		t.Fatalf("%d %s", rec.Code, rec.Body.String())
 	}
-	var res plume.AttenuationResult
+	var res fit.AttenuationResult
 	if err := json.Unmarshal(rec.Body.Bytes(), &res); err != nil {
 		t.Fatal(err)
 	}

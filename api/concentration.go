@@ -43,10 +43,10 @@ func (s *server) concentration(c echo.Context) error {
 	rr := res.Receptors[0]
 	var v *float64
 	if steady {
-		v = methodValue(method, rr.SteadyState.Exact, rr.SteadyState.Domenico, rr.SteadyState.Numeric)
+		v = plume.MethodValue(method, rr.SteadyState.Exact, rr.SteadyState.Domenico, rr.SteadyState.Numeric)
 	} else if len(rr.Series) == 1 {
 		sp := rr.Series[0]
-		v = methodValue(method, sp.Exact, sp.Domenico, sp.Numeric)
+		v = plume.MethodValue(method, sp.Exact, sp.Domenico, sp.Numeric)
 	}
 	if v == nil {
 		return newProblem(kindInvalid, "the method gave no value at this time",
@@ -122,24 +122,9 @@ func scenarioFromQuery(q url.Values, params openapi3.Parameters) (sc plume.Scena
 			method = raw
 			continue
 		}
-		var v any = raw
-		if schema != nil && schema.Type != nil && len(*schema.Type) > 0 {
-			switch (*schema.Type)[0] {
-			case openapi3.TypeNumber:
-				f, err := strconv.ParseFloat(raw, 64)
-				if err != nil || math.IsNaN(f) || math.IsInf(f, 0) {
-					return sc, false, "", newProblem(kindMalformed, "wrong type",
-						FieldProblem{Field: name, Message: fmt.Sprintf("value %q is not a finite decimal number", raw)})
-				}
-				v = f
-			case openapi3.TypeBoolean:
-				b, err := strconv.ParseBool(raw)
-				if err != nil {
-					return sc, false, "", newProblem(kindMalformed, "wrong type",
-						FieldProblem{Field: name, Message: fmt.Sprintf("value %q is not true or false", raw)})
-				}
-				v = b
-			}
+		v, p := queryValue(name, raw, schema)
+		if p != nil {
+			return sc, false, "", p
 		}
 		path := strings.Split(name, ".")
 		if path[0] == "receptor" {
@@ -156,16 +141,49 @@ func scenarioFromQuery(q url.Values, params openapi3.Parameters) (sc plume.Scena
 	}
 	tree["receptors"] = []any{receptor}
 	tree["methods"] = []any{method}
+	if p := decodeQueryTree(tree, &sc); p != nil {
+		return sc, false, "", p
+	}
+	return sc, steady, method, nil
+}
+
+// queryValue converts one query value to the JSON type of its schema.
+func queryValue(name, raw string, schema *openapi3.Schema) (any, *Problem) {
+	if schema == nil || schema.Type == nil || len(*schema.Type) == 0 {
+		return raw, nil
+	}
+	switch (*schema.Type)[0] {
+	case openapi3.TypeNumber:
+		f, err := strconv.ParseFloat(raw, 64)
+		if err != nil || math.IsNaN(f) || math.IsInf(f, 0) {
+			return nil, newProblem(kindMalformed, "wrong type",
+				FieldProblem{Field: name, Message: fmt.Sprintf("value %q is not a finite decimal number", raw)})
+		}
+		return f, nil
+	case openapi3.TypeBoolean:
+		b, err := strconv.ParseBool(raw)
+		if err != nil {
+			return nil, newProblem(kindMalformed, "wrong type",
+				FieldProblem{Field: name, Message: fmt.Sprintf("value %q is not true or false", raw)})
+		}
+		return b, nil
+	}
+	return raw, nil
+}
+
+// decodeQueryTree decodes the tree built from the query into sc, keeping
+// sc's times.
+func decodeQueryTree(tree map[string]any, sc *plume.Scenario) *Problem {
 	js, err := json.Marshal(tree)
 	if err == nil {
 		times := sc.Times
-		err = json.Unmarshal(js, &sc)
+		err = json.Unmarshal(js, sc)
 		sc.Times = times
 	}
 	if err != nil {
-		return sc, false, "", newProblem(kindMalformed, "the query does not form a scenario: "+err.Error())
+		return newProblem(kindMalformed, "the query does not form a scenario: "+err.Error())
 	}
-	return sc, steady, method, nil
+	return nil
 }
 
 // setPath stores v at the dotted path in a tree of maps.

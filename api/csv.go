@@ -43,19 +43,6 @@ func csvSafe(s string) string {
 	return s
 }
 
-// methodValue returns the value of a method in a per-method triple.
-func methodValue(m string, exact, domenico, numeric *float64) *float64 {
-	switch m {
-	case plume.MethodExact:
-		return exact
-	case plume.MethodDomenico:
-		return domenico
-	case plume.MethodNumeric:
-		return numeric
-	}
-	return nil
-}
-
 // encodeCSV writes the long-format table: one row per receptor, time and
 // method, then the steady-state rows with time "steady". Site coordinates x
 // and y are the request's; the rest comes from the result.
@@ -95,14 +82,14 @@ func encodeCSV(sc plume.Scenario, res *plume.Result) ([]byte, bool) {
 		}
 		for _, sp := range rr.Series {
 			for _, m := range plume.AllMethods {
-				if v := methodValue(m, sp.Exact, sp.Domenico, sp.Numeric); v != nil {
+				if v := plume.MethodValue(m, sp.Exact, sp.Domenico, sp.Numeric); v != nil {
 					row(num(sp.Time), m, *v)
 				}
 			}
 		}
 		ss := rr.SteadyState
 		for _, m := range plume.AllMethods {
-			if v := methodValue(m, ss.Exact, ss.Domenico, ss.Numeric); v != nil {
+			if v := plume.MethodValue(m, ss.Exact, ss.Domenico, ss.Numeric); v != nil {
 				row("steady", m, *v)
 			}
 		}

@@ -33,7 +33,7 @@ func newTestServer(t testing.TB, cfg Config) *testServer {
 	if cfg.Version == "" {
 		cfg.Version = "test"
 	}
-	e, err := New(cfg)
+	e, err := newEcho(cfg)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -9,6 +9,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"downgradient/plume"
 )
 
 // Each limit, exceeded, answers its documented status (openapi.yaml, "Errors
@@ -37,8 +39,8 @@ func TestLimitsExceeded(t *testing.T) {
 		field  string // "" when the body as a whole is over
 	}{
 		{"body over MaxBodyBytes", Config{MaxBodyBytes: 2048}, http.MethodPost, "/v1/screenings", padded, 413, ""},
-		{"receptors over 10,000", Config{}, http.MethodPost, "/v1/screenings", withRecs(MaxReceptors + 1), 413, "receptors"},
-		{"times over 1,000", Config{}, http.MethodPost, "/v1/screenings", withTimes(MaxTimes + 1), 413, "times"},
+		{"receptors over 10,000", Config{}, http.MethodPost, "/v1/screenings", withRecs(plume.MaxReceptors + 1), 413, "receptors"},
+		{"times over 1,000", Config{}, http.MethodPost, "/v1/screenings", withTimes(plume.MaxTimes + 1), 413, "times"},
 		{"closed-form evaluations over the budget", Config{MaxEvaluations: 50}, http.MethodPost, "/v1/screenings", withTimes(20), 413, "receptors"},
 		{"uncertainty realizations over the budget", Config{MaxEvaluations: 1000}, http.MethodPost, "/v1/uncertainty",
 			mustJSON(t, map[string]any{"scenario": demo, "realizations": 5000, "methods": []any{"exact"}}), 413, "realizations"},

@@ -4,24 +4,20 @@ import (
 	"bytes"
 	"context"
 	"encoding/csv"
-	"encoding/json"
-	"errors"
 	"fmt"
-	"log/slog"
 	"net/http"
-	"runtime/debug"
-	"strings"
 
 	"github.com/labstack/echo/v4"
 	"github.com/paulmach/orb/geojson"
 
 	"downgradient/plume"
+	"downgradient/plume/maps"
 )
 
 // mapBody is the body of POST /v1/plume-maps: the scenario and the map options.
 type mapBody struct {
 	Scenario scenarioBody `json:"scenario"`
-	plume.MapOptions
+	maps.MapOptions
 }
 
 // plumeMaps is POST /v1/plume-maps: outlines as GeoJSON (default), the grid
@@ -33,14 +29,15 @@ func (s *server) plumeMaps(c echo.Context) error {
 	}
 	body, _ := c.Get(ctxBody).([]byte)
 	var mb mapBody
-	if p := decodeStrict(body, &mb); p != nil {
+	if p := decodeBody(body, &mb, true); p != nil {
 		return p
 	}
-	if p := s.checkWorkload(mb.Scenario.Scenario); p != nil {
-		return prefixProblem(p, "scenario.")
+	ctx := c.Request().Context()
+	if err := plume.CheckWorkload(mb.Scenario.Scenario, s.cfg.MaxEvaluations); err != nil {
+		return s.problemFromError(ctx, err, func(f string) string { return "scenario." + f })
 	}
-	mp, p := runEngine(c.Request().Context(), s, func(ctx context.Context) (*plume.Map, error) {
-		return plume.PlumeMap(ctx, mb.Scenario.Scenario, mb.MapOptions, plume.Options{EngineVersion: s.cfg.Version})
+	mp, p := compute(ctx, s, nil, func(ctx context.Context) (*maps.Map, error) {
+		return maps.PlumeMap(ctx, mb.Scenario.Scenario, mb.MapOptions, s.engineOptions())
 	})
 	if p != nil {
 		return p
@@ -67,78 +64,6 @@ func negotiateMap(c echo.Context) (string, *Problem) {
 			FieldProblem{Field: "Accept", Message: "admits none of application/geo+json, application/json, text/csv"})
 	}
 	return best, nil
-}
-
-// decodeStrict decodes a schema-checked body into v, refusing unknown fields.
-func decodeStrict(body []byte, v any) *Problem {
-	dec := json.NewDecoder(bytes.NewReader(body))
-	dec.DisallowUnknownFields()
-	err := dec.Decode(v)
-	if err == nil {
-		return nil
-	}
-	var ute *json.UnmarshalTypeError
-	if errors.As(err, &ute) {
-		if strings.HasPrefix(ute.Value, "number") {
-			return newProblem(kindInvalid, "a number is out of the range of a 64-bit float",
-				FieldProblem{Field: ute.Field, Message: "number out of range: " + ute.Value})
-		}
-		return newProblem(kindMalformed, "wrong JSON type",
-			FieldProblem{Field: ute.Field, Message: fmt.Sprintf("wrong type: must be %s, got %s", ute.Type, ute.Value)})
-	}
-	return newProblem(kindMalformed, "the body does not decode: "+err.Error(), FieldProblem{Field: "", Message: err.Error()})
-}
-
-// prefixProblem prefixes the field names of p.
-func prefixProblem(p *Problem, prefix string) *Problem {
-	for i := range p.Errors {
-		p.Errors[i].Field = prefix + p.Errors[i].Field
-	}
-	return p
-}
-
-// runEngine runs f under the per-request deadline in its own goroutine (so
-// the answer leaves at the deadline) and maps its errors: FieldErrors 422,
-// a map over the limits 413 with the fields, a deadline 503.
-func runEngine[T any](ctx context.Context, s *server, f func(context.Context) (T, error)) (T, *Problem) {
-	ctx, cancel := context.WithTimeout(ctx, s.cfg.RequestTimeout)
-	defer cancel()
-	type outcome struct {
-		v   T
-		err error
-	}
-	done := make(chan outcome, 1)
-	go func() {
-		defer func() {
-			if r := recover(); r != nil {
-				slog.Error("panic in the engine", "panic", fmt.Sprint(r), "stack", string(debug.Stack()))
-				done <- outcome{err: errEnginePanic}
-			}
-		}()
-		v, err := f(ctx)
-		done <- outcome{v, err}
-	}()
-	var zero T
-	var o outcome
-	select {
-	case o = <-done:
-	case <-ctx.Done():
-		return zero, s.problemFromScreen(ctx, ctx.Err(), nil)
-	}
-	switch {
-	case o.err == nil:
-		return o.v, nil
-	case errors.Is(o.err, errEnginePanic):
-		return zero, newProblem(kindInternal, "the server could not complete the request")
-	}
-	if fe := plume.OverLimitFields(o.err); len(fe) > 0 {
-		fps := make([]FieldProblem, len(fe))
-		for i, e := range fe {
-			fps[i] = FieldProblem{Field: e.Field, Message: e.Message}
-		}
-		return zero, newProblem(kindTooLarge, "the map is over the limits", fps...)
-	}
-	return zero, s.problemFromScreen(ctx, o.err, nil)
 }
 
 // outlineProps are the properties of one outline feature.
@@ -168,10 +93,10 @@ type gridInfo struct {
 	NY      int        `json:"ny"`
 }
 
-func infoOf(mp *plume.Map) gridInfo {
+func infoOf(mp *maps.Map) gridInfo {
 	g := mp.Grid
 	axes := [2]string{"x", "y"}
-	if mp.View == plume.ViewSection {
+	if mp.View == maps.ViewSection {
 		axes = [2]string{"plume_x", "depth"}
 	}
 	return gridInfo{Axes: axes, Origin: [2]float64{g.X0, g.Y0}, Spacing: [2]float64{g.DX, g.DY}, NX: g.NX, NY: g.NY}
@@ -179,7 +104,7 @@ func infoOf(mp *plume.Map) gridInfo {
 
 // outlineCollection is the GeoJSON answer: one MultiPolygon feature per
 // level, with the map's context as foreign members.
-func outlineCollection(mp *plume.Map) *geojson.FeatureCollectionOf[outlineProps] {
+func outlineCollection(mp *maps.Map) *geojson.FeatureCollectionOf[outlineProps] {
 	fc := &geojson.FeatureCollectionOf[outlineProps]{Type: "FeatureCollection"}
 	for i, o := range mp.Outlines {
 		fc.Features = append(fc.Features, &geojson.FeatureOf[outlineProps]{
@@ -204,24 +129,24 @@ func outlineCollection(mp *plume.Map) *geojson.FeatureCollectionOf[outlineProps]
 
 // gridDoc is the ?format=grid answer.
 type gridDoc struct {
-	Engine  plume.Engine  `json:"engine"`
-	Units   plume.Units   `json:"units"`
-	View    string        `json:"view"`
-	Time    plume.MapTime `json:"time"`
-	Depth   float64       `json:"depth"`
-	DepthB  *float64      `json:"depth_bottom"`
-	Method  string        `json:"method"`
-	Axes    [2]string     `json:"axes"`
-	Origin  [2]float64    `json:"origin"`
-	Spacing [2]float64    `json:"spacing"`
-	NX      int           `json:"nx"`
-	NY      int           `json:"ny"`
+	Engine  plume.Engine `json:"engine"`
+	Units   plume.Units  `json:"units"`
+	View    string       `json:"view"`
+	Time    maps.MapTime `json:"time"`
+	Depth   float64      `json:"depth"`
+	DepthB  *float64     `json:"depth_bottom"`
+	Method  string       `json:"method"`
+	Axes    [2]string    `json:"axes"`
+	Origin  [2]float64   `json:"origin"`
+	Spacing [2]float64   `json:"spacing"`
+	NX      int          `json:"nx"`
+	NY      int          `json:"ny"`
 	// Values[j][i] at origin + (i*spacing[0], j*spacing[1]).
 	Values  [][]float64    `json:"values"`
 	Caveats []plume.Caveat `json:"caveats"`
 }
 
-func gridDocument(mp *plume.Map) gridDoc {
+func gridDocument(mp *maps.Map) gridDoc {
 	info := infoOf(mp)
 	g := mp.Grid
 	rows := make([][]float64, g.NY)
@@ -234,7 +159,7 @@ func gridDocument(mp *plume.Map) gridDoc {
 }
 
 // gridCSV writes one row per node: x, y, value (plume_x, depth, value for a section).
-func gridCSV(mp *plume.Map) []byte {
+func gridCSV(mp *maps.Map) []byte {
 	var buf bytes.Buffer
 	w := csv.NewWriter(&buf)
 	L, C := unitToken(mp.Units.Length), unitToken(mp.Units.Concentration)

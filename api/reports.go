@@ -40,7 +40,7 @@ var reportTemplate = template.Must(template.New("report").Funcs(template.FuncMap
 func (s *server) reports(c echo.Context) error {
 	body, _ := c.Get(ctxBody).([]byte)
 	var sb scenarioBody
-	if p := decodeStrict(body, &sb); p != nil {
+	if p := decodeBody(body, &sb, true); p != nil {
 		return p
 	}
 	sc := sb.Scenario
@@ -48,7 +48,7 @@ func (s *server) reports(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	page, p := runEngine(c.Request().Context(), s, func(ctx context.Context) ([]byte, error) {
+	page, p := compute(c.Request().Context(), s, nil, func(ctx context.Context) ([]byte, error) {
 		fi, err := s.computeFigures(ctx, sc, res, nil)
 		if err != nil {
 			return nil, err
@@ -161,7 +161,6 @@ func optNum(p *float64) string {
 func buildReport(sb scenarioBody, res *plume.Result, fi *figureInputs) (*reportView, error) {
 	sc := sb.Scenario
 	u := res.Units
-	L, T, C := u.Length, u.Time, u.Concentration
 	rv := &reportView{Style: template.CSS(reportStyle), Engine: res.Engine, Units: u, Caveats: res.Caveats,
 		Screening: res.Derived.ScreeningLevel, Counts: map[string]int{}}
 	rv.Title = "Groundwater screening summary"
@@ -174,6 +173,29 @@ func buildReport(sb scenarioBody, res *plume.Result, fi *figureInputs) (*reportV
 	for _, cv := range res.Caveats {
 		rv.Counts[cv.Severity]++
 	}
+	rv.Inputs = inputGroups(sc, u)
+	rv.Receptors = receptorInputs(sc, res)
+	ts := make([]string, len(sc.Times))
+	for i, t := range sc.Times {
+		ts[i] = fmtReportNumber(t)
+	}
+	rv.Times = orDash(strings.Join(ts, ", "))
+	ms := sc.Methods
+	if len(ms) == 0 {
+		ms = plume.AllMethods
+	}
+	rv.Methods = strings.Join(ms, ", ")
+	rv.Derived = derivedRows(res.Derived, u)
+	rv.Results = resultRows(res)
+	if err := rv.addFigures(res, fi); err != nil {
+		return nil, err
+	}
+	return rv, nil
+}
+
+// inputGroups lists the inputs given, by group, in the request's units.
+func inputGroups(sc plume.Scenario, u plume.Units) []reportGroup {
+	L, T, C := u.Length, u.Time, u.Concentration
 	given := func(p *float64) string { return optNum(p) }
 	a, k, src := sc.Aquifer, sc.Contaminant, sc.Source
 	aq := reportGroup{Name: "Aquifer", Rows: []reportRow{
@@ -220,7 +242,12 @@ func buildReport(sb scenarioBody, res *plume.Result, fi *figureInputs) (*reportV
 		}
 		g.Rows = rows
 	}
-	rv.Inputs = []reportGroup{aq, ct, so}
+	return []reportGroup{aq, ct, so}
+}
+
+// receptorInputs lists the receptors as given.
+func receptorInputs(sc plume.Scenario, res *plume.Result) []reportReceptorInput {
+	var out []reportReceptorInput
 	for i, r := range sc.Receptors {
 		ri := reportReceptorInput{ID: res.Receptors[i].ID, X: optNum(r.X), Y: optNum(r.Y)}
 		switch {
@@ -231,20 +258,14 @@ func buildReport(sb scenarioBody, res *plume.Result, fi *figureInputs) (*reportV
 		default:
 			ri.Depth = "0"
 		}
-		rv.Receptors = append(rv.Receptors, ri)
+		out = append(out, ri)
 	}
-	ts := make([]string, len(sc.Times))
-	for i, t := range sc.Times {
-		ts[i] = fmtReportNumber(t)
-	}
-	rv.Times = orDash(strings.Join(ts, ", "))
-	ms := sc.Methods
-	if len(ms) == 0 {
-		ms = plume.AllMethods
-	}
-	rv.Methods = strings.Join(ms, ", ")
+	return out
+}
 
-	rv.Derived = derivedRows(res.Derived, u)
+// resultRows are the verdict table's rows.
+func resultRows(res *plume.Result) []reportResult {
+	var out []reportResult
 	for _, rr := range res.Receptors {
 		r := reportResult{ID: rr.ID, PlumeX: fmtReportNumber(rr.PlumeX), PlumeY: fmtReportNumber(rr.PlumeY), Depth: fmtReportNumber(rr.Z),
 			SteadyExact: optNum(rr.SteadyState.Exact), SteadyDomenico: optNum(rr.SteadyState.Domenico), SteadyNumeric: optNum(rr.SteadyState.Numeric),
@@ -256,24 +277,30 @@ func buildReport(sb scenarioBody, res *plume.Result, fi *figureInputs) (*reportV
 		if rr.DomenicoDeviation != nil {
 			r.DomenicoDeviation = fmt.Sprintf("%.0f %%", 100**rr.DomenicoDeviation)
 		}
-		rv.Results = append(rv.Results, r)
+		out = append(out, r)
 	}
+	return out
+}
 
-	// Figures.
-	render := func(f *plots.Figure, err error) (template.HTML, error) {
-		if err != nil {
-			return "", err
-		}
-		w, h := f.Size(plots.DefaultWidth)
-		b, err := plots.Render(f, w, h, plots.SVG)
-		if err != nil {
-			return "", err
-		}
-		return template.HTML(plots.InlineSVG(b)), nil // our own SVG: text escaped by the SVG writer
+// renderInline renders a figure as inline SVG for the page.
+func renderInline(f *plots.Figure, err error) (template.HTML, error) {
+	if err != nil {
+		return "", err
 	}
+	w, h := f.Size(plots.DefaultWidth)
+	b, err := plots.Render(f, w, h, plots.SVG)
+	if err != nil {
+		return "", err
+	}
+	return template.HTML(plots.InlineSVG(b)), nil // our own SVG: text escaped by the SVG writer
+}
+
+// addFigures renders the map, the profile and the breakthrough plots.
+func (rv *reportView) addFigures(res *plume.Result, fi *figureInputs) error {
+	L, C := res.Units.Length, res.Units.Concentration
 	var err error
-	if rv.MapSVG, err = render(plots.MapFigure(mapData(fi.planMap))); err != nil {
-		return nil, err
+	if rv.MapSVG, err = renderInline(plots.MapFigure(mapData(fi.planMap))); err != nil {
+		return err
 	}
 	mp := fi.planMap
 	rv.MapNote = fmt.Sprintf("Grid of %d × %d nodes, %s %s apart; %s solution.", mp.Grid.NX, mp.Grid.NY,
@@ -286,8 +313,8 @@ func buildReport(sb scenarioBody, res *plume.Result, fi *figureInputs) (*reportV
 			rv.PlumeLength = "At steady state the centreline concentration does not fall to the screening level within 1,000 km (or the source is not constant)."
 		}
 	}
-	if rv.ProfileSVG, err = render(plots.ProfileFigure(profileData(fi.profile, res))); err != nil {
-		return nil, err
+	if rv.ProfileSVG, err = renderInline(plots.ProfileFigure(profileData(fi.profile, res))); err != nil {
+		return err
 	}
 	order := receptorOrder(res)
 	if len(order) > maxReportReceptorPlots {
@@ -295,13 +322,13 @@ func buildReport(sb scenarioBody, res *plume.Result, fi *figureInputs) (*reportV
 		order = order[:maxReportReceptorPlots]
 	}
 	for _, i := range order {
-		svg, err := render(plots.BreakthroughFigure(breakthroughData(res, fi.dense, i)))
+		svg, err := renderInline(plots.BreakthroughFigure(breakthroughData(res, fi.dense, i)))
 		if err != nil {
-			return nil, err
+			return err
 		}
 		rv.Breakthru = append(rv.Breakthru, reportFigure{Caption: res.Receptors[i].ID, SVG: svg})
 	}
-	return rv, nil
+	return nil
 }
 
 func orDash(s string) string {

@@ -3,13 +3,13 @@ package api
 import (
 	"context"
 	"fmt"
-	"math"
 	"sort"
 
 	"github.com/paulmach/orb"
 
 	"downgradient/plots"
 	"downgradient/plume"
+	"downgradient/plume/maps"
 )
 
 // Figure kinds of POST /v1/plots and of the report.
@@ -45,7 +45,7 @@ func breakthroughData(res, dense *plume.Result, i int) plots.Breakthrough {
 	for _, m := range []string{plume.MethodExact, plume.MethodDomenico} {
 		c := plots.Curve{Label: methodLabel(m, false), Method: m}
 		for _, sp := range dr.Series {
-			if v := methodValue(m, sp.Exact, sp.Domenico, sp.Numeric); v != nil {
+			if v := plume.MethodValue(m, sp.Exact, sp.Domenico, sp.Numeric); v != nil {
 				c.X, c.Y = append(c.X, sp.Time), append(c.Y, *v)
 			}
 		}
@@ -66,7 +66,7 @@ func breakthroughData(res, dense *plume.Result, i int) plots.Breakthrough {
 }
 
 // profileData turns a centreline profile into plot data.
-func profileData(pr *plume.Profile, res *plume.Result) plots.Profile {
+func profileData(pr *maps.Profile, res *plume.Result) plots.Profile {
 	p := plots.Profile{LengthUnit: res.Units.Length, ConcUnit: res.Units.Concentration, Depth: pr.Depth,
 		ScreeningLevel: pr.ScreeningLevel}
 	for _, c := range pr.Curves {
@@ -87,7 +87,7 @@ func profileData(pr *plume.Profile, res *plume.Result) plots.Profile {
 // mapData turns a plan-view map into plot data: the outlines, the source
 // face and zone (one source width upgradient of the face, the convention of
 // the receptor_inside_source caveat) and the receptors.
-func mapData(mp *plume.Map) plots.PlanMap {
+func mapData(mp *maps.Map) plots.PlanMap {
 	u := mp.Units
 	when := "at steady state"
 	if !mp.Time.Steady {
@@ -135,36 +135,28 @@ func mapData(mp *plume.Map) plots.PlanMap {
 type figureInputs struct {
 	res     *plume.Result
 	dense   *plume.Result
-	profile *plume.Profile
-	planMap *plume.Map
+	profile *maps.Profile
+	planMap *maps.Map
 }
 
 // computeFigures runs what the requested kinds need (nil kinds: all).
 func (s *server) computeFigures(ctx context.Context, sc plume.Scenario, res *plume.Result, kinds map[string]bool) (*figureInputs, error) {
-	opt := plume.Options{EngineVersion: s.cfg.Version, CellBudget: s.cfg.CellBudget}
+	opt := s.engineOptions()
 	fi := &figureInputs{res: res}
 	var err error
 	if kinds == nil || kinds[kindBreakthrough] {
-		if fi.dense, err = plume.Breakthroughs(ctx, sc, plume.DenseTimes(sc, res, denseSteps), opt); err != nil {
+		if fi.dense, err = maps.Breakthroughs(ctx, sc, maps.DenseTimes(sc, res, denseSteps), opt); err != nil {
 			return nil, err
 		}
 	}
 	if kinds == nil || kinds[kindProfile] {
-		if fi.profile, err = plume.CentrelineProfile(ctx, sc, 0, denseSteps, opt); err != nil {
+		if fi.profile, err = maps.CentrelineProfile(ctx, sc, 0, denseSteps, opt); err != nil {
 			return nil, err
 		}
 	}
 	if kinds == nil || kinds[kindMap] {
-		mo := plume.MapOptions{}
-		if res.Derived.ScreeningLevel == nil {
-			// No screening level: outline fractions of the source concentration.
-			c0 := 1.0
-			if sc.Source.Concentration != nil {
-				c0 = *sc.Source.Concentration
-			}
-			mo.Levels = []float64{c0 * 1e-3, c0 * 1e-2, c0 * 1e-1}
-		}
-		if fi.planMap, err = plume.PlumeMap(ctx, sc, mo, opt); err != nil {
+		mo := maps.MapOptions{Levels: maps.FigureLevels(sc, res.Derived.ScreeningLevel)}
+		if fi.planMap, err = maps.PlumeMap(ctx, sc, mo, opt); err != nil {
 			return nil, err
 		}
 	}
@@ -181,12 +173,4 @@ func receptorOrder(res *plume.Result) []int {
 		return res.Receptors[idx[a]].Peak.Concentration > res.Receptors[idx[b]].Peak.Concentration
 	})
 	return idx
-}
-
-// finiteOr returns v, or d when v is not finite.
-func finiteOr(v, d float64) float64 {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return d
-	}
-	return v
 }

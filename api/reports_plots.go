@@ -46,7 +46,7 @@ func (s *server) plotsHandler(c echo.Context) error {
 				FieldProblem{Field: "receptor", Message: fmt.Sprintf("no receptor has the id %q", id)})
 		}
 	}
-	img, p := runEngine(c.Request().Context(), s, func(ctx context.Context) ([]byte, error) {
+	img, p := compute(c.Request().Context(), s, nil, func(ctx context.Context) ([]byte, error) {
 		fi, err := s.computeFigures(ctx, sc, res, map[string]bool{kind: true})
 		if err != nil {
 			return nil, err
@@ -81,7 +81,7 @@ func (fi *figureInputs) figure(kind string, receptor int) (*plots.Figure, error)
 	case kindMap:
 		return plots.MapFigure(mapData(fi.planMap))
 	}
-	return nil, plume.FieldErrors{{Field: "kind", Message: "must be breakthrough, profile or map"}}
+	return nil, plume.Invalid("kind", "must be breakthrough, profile or map")
 }
 
 // negotiatePicture picks svg (default) or png; format wins over Accept.

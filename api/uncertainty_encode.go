@@ -8,6 +8,7 @@ import (
 	"github.com/labstack/echo/v4"
 
 	"downgradient/plume"
+	"downgradient/plume/uncertainty"
 )
 
 // uncertaintyCSVHeader is the header row of the uncertainty CSV.
@@ -21,7 +22,7 @@ func uncertaintyCSVHeader(u plume.Units) []string {
 // encodeUncertaintyCSV writes one row per receptor, time and method, then
 // the steady-state rows (time "steady") and the peak row (time "peak").
 // x and y are the request's site coordinates (the median where uncertain).
-func encodeUncertaintyCSV(sc plume.Scenario, res *plume.UncertaintyResult) []byte {
+func encodeUncertaintyCSV(sc plume.Scenario, res *uncertainty.UncertaintyResult) []byte {
 	var buf bytes.Buffer
 	w := csv.NewWriter(&buf)
 	_ = w.Write(uncertaintyCSVHeader(res.Units))
@@ -37,7 +38,7 @@ func encodeUncertaintyCSV(sc plume.Scenario, res *plume.UncertaintyResult) []byt
 			x, y = sc.Receptors[i].X, sc.Receptors[i].Y
 		}
 		prefix := []string{csvSafe(rr.ID), opt(x), opt(y), formatNumber(rr.Z), formatNumber(rr.PlumeX), formatNumber(rr.PlumeY)}
-		row := func(t string, s plume.UncertainSummary) {
+		row := func(t string, s uncertainty.UncertainSummary) {
 			lo, hi := "", ""
 			if len(s.ExceedanceProbabilityCI) == 2 {
 				lo, hi = formatNumber(s.ExceedanceProbabilityCI[0]), formatNumber(s.ExceedanceProbabilityCI[1])
@@ -60,7 +61,7 @@ func encodeUncertaintyCSV(sc plume.Scenario, res *plume.UncertaintyResult) []byt
 	return buf.Bytes()
 }
 
-func writeUncertaintyCSV(c echo.Context, sc plume.Scenario, res *plume.UncertaintyResult) error {
+func writeUncertaintyCSV(c echo.Context, sc plume.Scenario, res *uncertainty.UncertaintyResult) error {
 	c.Response().Header().Set("Content-Disposition", `inline; filename="uncertainty.csv"`)
 	return c.Blob(http.StatusOK, mimeCSV+"; charset=utf-8; header=present", encodeUncertaintyCSV(sc, res))
 }
@@ -69,15 +70,15 @@ func writeUncertaintyCSV(c echo.Context, sc plume.Scenario, res *plume.Uncertain
 // receptor points (site frame, request length unit) with the peak summary
 // and the top driver as flat properties; the run's settings ride along.
 type uncertaintyFeatureCollection struct {
-	Type         string                  `json:"type"`
-	Features     []uncertaintyFeature    `json:"features"`
-	Units        plume.Units             `json:"units"`
-	Engine       plume.Engine            `json:"engine"`
-	Realizations int                     `json:"realizations"`
-	Seed         uint64                  `json:"seed"`
-	Methods      []string                `json:"methods"`
-	Parameters   []plume.ParameterSample `json:"parameters"`
-	Caveats      []plume.Caveat          `json:"caveats"`
+	Type         string                        `json:"type"`
+	Features     []uncertaintyFeature          `json:"features"`
+	Units        plume.Units                   `json:"units"`
+	Engine       plume.Engine                  `json:"engine"`
+	Realizations int                           `json:"realizations"`
+	Seed         uint64                        `json:"seed"`
+	Methods      []string                      `json:"methods"`
+	Parameters   []uncertainty.ParameterSample `json:"parameters"`
+	Caveats      []plume.Caveat                `json:"caveats"`
 }
 
 type uncertaintyFeature struct {
@@ -88,25 +89,25 @@ type uncertaintyFeature struct {
 }
 
 type uncertaintyFeatureProp struct {
-	ID                          string                   `json:"id"`
-	Z                           float64                  `json:"z"`
-	PlumeX                      float64                  `json:"plume_x"`
-	PlumeY                      float64                  `json:"plume_y"`
-	PeakMethod                  string                   `json:"peak_method"`
-	PeakMean                    float64                  `json:"peak_mean"`
-	PeakP05                     float64                  `json:"peak_p05"`
-	PeakP50                     float64                  `json:"peak_p50"`
-	PeakP95                     float64                  `json:"peak_p95"`
-	PeakExceedanceProbability   *float64                 `json:"peak_exceedance_probability"`
-	PeakExceedanceProbabilityCI []float64                `json:"peak_exceedance_probability_ci"`
-	TopDriver                   *string                  `json:"top_driver"`
-	TopDriverRankCorrelation    *float64                 `json:"top_driver_rank_correlation"`
-	Series                      []plume.UncertainPoint   `json:"series"`
-	SteadyState                 []plume.UncertainSummary `json:"steady_state"`
-	Drivers                     []plume.Driver           `json:"drivers"`
+	ID                          string                         `json:"id"`
+	Z                           float64                        `json:"z"`
+	PlumeX                      float64                        `json:"plume_x"`
+	PlumeY                      float64                        `json:"plume_y"`
+	PeakMethod                  string                         `json:"peak_method"`
+	PeakMean                    float64                        `json:"peak_mean"`
+	PeakP05                     float64                        `json:"peak_p05"`
+	PeakP50                     float64                        `json:"peak_p50"`
+	PeakP95                     float64                        `json:"peak_p95"`
+	PeakExceedanceProbability   *float64                       `json:"peak_exceedance_probability"`
+	PeakExceedanceProbabilityCI []float64                      `json:"peak_exceedance_probability_ci"`
+	TopDriver                   *string                        `json:"top_driver"`
+	TopDriverRankCorrelation    *float64                       `json:"top_driver_rank_correlation"`
+	Series                      []uncertainty.UncertainPoint   `json:"series"`
+	SteadyState                 []uncertainty.UncertainSummary `json:"steady_state"`
+	Drivers                     []uncertainty.Driver           `json:"drivers"`
 }
 
-func buildUncertaintyGeoJSON(sc plume.Scenario, res *plume.UncertaintyResult) uncertaintyFeatureCollection {
+func buildUncertaintyGeoJSON(sc plume.Scenario, res *uncertainty.UncertaintyResult) uncertaintyFeatureCollection {
 	fc := uncertaintyFeatureCollection{Type: "FeatureCollection", Features: make([]uncertaintyFeature, 0, len(res.Receptors)),
 		Units: res.Units, Engine: res.Engine, Realizations: res.Realizations, Seed: res.Seed, Methods: res.Methods,
 		Parameters: res.Parameters, Caveats: res.Caveats}

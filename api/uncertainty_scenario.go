@@ -3,14 +3,13 @@ package api
 import (
 	"bytes"
 	"encoding/json"
-	"errors"
-	"fmt"
-	"github.com/labstack/echo/v4"
 	"strings"
 
 	"github.com/getkin/kin-openapi/openapi3"
+	"github.com/labstack/echo/v4"
 
 	"downgradient/plume"
+	"downgradient/plume/fit"
 )
 
 // The uncertainty, attenuation and calibration bodies carry the scenario as
@@ -72,15 +71,8 @@ func (p *Problem) under(prefix string) *Problem {
 	return p
 }
 
-func joinFieldPath(prefix, field string) string {
-	switch {
-	case field == "":
-		return prefix
-	case strings.HasPrefix(field, "["):
-		return prefix + field
-	}
-	return prefix + "." + field
-}
+// scenarioField names a field of the scenario member of a body.
+func scenarioField(f string) string { return joinFieldPath("scenario", f) }
 
 // renameOutside prefixes "scenario." to the fields of plume's errors except
 // those that name members of the request body itself (top).
@@ -99,10 +91,10 @@ func renameOutside(top ...string) func(string) string {
 	}
 }
 
-// fillReceptors gives a scenario without receptors one per observed well
-// (first position of each well_id), so that attenuation and calibration
-// need not repeat the wells.
-func fillReceptors(tree map[string]any, obs []plume.Observation) {
+// fillReceptors gives a scenario tree without receptors one per observed
+// well (fit.WellReceptors), so that attenuation and calibration need not
+// repeat the wells.
+func fillReceptors(tree map[string]any, obs []fit.Observation) {
 	if r, ok := tree["receptors"].([]any); ok && len(r) > 0 {
 		return
 	}
@@ -111,48 +103,17 @@ func fillReceptors(tree map[string]any, obs []plume.Observation) {
 			return // wrong type: the schema check reports it
 		}
 	}
-	seen := map[string]bool{}
 	var rs []any
-	for i, o := range obs {
-		if o.X == nil || o.Y == nil {
-			continue
+	for _, r := range fit.WellReceptors(obs, plume.MaxReceptors) {
+		m := map[string]any{"id": r.ID, "x": *r.X, "y": *r.Y}
+		if r.Z != nil {
+			m["z"] = *r.Z
 		}
-		id := o.WellID
-		if id == "" {
-			id = fmt.Sprintf("observation %d", i+1)
-		}
-		if seen[id] || len(rs) >= MaxReceptors {
-			continue
-		}
-		seen[id] = true
-		r := map[string]any{"id": id, "x": *o.X, "y": *o.Y}
-		if o.Z != nil {
-			r["z"] = *o.Z
-		}
-		rs = append(rs, r)
+		rs = append(rs, m)
 	}
 	if len(rs) > 0 {
 		tree["receptors"] = rs
 	}
-}
-
-// decodeMembers decodes the body's members other than the scenario into v
-// (a struct with json tags; unknown members were refused by the schema).
-func decodeMembers(body []byte, v any) *Problem {
-	dec := json.NewDecoder(bytes.NewReader(body))
-	if err := dec.Decode(v); err != nil {
-		var ute *json.UnmarshalTypeError
-		if errors.As(err, &ute) {
-			if strings.HasPrefix(ute.Value, "number") {
-				return newProblem(kindInvalid, "a number is out of range",
-					FieldProblem{Field: ute.Field, Message: "number out of range: " + ute.Value})
-			}
-			return newProblem(kindMalformed, "wrong JSON type",
-				FieldProblem{Field: ute.Field, Message: fmt.Sprintf("wrong type: must be %s, got %s", ute.Type, ute.Value)})
-		}
-		return newProblem(kindMalformed, "the body could not be decoded: "+err.Error(), FieldProblem{Field: "", Message: err.Error()})
-	}
-	return nil
 }
 
 // decodeEnvelope reads the validated body of a request that wraps a
@@ -160,7 +121,7 @@ func decodeMembers(body []byte, v any) *Problem {
 // scenario as a generic JSON tree for the caller to finish decoding.
 func decodeEnvelope(c echo.Context, v any) (map[string]any, *Problem) {
 	body, _ := c.Get(ctxBody).([]byte)
-	if p := decodeMembers(body, v); p != nil {
+	if p := decodeBody(body, v, false); p != nil {
 		return nil, p
 	}
 	root, p := decodeBodyTree(body)

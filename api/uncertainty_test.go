@@ -10,7 +10,8 @@ import (
 	"testing"
 
 	"downgradient/openapi"
-	"downgradient/plume"
+	"downgradient/plume/fit"
+	"downgradient/plume/uncertainty"
 )
 
 // uncertaintyMap is an uncertainty request on the invented demo scenario
@@ -33,7 +34,7 @@ func TestUncertaintyEndToEnd(t *testing.T) {
 	if rec.Code != 200 {
 		t.Fatalf("%d %s", rec.Code, rec.Body.String())
 	}
-	var res plume.UncertaintyResult
+	var res uncertainty.UncertaintyResult
 	if err := json.Unmarshal(rec.Body.Bytes(), &res); err != nil {
 		t.Fatal(err)
 	}
@@ -159,12 +160,12 @@ func TestUncertaintySchemasMatchGoTypes(t *testing.T) {
 		name string
 		typ  reflect.Type
 	}{
-		{"UncertaintyResult", reflect.TypeFor[plume.UncertaintyResult]()},
+		{"UncertaintyResult", reflect.TypeFor[uncertainty.UncertaintyResult]()},
 		{"UncertaintyFeatureCollection", reflect.TypeFor[uncertaintyFeatureCollection]()},
-		{"Observation", reflect.TypeFor[plume.Observation]()},
-		{"AttenuationResult", reflect.TypeFor[plume.AttenuationResult]()},
-		{"CalibrationResult", reflect.TypeFor[plume.CalibrationResult]()},
-		{"FittedValue", reflect.TypeFor[plume.FittedValue]()},
+		{"Observation", reflect.TypeFor[fit.Observation]()},
+		{"AttenuationResult", reflect.TypeFor[fit.AttenuationResult]()},
+		{"CalibrationResult", reflect.TypeFor[fit.CalibrationResult]()},
+		{"FittedValue", reflect.TypeFor[fit.FittedValue]()},
 	} {
 		ref := spec.Doc.Components.Schemas[c.name]
 		if ref == nil || ref.Value == nil {

@@ -295,7 +295,7 @@ func schemaIssue(se *openapi3.SchemaError, paramName string) issue {
 		}
 	case "properties": // additionalProperties: false
 		if m := quotedProperty.FindStringSubmatch(se.Reason); m != nil {
-			field = joinPath(field, m[1])
+			field = joinFieldPath(field, segment(m[1]))
 			msg = "unknown field; check the spelling against the OpenAPI document"
 		}
 	case "required":
@@ -314,22 +314,22 @@ func schemaIssue(se *openapi3.SchemaError, paramName string) issue {
 	return issue{field, msg, kind}
 }
 
+// jsonPath is the JSON path of a JSON pointer's segments under paramName.
 func jsonPath(paramName string, ptr []string) string {
 	p := paramName
 	for _, seg := range ptr {
-		p = joinPath(p, seg)
+		p = joinFieldPath(p, segment(seg))
 	}
 	return p
 }
 
-func joinPath(p, seg string) string {
+// segment turns one JSON pointer segment into a path step: an index "[3]"
+// for a number, else the member name.
+func segment(seg string) string {
 	if _, err := strconv.Atoi(seg); err == nil {
-		return p + "[" + seg + "]"
+		return "[" + seg + "]"
 	}
-	if p == "" {
-		return seg
-	}
-	return p + "." + seg
+	return seg
 }
 
 // schemaType is the schema's (first) type, "" when unset.

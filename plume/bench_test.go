@@ -4,6 +4,8 @@ import (
 	"context"
 	"fmt"
 	"testing"
+
+	"downgradient/internal/plumetest"
 )
 
 // benchScenario is the demo with 10 receptors and 10 times (invented data).
@@ -11,12 +13,10 @@ func benchScenario(methods ...string) Scenario {
 	sc := demoScenario()
 	sc.Receptors = nil
 	for i := range 10 {
-		sc.Receptors = append(sc.Receptors, Receptor{ID: fmt.Sprintf("W%d", i), X: f(20 + 30*float64(i)), Y: f(float64(i%4) - 1.5), Z: f(1 + 0.3*float64(i))})
+		x, y, z := plumetest.BenchReceptor(i)
+		sc.Receptors = append(sc.Receptors, Receptor{ID: fmt.Sprintf("W%d", i), X: f(x), Y: f(y), Z: f(z)})
 	}
-	sc.Times = nil
-	for i := range 10 {
-		sc.Times = append(sc.Times, 365*float64(i+1))
-	}
+	sc.Times = plumetest.BenchTimes()
 	sc.Methods = methods
 	return sc
 }

@@ -13,7 +13,6 @@ type fmtr struct {
 }
 
 func (x fmtr) length(m float64) string { return fmt.Sprintf("%.4g %s", m/x.f.L, x.u.Length) }
-func (x fmtr) time(d float64) string   { return fmt.Sprintf("%.4g %s", d/x.f.T, x.u.Time) }
 func (x fmtr) conc(c float64) string   { return fmt.Sprintf("%.4g %s", c/x.f.C, x.u.Concentration) }
 func (x fmtr) rate(r float64) string   { return fmt.Sprintf("%.4g per %s", r*x.f.T, x.u.Time) }
 func (x fmtr) velocity(v float64) string {
@@ -22,11 +21,19 @@ func (x fmtr) velocity(v float64) string {
 
 // addCaveats attaches the general caution and the computed caveats; values in
 // res are still canonical.
-func (m *model) addCaveats(res *Result, pts []point, run methods, opt Options, u Units, uf unitFactors) {
+func (m *model) addCaveats(res *Result, pts []Point, run methods, opt Options, u Units, uf unitFactors) {
 	fm := fmtr{u: u, f: uf}
 	computed := res.Caveats
 	res.Caveats = []Caveat{{Code: CaveatScreeningEstimate, Severity: SeverityCaution, Message: ScreeningCaution}}
+	m.modelCaveats(res, pts, run, fm)
+	for i, p := range pts {
+		m.receptorCaveats(res, &res.Receptors[i], p, opt, fm)
+	}
+	res.Caveats = append(res.Caveats, computed...)
+}
 
+// modelCaveats are the caveats of the model as a whole.
+func (m *model) modelCaveats(res *Result, pts []Point, run methods, fm fmtr) {
 	// Decay convention.
 	switch {
 	case m.lambda == 0:
@@ -78,7 +85,7 @@ func (m *model) addCaveats(res *Result, pts []point, run methods, opt Options, u
 	}
 	if m.kind == SourceKind1D {
 		for _, p := range pts {
-			if p.py != 0 || p.bot != 0 {
+			if p.Y != 0 || p.Bottom != 0 {
 				res.caveat(CaveatOneDimensional, SeverityNote, "",
 					"The source has no width and depth, so it is a 1D column (no transverse or vertical spreading): receptors' transverse offsets and depths are ignored, which overstates concentrations off the axis.")
 				break
@@ -86,45 +93,44 @@ func (m *model) addCaveats(res *Result, pts []point, run methods, opt Options, u
 		}
 	}
 
-	// Per receptor.
-	for i, p := range pts {
-		rr := &res.Receptors[i]
+}
+
+// receptorCaveats are the caveats of one receptor.
+func (m *model) receptorCaveats(res *Result, rr *ReceptorResult, p Point, opt Options, fm fmtr) {
+	switch {
+	case p.upgradient():
+		res.caveat(CaveatReceptorUpgradient, SeverityWarning, p.ID,
+			"The receptor is upgradient of the source (%s along the flow from the source's downgradient face): the model covers only the downgradient side, and values are reported as 0.",
+			fm.length(p.X))
+	case p.inside():
+		res.caveat(CaveatReceptorInsideSource, SeverityWarning, p.ID,
+			"The receptor lies within the source zone (%s along the flow from the source's downgradient face; the zone is taken as the source footprint reaching one source width upgradient of that face): values reported are the source concentration.",
+			fm.length(p.X))
+	}
+	if rr.DomenicoDeviation != nil && *rr.DomenicoDeviation > opt.DomenicoTolerance {
+		res.caveat(CaveatDomenicoDeviation, SeverityWarning, p.ID,
+			"The Domenico approximation differs from the exact solution by up to %.3g %% here (tolerance %.3g %%); use the exact value. The approximation is known to fail where the longitudinal dispersivity is large relative to the distance.",
+			100**rr.DomenicoDeviation, 100*opt.DomenicoTolerance)
+	}
+	if !p.upgradient() && !p.inside() && m.kind != SourceKind1D {
+		srcDepth := m.depth
+		dist := math.Max(p.X, 0)
+		if m.kind == SourceKindInstantaneous {
+			srcDepth = m.relDepth
+			dist = math.Hypot(p.X, p.Y)
+		}
+		reach := srcDepth + 3*math.Sqrt(2*m.alpha[2]*math.Max(dist, m.alpha[0]))
 		switch {
-		case p.upgradient:
-			res.caveat(CaveatReceptorUpgradient, SeverityWarning, p.id,
-				"The receptor is upgradient of the source (%s along the flow from the source's downgradient face): the model covers only the downgradient side, and values are reported as 0.",
-				fm.length(p.px))
-		case p.inside:
-			res.caveat(CaveatReceptorInsideSource, SeverityWarning, p.id,
-				"The receptor lies within the source zone (%s along the flow from the source's downgradient face; the zone is taken as the source footprint reaching one source width upgradient of that face): values reported are the source concentration.",
-				fm.length(p.px))
-		}
-		if rr.DomenicoDeviation != nil && *rr.DomenicoDeviation > opt.DomenicoTolerance {
-			res.caveat(CaveatDomenicoDeviation, SeverityWarning, p.id,
-				"The Domenico approximation differs from the exact solution by up to %.3g %% here (tolerance %.3g %%); use the exact value. The approximation is known to fail where the longitudinal dispersivity is large relative to the distance.",
-				100**rr.DomenicoDeviation, 100*opt.DomenicoTolerance)
-		}
-		if !p.upgradient && !p.inside && m.kind != SourceKind1D {
-			srcDepth := m.depth
-			dist := math.Max(p.px, 0)
-			if m.kind == SourceKindInstantaneous {
-				srcDepth = m.relDepth
-				dist = math.Hypot(p.px, p.py)
-			}
-			reach := srcDepth + 3*math.Sqrt(2*m.alpha[2]*math.Max(dist, m.alpha[0]))
-			switch {
-			case p.top > reach:
-				res.caveat(CaveatBelowPlumeReach, SeverityCaution, p.id,
-					"The receptor (top at %s) is deeper than the modelled plume reaches at this distance (about %s: source depth plus three vertical spreads sqrt(2 alpha_V x)); the model predicts little there, but a plume pushed down by recharge or vertical gradients is not represented.",
-					fm.length(p.top), fm.length(reach))
-			case p.screen && p.bot > reach:
-				res.caveat(CaveatBelowPlumeReach, SeverityNote, p.id,
-					"The well screen extends to %s, below the modelled plume's reach of about %s: the depth average dilutes the value with clean water, as pumping would.",
-					fm.length(p.bot), fm.length(reach))
-			}
+		case p.Top > reach:
+			res.caveat(CaveatBelowPlumeReach, SeverityCaution, p.ID,
+				"The receptor (top at %s) is deeper than the modelled plume reaches at this distance (about %s: source depth plus three vertical spreads sqrt(2 alpha_V x)); the model predicts little there, but a plume pushed down by recharge or vertical gradients is not represented.",
+				fm.length(p.Top), fm.length(reach))
+		case p.Screen && p.Bottom > reach:
+			res.caveat(CaveatBelowPlumeReach, SeverityNote, p.ID,
+				"The well screen extends to %s, below the modelled plume's reach of about %s: the depth average dilutes the value with clean water, as pumping would.",
+				fm.length(p.Bottom), fm.length(reach))
 		}
 	}
-	res.Caveats = append(res.Caveats, computed...)
 }
 
 func derefOr(p *float64, d float64) float64 {
@@ -137,7 +143,7 @@ func derefOr(p *float64, d float64) float64 {
 // attachNumeric stores the numeric values and their agreement with the exact
 // solution (values still canonical).
 // times are the request's (for reporting), taus the elapsed days.
-func (m *model) attachNumeric(res *Result, nr *numericRun, pts []point, times, taus []float64, floor, tol float64) {
+func (m *model) attachNumeric(res *Result, nr *numericRun, pts []Point, times, taus []float64, floor, tol float64) {
 	for i := range res.Receptors {
 		rr := &res.Receptors[i]
 		ag := Agreement{Tolerance: tol, Floor: floor}
@@ -147,7 +153,7 @@ func (m *model) attachNumeric(res *Result, nr *numericRun, pts []point, times, t
 			if math.IsNaN(v) {
 				continue // receptor outside the numeric domain
 			}
-			rr.Series[j].Numeric = ptr(v)
+			rr.Series[j].Numeric = Ptr(v)
 			e := rr.Series[j].Exact
 			if e == nil {
 				ev := m.closedForm(true, pts[i], taus[j])
@@ -163,7 +169,7 @@ func (m *model) attachNumeric(res *Result, nr *numericRun, pts []point, times, t
 		}
 		if nr.steady != nil && !math.IsNaN(nr.steady[i]) {
 			v := nr.steady[i]
-			rr.SteadyState.Numeric = ptr(v)
+			rr.SteadyState.Numeric = Ptr(v)
 			e := rr.SteadyState.Exact
 			if e == nil {
 				ev := m.closedForm(true, pts[i], math.Inf(1))
@@ -171,7 +177,7 @@ func (m *model) attachNumeric(res *Result, nr *numericRun, pts []point, times, t
 			}
 			if math.Max(*e, v) >= floor && *e > 0 {
 				d := math.Abs(v-*e) / math.Max(*e, floor)
-				ag.SteadyStateRelativeDifference = ptr(d)
+				ag.SteadyStateRelativeDifference = Ptr(d)
 				if !compared || d > ag.MaxRelativeDifference {
 					ag.MaxRelativeDifference, ag.Time, ag.AtSteadyState = d, 0, true
 				}

@@ -65,87 +65,122 @@ func LongitudinalDispersivity(travelDistance float64) float64 {
 	return 0.83 * math.Pow(math.Log10(L), 2.414)
 }
 
-// model holds everything Screen needs, in canonical units (m, d, mg/L, kg).
+// model holds the derived parameters of a scenario in canonical units (m, d,
+// mg/L, kg), in three parts: the aquifer (shared by every compound and
+// source), the compound and the source. Several sources will be a slice of
+// sourceParams whose closed forms superpose, and several compounds a slice of
+// compoundParams (each its own retardation and decay, linked by yields);
+// closedFormOf already takes the three parts separately.
 type model struct {
+	aquiferParams
+	compoundParams
+	sourceParams
+	derived Derived // canonical units; converted by the caller
+}
+
+// aquiferParams are the flow and dispersion parameters.
+type aquiferParams struct {
+	v         float64    // seepage velocity, m/d
+	alpha     [3]float64 // dispersivities, m
+	disp      [3]float64 // dispersion coefficients, m^2/d
+	porosity  float64    // effective porosity (0 when not given and not needed)
+	travel    *float64   // travel distance used for estimates, m
+	travelRaw float64    // travel distance before the floor, m
+}
+
+// compoundParams are one compound's sorption, decay and levels.
+type compoundParams struct {
+	r          float64  // retardation
+	lambda     float64  // ln2 / half-life, 1/d
+	mu         float64  // decay rate in the retarded equation, 1/d
+	screening  *float64 // mg/L
+	solubility *float64 // mg/L
+}
+
+// sourceParams are one source's geometry, strength and history.
+type sourceParams struct {
 	kind       string
-	v          float64    // seepage velocity, m/d
-	r          float64    // retardation
-	lambda     float64    // ln2 / half-life, 1/d
-	mu         float64    // decay rate in the retarded equation, 1/d
-	alpha      [3]float64 // dispersivities, m
-	disp       [3]float64 // dispersion coefficients, m^2/d
-	c0         float64    // source concentration, mg/L
-	massKg     float64    // instantaneous mass, kg
-	porosity   float64    // effective porosity (0 when not given and not needed)
-	width      float64    // source width, m (+Inf for 1D)
-	depth      float64    // source depth, m (+Inf for 1D)
-	relDepth   float64    // release depth of an instantaneous mass, m
-	geomUnused bool       // width or depth given for an instantaneous release (not used)
-	start      float64    // source start, d
-	duration   float64    // release duration, d (+Inf = continuous)
-	depletion  float64    // source depletion rate, 1/d
-	inlet      string     // 1D inlet
-	screening  *float64   // mg/L
-	solubility *float64   // mg/L
-	travel     *float64   // travel distance used for estimates, m
-	travelRaw  float64    // travel distance before the floor, m
-	derived    Derived    // canonical units; converted by the caller
+	c0         float64 // source concentration, mg/L
+	massKg     float64 // instantaneous mass, kg
+	width      float64 // source width, m (+Inf for 1D)
+	depth      float64 // source depth, m (+Inf for 1D)
+	relDepth   float64 // release depth of an instantaneous mass, m
+	geomUnused bool    // width or depth given for an instantaneous release (not used)
+	start      float64 // source start, d
+	duration   float64 // release duration, d (+Inf = continuous)
+	depletion  float64 // source depletion rate, 1/d
+	inlet      string  // 1D inlet
 }
 
 // continuous reports whether the source strength is constant forever.
-func (m *model) continuous() bool {
-	return m.kind != SourceKindInstantaneous && math.IsInf(m.duration, 1) && m.depletion == 0
+func (s *sourceParams) continuous() bool {
+	return s.kind != SourceKindInstantaneous && math.IsInf(s.duration, 1) && s.depletion == 0
 }
 
 // derive computes the transport parameters of a validated canonical
 // scenario; maxPlumeX is the largest plume-frame x of the receptors, m.
 func derive(c Scenario, maxPlumeX float64) *model {
-	m := &model{duration: math.Inf(1), width: math.Inf(1), depth: math.Inf(1)}
+	m := &model{sourceParams: sourceParams{duration: math.Inf(1), width: math.Inf(1), depth: math.Inf(1)}}
 	d := &m.derived
 	d.Estimated = []string{}
 	d.FromReferenceTable = []string{}
-	a, k, s := c.Aquifer, c.Contaminant, c.Source
-	ref, haveRef := lookupReference(k.Name)
+	ref, haveRef := lookupReference(c.Contaminant.Name)
 	if haveRef {
 		d.ReferenceCompound = ref.Name
 	}
-	fromTable := func(path string) { d.FromReferenceTable = append(d.FromReferenceTable, path) }
-	estimated := func(path string) { d.Estimated = append(d.Estimated, path) }
+	m.deriveFlow(c.Aquifer)
+	m.deriveSorption(c.Aquifer, c.Contaminant, ref)
+	m.deriveDecay(c.Contaminant, ref)
+	m.deriveLevels(c.Contaminant, ref)
+	m.deriveDispersion(c.Aquifer, maxPlumeX)
+	m.deriveSource(c.Source)
+	return m
+}
 
+// deriveFlow sets the porosity and the seepage velocity (given, or Darcy).
+func (m *model) deriveFlow(a Aquifer) {
 	if a.EffectivePorosity != nil {
 		m.porosity = *a.EffectivePorosity
 	}
-	// Seepage velocity.
 	if a.SeepageVelocity != nil {
 		m.v = *a.SeepageVelocity
-		d.SeepageVelocitySource = OriginGiven
+		m.derived.SeepageVelocitySource = OriginGiven
 	} else {
 		m.v = SeepageVelocity(*a.HydraulicConductivity, *a.HydraulicGradient, m.porosity)
-		d.SeepageVelocitySource = OriginDarcy
+		m.derived.SeepageVelocitySource = OriginDarcy
 	}
-	// Retardation.
+}
+
+// deriveSorption sets the retardation factor (given, or from Koc, the
+// table's when not given).
+func (m *model) deriveSorption(a Aquifer, k Contaminant, ref referenceValues) {
+	d := &m.derived
 	if k.Retardation != nil {
 		m.r = *k.Retardation
 		d.RetardationSource = OriginGiven
-	} else {
-		koc := k.Koc
-		if koc == nil && haveRef {
-			koc = ref.Koc
-			fromTable("contaminant.koc")
-		}
-		d.Koc = ptr(*koc)
-		m.r = Retardation(*a.BulkDensity, *koc, *a.OrganicCarbonFraction, m.porosity)
-		d.RetardationSource = OriginSorption
+		return
 	}
-	// Decay.
+	koc := k.Koc
+	if koc == nil && ref.Koc != nil {
+		koc = ref.Koc
+		d.FromReferenceTable = append(d.FromReferenceTable, "contaminant.koc")
+	}
+	d.Koc = Ptr(*koc)
+	m.r = Retardation(*a.BulkDensity, *koc, *a.OrganicCarbonFraction, m.porosity)
+	d.RetardationSource = OriginSorption
+}
+
+// deriveDecay sets the decay rates and the convention.
+func (m *model) deriveDecay(k Contaminant, ref referenceValues) {
+	d := &m.derived
 	hl := k.HalfLife
-	if hl == nil && k.UseTableHalfLife && haveRef && ref.HalfLifeLong != nil {
+	if hl == nil && k.UseTableHalfLife && ref.HalfLifeLong != nil {
 		hl = ref.HalfLifeLong
-		fromTable("contaminant.half_life")
+		d.FromReferenceTable = append(d.FromReferenceTable, "contaminant.half_life")
 	}
 	if hl != nil {
 		m.lambda = DecayRate(*hl)
-		d.HalfLife = ptr(*hl)
+		d.HalfLife = Ptr(*hl)
 	}
 	d.DecayAppliesTo = k.DecayAppliesTo
 	if d.DecayAppliesTo == "" {
@@ -157,23 +192,30 @@ func derive(c Scenario, maxPlumeX float64) *model {
 	}
 	d.DecayRate = m.lambda
 	d.EffectiveDecayRate = m.mu
+}
 
-	// Screening level and solubility.
+// deriveLevels sets the screening level and the solubility (given, or the table's).
+func (m *model) deriveLevels(k Contaminant, ref referenceValues) {
+	d := &m.derived
 	m.screening = k.ScreeningLevel
-	if m.screening == nil && haveRef && ref.ScreeningLevel != nil {
+	if m.screening == nil && ref.ScreeningLevel != nil {
 		m.screening = ref.ScreeningLevel
-		fromTable("contaminant.screening_level")
+		d.FromReferenceTable = append(d.FromReferenceTable, "contaminant.screening_level")
 	}
 	m.solubility = k.Solubility
-	if m.solubility == nil && haveRef && ref.Solubility != nil {
+	if m.solubility == nil && ref.Solubility != nil {
 		m.solubility = ref.Solubility
-		fromTable("contaminant.solubility")
+		d.FromReferenceTable = append(d.FromReferenceTable, "contaminant.solubility")
 	}
 	d.ScreeningLevel = copyPtr(m.screening)
 	d.Solubility = copyPtr(m.solubility)
+}
 
-	// Dispersivities: given ones win; a missing alpha_L comes from the
-	// travel distance, missing alpha_T and alpha_V from alpha_L.
+// deriveDispersion sets the dispersivities (given ones win; a missing
+// alpha_L comes from the travel distance, missing alpha_T and alpha_V from
+// alpha_L) and the dispersion coefficients.
+func (m *model) deriveDispersion(a Aquifer, maxPlumeX float64) {
+	d := &m.derived
 	var given Dispersivity
 	if a.Dispersivity != nil {
 		given = *a.Dispersivity
@@ -185,19 +227,19 @@ func derive(c Scenario, maxPlumeX float64) *model {
 		L := math.Max(m.travelRaw, MinTravelDistance)
 		m.travel = &L
 		m.alpha[0] = LongitudinalDispersivity(L)
-		estimated("aquifer.dispersivity.longitudinal")
+		d.Estimated = append(d.Estimated, "aquifer.dispersivity.longitudinal")
 	}
 	if given.Transverse != nil {
 		m.alpha[1] = *given.Transverse
 	} else {
 		m.alpha[1] = m.alpha[0] / 10
-		estimated("aquifer.dispersivity.transverse")
+		d.Estimated = append(d.Estimated, "aquifer.dispersivity.transverse")
 	}
 	if given.Vertical != nil {
 		m.alpha[2] = *given.Vertical
 	} else {
 		m.alpha[2] = m.alpha[0] / 100
-		estimated("aquifer.dispersivity.vertical")
+		d.Estimated = append(d.Estimated, "aquifer.dispersivity.vertical")
 	}
 	d.DispersivityEstimated = given.Longitudinal == nil || given.Transverse == nil || given.Vertical == nil
 	if d.DispersivityEstimated {
@@ -215,8 +257,11 @@ func derive(c Scenario, maxPlumeX float64) *model {
 	d.Retardation = m.r
 	d.Dispersivity = DispersivityValues{m.alpha[0], m.alpha[1], m.alpha[2]}
 	d.Dispersion = DispersionValues{m.disp[0], m.disp[1], m.disp[2]}
+}
 
-	// Source.
+// deriveSource sets the source kind, strength, geometry and history.
+func (m *model) deriveSource(s Source) {
+	d := &m.derived
 	if s.Start != nil {
 		m.start = *s.Start
 	}
@@ -248,14 +293,14 @@ func derive(c Scenario, maxPlumeX float64) *model {
 		m.depletion = DecayRate(*s.HalfLife)
 	}
 	d.SourceKind = m.kind
-	return m
 }
 
-func ptr(v float64) *float64 { return &v }
+// Ptr returns a pointer to a copy of v.
+func Ptr(v float64) *float64 { return &v }
 
 func copyPtr(p *float64) *float64 {
 	if p == nil {
 		return nil
 	}
-	return ptr(*p)
+	return Ptr(*p)
 }

@@ -50,7 +50,7 @@ func ExampleValidate() {
 		Source:      plume.Source{Concentration: fp(-1)},
 		Receptors:   []plume.Receptor{{Y: fp(0)}},
 	}
-	for _, e := range plume.Validate(sc).(plume.FieldErrors) {
+	for _, e := range plume.FieldsOf(plume.Validate(sc)) {
 		fmt.Printf("%s: %s\n", e.Field, e.Message)
 	}
 	// Output:

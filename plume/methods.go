@@ -3,22 +3,10 @@ package plume
 import (
 	"math"
 
-	"downgradient/analytic"
 	"gonum.org/v1/gonum/integrate/quad"
+
+	"downgradient/analytic"
 )
-
-// point is a receptor in the plume frame, canonical units (m).
-type point struct {
-	id         string
-	px, py     float64 // plume frame, m
-	top, bot   float64 // depth interval, m (equal for a point)
-	screen     bool    // a well screen rather than a point
-	upgradient bool    // px <= 0 and outside the source's footprint (continuous sources)
-	inside     bool    // px <= 0 within the source's footprint (continuous sources)
-}
-
-// mid is the reported depth: the point depth or the screen's mid-depth.
-func (p point) mid() float64 { return 0.5 * (p.top + p.bot) }
 
 // classify marks receptors upgradient of or inside a continuous source: the
 // planar-source model covers only px > 0. Inside the source zone the value
@@ -27,107 +15,117 @@ func (p point) mid() float64 { return 0.5 * (p.top + p.bot) }
 // zone to be its footprint (|py| <= W/2, top <= source depth) from the
 // downgradient face back one source width upgradient (our convention, stated
 // in the caveat); for a 1D column every px <= 0 is the inlet.
-func (m *model) classify(p *point) {
-	if m.kind == SourceKindInstantaneous || p.px > 0 {
+func (m *model) classify(p *Point) {
+	p.Status = StatusModelled
+	if m.kind == SourceKindInstantaneous || p.X > 0 {
 		return
 	}
-	if m.kind == SourceKind1D || (math.Abs(p.py) <= m.width/2 && p.top <= m.depth && p.px >= -m.width) {
-		p.inside = true
+	if m.kind == SourceKind1D || (math.Abs(p.Y) <= m.width/2 && p.Top <= m.depth && p.X >= -m.width) {
+		p.Status = StatusInsideSource
 	} else {
-		p.upgradient = true
+		p.Status = StatusUpgradient
 	}
 }
 
-func (m *model) params() analytic.Params {
-	return analytic.Params{V: m.v, Dx: m.disp[0], Dy: m.disp[1], Dz: m.disp[2], R: m.r, Mu: m.mu}
+// params are the closed forms' transport parameters of compound c in aquifer a.
+func params(a *aquiferParams, c *compoundParams) analytic.Params {
+	return analytic.Params{V: a.v, Dx: a.disp[0], Dy: a.disp[1], Dz: a.disp[2], R: c.r, Mu: c.mu}
 }
 
-func (m *model) history() analytic.History {
-	return analytic.History{Duration: m.duration, Depletion: m.depletion}
+func (m *model) params() analytic.Params { return params(&m.aquiferParams, &m.compoundParams) }
+
+func (s *sourceParams) history() analytic.History {
+	return analytic.History{Duration: s.duration, Depletion: s.depletion}
 }
 
-func (m *model) plumeSource() analytic.Source {
-	return analytic.Source{Width: m.width, Depth: m.depth}
+func (s *sourceParams) plumeSource() analytic.Source {
+	return analytic.Source{Width: s.width, Depth: s.depth}
 }
 
 // strength is the source concentration at elapsed time tau, mg/L.
-func (m *model) strength(tau float64) float64 {
-	if !(tau > 0) || tau >= m.duration {
+func (s *sourceParams) strength(tau float64) float64 {
+	if !(tau > 0) || tau >= s.duration {
 		return 0
 	}
-	if m.depletion == 0 {
-		return m.c0
+	if s.depletion == 0 {
+		return s.c0
 	}
-	return m.c0 * math.Exp(-m.depletion*tau)
+	return s.c0 * math.Exp(-s.depletion*tau)
 }
 
 // closedForm evaluates the exact (exact == true) or Domenico value at the
 // receptor at elapsed time tau since the source started, d (+Inf for the
 // steady state), in mg/L. Domenico is not defined for an instantaneous
 // release (returns 0).
-func (m *model) closedForm(exact bool, p point, tau float64) float64 {
-	if math.IsInf(tau, 1) && !m.continuous() {
+func (m *model) closedForm(exact bool, p Point, tau float64) float64 {
+	return closedFormOf(&m.aquiferParams, &m.compoundParams, &m.sourceParams, exact, p, tau)
+}
+
+// closedFormOf is closedForm for compound c released by source s in aquifer a.
+func closedFormOf(a *aquiferParams, c *compoundParams, s *sourceParams, exact bool, p Point, tau float64) float64 {
+	if math.IsInf(tau, 1) && !s.continuous() {
 		return 0 // the source is spent; everything leaves or decays
 	}
 	if !(tau > 0) {
 		return 0
 	}
-	if p.upgradient {
+	if p.upgradient() {
 		return 0
 	}
-	if p.inside {
+	if p.inside() {
 		if math.IsInf(tau, 1) {
-			return m.c0
+			return s.c0
 		}
-		return m.strength(tau)
+		return s.strength(tau)
 	}
-	var c float64
-	switch m.kind {
+	pr := params(a, c)
+	var v float64
+	switch s.kind {
 	case SourceKindInstantaneous:
 		if !exact {
 			return 0
 		}
-		c = m.puff(p, tau)
+		v = puff(a, s, pr, p, tau)
 	case SourceKind1D:
 		if exact {
 			inlet := analytic.FirstType
-			if m.inlet == InletFlux {
+			if s.inlet == InletFlux {
 				inlet = analytic.ThirdType
 			}
-			c = m.c0 * analytic.OgataBanksAt(p.px, tau, m.params(), inlet, m.history())
+			v = s.c0 * analytic.OgataBanksAt(p.X, tau, pr, inlet, s.history())
 		} else {
-			c = m.c0 * analytic.DomenicoAt(analytic.Point{X: p.px, Y: 0, Top: 0, Bottom: 0}, tau, m.params(), m.plumeSource(), m.history())
+			v = s.c0 * analytic.DomenicoAt(analytic.Point{X: p.X, Y: 0, Top: 0, Bottom: 0}, tau, pr, s.plumeSource(), s.history())
 		}
 	default:
-		pt := analytic.Point{X: p.px, Y: p.py, Top: p.top, Bottom: p.bot}
+		pt := analytic.Point{X: p.X, Y: p.Y, Top: p.Top, Bottom: p.Bottom}
 		if exact {
-			c = m.c0 * analytic.Exact3DAt(pt, tau, m.params(), m.plumeSource(), m.history())
+			v = s.c0 * analytic.Exact3DAt(pt, tau, pr, s.plumeSource(), s.history())
 		} else {
-			c = m.c0 * analytic.DomenicoAt(pt, tau, m.params(), m.plumeSource(), m.history())
+			v = s.c0 * analytic.DomenicoAt(pt, tau, pr, s.plumeSource(), s.history())
 		}
 	}
-	if !(c > 0) || !finite(c) {
-		if math.IsInf(c, 1) {
+	if !(v > 0) || !Finite(v) {
+		if math.IsInf(v, 1) {
 			return math.MaxFloat64
 		}
 		return 0
 	}
-	return c
+	return v
 }
 
 // puffScreenNodes is the Gauss-Legendre order of the depth average of a puff
 // over a well screen.
 const puffScreenNodes = 24
 
-// puff is the dissolved concentration, mg/L, of the instantaneous release at
-// elapsed time tau, d: mass in g over lengths in m gives g/m^3 = mg/L.
-func (m *model) puff(p point, tau float64) float64 {
-	grams := m.massKg * 1000
+// puff is the dissolved concentration, mg/L, of the instantaneous release s
+// at elapsed time tau, d: mass in g over lengths in m gives g/m^3 = mg/L.
+func puff(a *aquiferParams, s *sourceParams, pr analytic.Params, p Point, tau float64) float64 {
+	grams := s.massKg * 1000
 	f := func(z float64) float64 {
-		return analytic.Puff3D(p.px, p.py, z, tau, m.params(), grams, m.porosity, m.relDepth)
+		return analytic.Puff3D(p.X, p.Y, z, tau, pr, grams, a.porosity, s.relDepth)
 	}
-	if p.bot <= p.top {
-		return f(p.top)
+	if p.Bottom <= p.Top {
+		return f(p.Top)
 	}
-	return quad.Fixed(f, p.top, p.bot, puffScreenNodes, quad.Legendre{}, 0) / (p.bot - p.top)
+	return quad.Fixed(f, p.Top, p.Bottom, puffScreenNodes, quad.Legendre{}, 0) / (p.Bottom - p.Top)
 }

@@ -26,76 +26,15 @@ type numericRun struct {
 // the method cannot run for this scenario (instantaneous release, no
 // receptor in the domain, no time after the start, cell budget exceeded);
 // ctx errors are returned as errors.
-func (m *model) runNumeric(ctx context.Context, pts []point, taus []float64, budget int) (*numericRun, string, error) {
+func (m *model) runNumeric(ctx context.Context, pts []Point, taus []float64, budget int) (*numericRun, string, error) {
 	if m.kind == SourceKindInstantaneous {
 		return nil, "the finite-volume solver models a continuous source, not an instantaneous release", nil
 	}
-	// Receptors in the domain (px > 0) and the distinct positive times.
-	var idx []int
-	for i, p := range pts {
-		if !p.upgradient && !p.inside {
-			idx = append(idx, i)
-		}
+	idx, times, reason := m.numericTargets(pts, taus)
+	if reason != "" {
+		return nil, reason, nil
 	}
-	if len(idx) == 0 {
-		return nil, "no receptor lies downgradient of the source face", nil
-	}
-	var times []float64
-	for _, t := range taus {
-		if t > 0 {
-			times = append(times, t)
-		}
-	}
-	sort.Float64s(times)
-	times = uniq(times)
-	steady := m.continuous()
-	if steady {
-		times = append(times, math.Inf(1))
-	}
-	if len(times) == 0 {
-		return nil, "no requested time falls after the source start (and a source that stops or depletes has no steady state to solve)", nil
-	}
-	hist := numeric.History{Duration: m.duration, Depletion: m.depletion}
-
-	var c [][]float64
-	var grid numeric.GridReport
-	var budgetRep numeric.MassBudget
-	var err error
-	solver := SourceKind3D
-	if m.kind == SourceKind1D {
-		solver = SourceKind1D
-		inlet := numeric.InletConcentration
-		if m.inlet == InletFlux {
-			inlet = numeric.InletFlux
-		}
-		xs := make([]float64, len(idx))
-		for k, i := range idx {
-			xs[k] = pts[i].px
-		}
-		var r *numeric.Result1D
-		r, err = numeric.Screen1D(ctx, numeric.Problem1D{
-			V: m.v, Dx: m.disp[0], Dm: math.Min(m.de(), m.disp[0]), R: m.r, Mu: m.mu,
-			Inlet: inlet, History: hist, Receptors: xs, Times: times, CellBudget: budget,
-		})
-		if r != nil {
-			c, grid, budgetRep = r.C, r.Grid, r.Budget
-		}
-	} else {
-		rs := make([]numeric.Receptor, len(idx))
-		for k, i := range idx {
-			p := pts[i]
-			rs[k] = numeric.Receptor{X: p.px, Y: p.py, Top: p.top, Bottom: p.bot}
-		}
-		var r *numeric.Result3D
-		r, err = numeric.Screen3D(ctx, numeric.Problem3D{
-			V: m.v, Dx: m.disp[0], Dy: m.disp[1], Dz: m.disp[2], R: m.r, Mu: m.mu,
-			Width: m.width, Depth: m.depth, History: hist,
-			Receptors: rs, Times: times, CellBudget: budget,
-		})
-		if r != nil {
-			c, grid, budgetRep = r.C, r.Grid, r.Budget
-		}
-	}
+	out, err := m.solveNumeric(ctx, pts, idx, times, budget)
 	switch {
 	case err == nil:
 	case ctx.Err() != nil:
@@ -105,16 +44,97 @@ func (m *model) runNumeric(ctx context.Context, pts []point, taus []float64, bud
 	default:
 		return nil, err.Error(), nil
 	}
+	run := m.numericValues(out.c, len(pts), idx, taus, times)
+	run.report = numericReport(out, budget)
+	return run, "", nil
+}
 
-	run := &numericRun{values: make([][]float64, len(pts))}
-	for i := range pts {
+// numericTargets are the receptors in the domain (px > 0), by index, and
+// the distinct positive times, plus +Inf for a source with a steady state;
+// reason says why nothing can run.
+func (m *model) numericTargets(pts []Point, taus []float64) (idx []int, times []float64, reason string) {
+	for i, p := range pts {
+		if !p.upgradient() && !p.inside() {
+			idx = append(idx, i)
+		}
+	}
+	if len(idx) == 0 {
+		return nil, nil, "no receptor lies downgradient of the source face"
+	}
+	for _, t := range taus {
+		if t > 0 {
+			times = append(times, t)
+		}
+	}
+	sort.Float64s(times)
+	times = uniq(times)
+	if m.continuous() {
+		times = append(times, math.Inf(1))
+	}
+	if len(times) == 0 {
+		return nil, nil, "no requested time falls after the source start (and a source that stops or depletes has no steady state to solve)"
+	}
+	return idx, times, ""
+}
+
+// numericOutput is what a finite-volume run gives back.
+type numericOutput struct {
+	solver string
+	c      [][]float64 // C/C0 per receptor of idx and time
+	grid   numeric.GridReport
+	budget numeric.MassBudget
+}
+
+// solveNumeric runs the 1D or 3D solver for the receptors idx at times.
+func (m *model) solveNumeric(ctx context.Context, pts []Point, idx []int, times []float64, budget int) (numericOutput, error) {
+	hist := numeric.History{Duration: m.duration, Depletion: m.depletion}
+	if m.kind == SourceKind1D {
+		inlet := numeric.InletConcentration
+		if m.inlet == InletFlux {
+			inlet = numeric.InletFlux
+		}
+		xs := make([]float64, len(idx))
+		for k, i := range idx {
+			xs[k] = pts[i].X
+		}
+		r, err := numeric.Screen1D(ctx, numeric.Problem1D{
+			V: m.v, Dx: m.disp[0], Dm: math.Min(m.de(), m.disp[0]), R: m.r, Mu: m.mu,
+			Inlet: inlet, History: hist, Receptors: xs, Times: times, CellBudget: budget,
+		})
+		if r == nil {
+			return numericOutput{}, err
+		}
+		return numericOutput{solver: SourceKind1D, c: r.C, grid: r.Grid, budget: r.Budget}, err
+	}
+	rs := make([]numeric.Receptor, len(idx))
+	for k, i := range idx {
+		p := pts[i]
+		rs[k] = numeric.Receptor{X: p.X, Y: p.Y, Top: p.Top, Bottom: p.Bottom}
+	}
+	r, err := numeric.Screen3D(ctx, numeric.Problem3D{
+		V: m.v, Dx: m.disp[0], Dy: m.disp[1], Dz: m.disp[2], R: m.r, Mu: m.mu,
+		Width: m.width, Depth: m.depth, History: hist,
+		Receptors: rs, Times: times, CellBudget: budget,
+	})
+	if r == nil {
+		return numericOutput{}, err
+	}
+	return numericOutput{solver: SourceKind3D, c: r.C, grid: r.Grid, budget: r.Budget}, err
+}
+
+// numericValues spreads the solver's values (c, per receptor of idx and
+// time of times) over all receptors and requested times taus, in mg/L;
+// NaN where the method has no value.
+func (m *model) numericValues(c [][]float64, n int, idx []int, taus, times []float64) *numericRun {
+	run := &numericRun{values: make([][]float64, n)}
+	for i := range n {
 		run.values[i] = make([]float64, len(taus))
 		for j := range taus {
 			run.values[i][j] = math.NaN()
 		}
 	}
-	if steady {
-		run.steady = make([]float64, len(pts))
+	if m.continuous() {
+		run.steady = make([]float64, n)
 		for i := range run.steady {
 			run.steady[i] = math.NaN()
 		}
@@ -128,12 +148,18 @@ func (m *model) runNumeric(ctx context.Context, pts []point, taus []float64, bud
 				run.values[i][j] = 0 // before the source starts
 				continue
 			}
-			n := sort.SearchFloat64s(times, t)
-			run.values[i][j] = m.c0 * c[k][n]
+			nt := sort.SearchFloat64s(times, t)
+			run.values[i][j] = m.c0 * c[k][nt]
 		}
 	}
-	run.report = &NumericReport{
-		Solver:           solver,
+	return run
+}
+
+// numericReport describes the grid of a run, canonical units.
+func numericReport(out numericOutput, budget int) *NumericReport {
+	grid := out.grid
+	return &NumericReport{
+		Solver:           out.solver,
 		Cells:            [3]int{grid.NX, grid.NY, grid.NZ},
 		TotalCells:       grid.Cells,
 		Spacing:          [3]float64{grid.DXMin, grid.DYMin, grid.DZMin},
@@ -146,10 +172,9 @@ func (m *model) runNumeric(ctx context.Context, pts []point, taus []float64, bud
 		TimeStep:         grid.TimeStep,
 		Courant:          grid.Courant,
 		TimeSteps:        grid.Steps,
-		MassBalanceError: budgetRep.ClosureError,
+		MassBalanceError: out.budget.ClosureError,
 		CellBudget:       budget,
 	}
-	return run, "", nil
 }
 
 // de is the effective diffusion coefficient, m^2/d (D_x - alpha_L v).

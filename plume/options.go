@@ -22,7 +22,8 @@ const (
 	DefaultDomenicoTolerance = 0.10
 )
 
-func (o Options) withDefaults() Options {
+// WithDefaults fills the zero fields with the defaults.
+func (o Options) WithDefaults() Options {
 	if o.CellBudget <= 0 {
 		o.CellBudget = DefaultCellBudget
 	}

@@ -57,15 +57,15 @@ func (r *Result) fromCanonical(f unitFactors) {
 // sanitize replaces any NaN or infinity left in r (none should be) by a
 // finite value, and negative concentrations by 0.
 func (r *Result) sanitize() {
-	fix := func(x *float64) { *x = clean(*x) }
+	fix := func(x *float64) { *x = Clean(*x) }
 	fixP := func(p *float64) {
 		if p != nil {
-			*p = clean(*p)
+			*p = Clean(*p)
 		}
 	}
 	conc := func(p *float64) {
 		if p != nil {
-			*p = math.Max(clean(*p), 0)
+			*p = math.Max(Clean(*p), 0)
 		}
 	}
 	d := &r.Derived

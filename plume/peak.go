@@ -3,6 +3,8 @@ package plume
 import (
 	"math"
 	"sort"
+
+	"downgradient/internal/roots"
 )
 
 // PeakMethod describes how peaks and first-exceedance times are found; it is
@@ -23,17 +25,17 @@ type timeline struct {
 
 // charTime is the characteristic time of a receptor, d: the retarded
 // advective travel time to it, at least the travel time over alpha_L.
-func (m *model) charTime(p point) float64 {
-	dist := math.Max(p.px, 0)
+func (m *model) charTime(p Point) float64 {
+	dist := math.Max(p.X, 0)
 	if m.kind == SourceKindInstantaneous {
-		dist = math.Hypot(p.px, p.py)
+		dist = math.Hypot(p.X, p.Y)
 	}
 	dist = math.Max(dist, math.Max(m.alpha[0], 1e-3))
 	return m.r * dist / m.v
 }
 
 // sample evaluates f on the scan grid of the peak search.
-func (m *model) sample(f func(float64) float64, p point, extra []float64) timeline {
+func (m *model) sample(f func(float64) float64, p Point, extra []float64) timeline {
 	t0 := m.charTime(p)
 	lo := 1e-3 * t0
 	hi := 1e3 * t0
@@ -54,7 +56,7 @@ func (m *model) sample(f func(float64) float64, p point, extra []float64) timeli
 		taus = append(taus, t0+m.duration/2, t0+m.duration, m.duration)
 	}
 	for _, e := range extra {
-		if e > 0 && finite(e) {
+		if e > 0 && Finite(e) {
 			taus = append(taus, e)
 		}
 	}
@@ -81,11 +83,11 @@ type peakResult struct {
 
 // findPeak locates the highest value of f (elapsed time tau -> mg/L).
 // steady is f(+Inf).
-func (m *model) findPeak(f func(float64) float64, p point, steady float64, extra []float64) peakResult {
+func (m *model) findPeak(f func(float64) float64, p Point, steady float64, extra []float64) peakResult {
 	switch {
-	case p.upgradient:
+	case p.upgradient():
 		return peakResult{tau: math.Inf(1), c: 0}
-	case p.inside:
+	case p.inside():
 		return peakResult{tau: 0, c: m.c0}
 	case m.continuous():
 		return peakResult{tau: math.Inf(1), c: steady}
@@ -105,7 +107,7 @@ func (m *model) findPeak(f func(float64) float64, p point, steady float64, extra
 	if best == 0 {
 		a = 0
 	}
-	x, fx := goldenMax(f, a, b, 1e-9)
+	x, fx := roots.GoldenMax(f, a, b, 1e-9)
 	if fx < tl.c[best] {
 		x, fx = tl.tau[best], tl.c[best]
 	}
@@ -125,11 +127,11 @@ func (m *model) findPeak(f func(float64) float64, p point, steady float64, extra
 // firstExceedance returns the earliest elapsed time, d, at which f reaches
 // level (mg/L), or ok == false when it never does. pk is the receptor's
 // peak; known holds values of f already computed (the requested times).
-func (m *model) firstExceedance(f func(float64) float64, p point, pk peakResult, known timeline, level float64) (tau float64, ok bool) {
-	if !(pk.c >= level) || p.upgradient {
+func (m *model) firstExceedance(f func(float64) float64, p Point, pk peakResult, known timeline, level float64) (tau float64, ok bool) {
+	if !(pk.c >= level) || p.upgradient() {
 		return 0, false
 	}
-	if p.inside {
+	if p.inside() {
 		return 0, true
 	}
 	g := func(t float64) float64 { return f(t) - level }
@@ -177,7 +179,7 @@ func (m *model) firstExceedance(f func(float64) float64, p point, pk peakResult,
 				return lo, true
 			}
 		}
-		return brentRoot(g, lo, hi, flo, fhi, rel*hi, 200), true
+		return roots.Brent(g, lo, hi, flo, fhi, rel*hi, 200), true
 	}
 	tl := pk.timeline
 	for i, c := range tl.c {
@@ -186,7 +188,7 @@ func (m *model) firstExceedance(f func(float64) float64, p point, pk peakResult,
 			if i > 0 {
 				lo, flo = tl.tau[i-1], tl.c[i-1]-level
 			}
-			return brentRoot(g, lo, tl.tau[i], flo, c-level, rel*tl.tau[i], 200), true
+			return roots.Brent(g, lo, tl.tau[i], flo, c-level, rel*tl.tau[i], 200), true
 		}
 	}
 	return 0, false

@@ -26,16 +26,16 @@ var lookupReference = func(name string) (referenceValues, bool) {
 	}
 	rv := referenceValues{Name: c.Name}
 	if c.Koc.Value > 0 {
-		rv.Koc = ptr(c.Koc.Value)
+		rv.Koc = Ptr(c.Koc.Value)
 	}
 	if hl := c.ConservativeHalfLife(); hl > 0 {
-		rv.HalfLifeLong = ptr(hl)
+		rv.HalfLifeLong = Ptr(hl)
 	}
 	if l, ok := c.ScreeningLevel(); ok && l.Value > 0 {
-		rv.ScreeningLevel = ptr(l.Value)
+		rv.ScreeningLevel = Ptr(l.Value)
 	}
 	if c.Solubility.Value > 0 {
-		rv.Solubility = ptr(c.Solubility.Value)
+		rv.Solubility = Ptr(c.Solubility.Value)
 	}
 	return rv, true
 }

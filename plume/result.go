@@ -237,3 +237,17 @@ type Caveat struct {
 	// Receptor concerned; empty when the caveat concerns the whole result.
 	ReceptorID string `json:"receptor_id,omitempty"`
 }
+
+// MethodValue returns the value of method m in a per-method triple (nil
+// for a method not run or unknown).
+func MethodValue(m string, exact, domenico, numeric *float64) *float64 {
+	switch m {
+	case MethodExact:
+		return exact
+	case MethodDomenico:
+		return domenico
+	case MethodNumeric:
+		return numeric
+	}
+	return nil
+}

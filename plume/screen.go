@@ -5,7 +5,6 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
-	"fmt"
 	"math"
 )
 
@@ -14,44 +13,28 @@ import (
 // and time, plus the steady state, the peak, the first exceedance of the
 // screening level and the caveats. Values come back in the request's units.
 //
-// A validation failure is returned as FieldErrors (every bad field at once);
-// a cancelled or expired ctx as ctx.Err() (checked between receptors and
-// passed to the numeric solver).
+// A validation failure is returned as an *Error of kind KindInvalid naming
+// every bad field at once; a cancelled or expired ctx as ctx.Err() (checked
+// between receptors and passed to the numeric solver).
 func Screen(ctx context.Context, sc Scenario, opt Options) (*Result, error) {
-	opt = opt.withDefaults()
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	if err := Validate(sc); err != nil {
+	md, err := Prepare(sc, PrepareOptions{})
+	if err != nil {
 		return nil, err
 	}
-	units := sc.Units.withDefaults()
-	uf, _ := units.factors()
-	c := toCanonical(sc)
+	return md.Screen(ctx, opt)
+}
 
-	// Frames and receptors.
-	frame := frameOf(c.Source)
-	pts := make([]point, len(c.Receptors))
-	maxX := math.Inf(-1)
-	for i, r := range c.Receptors {
-		p := point{id: r.ID}
-		if p.id == "" {
-			p.id = fmt.Sprintf("R%d", i+1)
-		}
-		p.px, p.py = frame.ToPlume(*r.X, *r.Y)
-		switch {
-		case r.ScreenTop != nil:
-			p.top, p.bot, p.screen = *r.ScreenTop, *r.ScreenBottom, true
-		case r.Z != nil:
-			p.top, p.bot = *r.Z, *r.Z
-		}
-		maxX = math.Max(maxX, p.px)
-		pts[i] = p
+// Screen runs the scenario's methods at its receptors and times (see the
+// function Screen).
+func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
+	opt = opt.WithDefaults()
+	if err := ctx.Err(); err != nil {
+		return nil, err
 	}
-	m := derive(c, maxX)
-	for i := range pts {
-		m.classify(&pts[i])
-	}
+	m, pts, c := md.m, md.pts, md.canon
 	run := methodSet(c.Methods)
 	if m.kind == SourceKindInstantaneous {
 		run.domenicoSkipped = run.domenico
@@ -59,8 +42,8 @@ func Screen(ctx context.Context, sc Scenario, opt Options) (*Result, error) {
 	}
 
 	res := &Result{
-		Engine:    Engine{Version: opt.EngineVersion, InputSHA256: InputSHA256(sc)},
-		Units:     units,
+		Engine:    Engine{Version: opt.EngineVersion, InputSHA256: InputSHA256(md.sc)},
+		Units:     md.units,
 		Derived:   m.derived,
 		Receptors: make([]ReceptorResult, len(pts)),
 		Caveats:   []Caveat{},
@@ -71,18 +54,18 @@ func Screen(ctx context.Context, sc Scenario, opt Options) (*Result, error) {
 	for i, t := range c.Times {
 		taus[i] = t - m.start
 	}
-	floor := m.comparisonFloor()
-	primaryExact := run.exact || !run.domenico
-	primary := MethodExact
-	if !primaryExact {
-		primary = MethodDomenico
+	sp := screenPlan{reqTimes: md.sc.Times, taus: taus, run: run, floor: m.comparisonFloor()}
+	sp.primaryExact = run.exact || !run.domenico
+	sp.primary = MethodExact
+	if !sp.primaryExact {
+		sp.primary = MethodDomenico
 	}
 
 	for i, p := range pts {
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
-		res.Receptors[i] = m.screenReceptor(ctx, p, sc.Times, taus, run, primaryExact, primary, floor)
+		res.Receptors[i] = m.screenReceptor(ctx, p, sp)
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
@@ -100,12 +83,12 @@ func Screen(ctx context.Context, sc Scenario, opt Options) (*Result, error) {
 			res.caveat(CaveatNumericNotRun, SeverityCaution, "", "The numeric cross-check was not run: %s.", reason)
 		} else {
 			res.Numeric = nr.report
-			m.attachNumeric(res, nr, pts, sc.Times, taus, floor, opt.NumericTolerance)
+			m.attachNumeric(res, nr, pts, md.sc.Times, taus, sp.floor, opt.NumericTolerance)
 		}
 	}
 
-	m.addCaveats(res, pts, run, opt, units, uf)
-	res.fromCanonical(uf)
+	m.addCaveats(res, pts, run, opt, md.units, md.uf)
+	res.fromCanonical(md.uf)
 	res.sanitize()
 	return res, nil
 }
@@ -149,95 +132,118 @@ func (m *model) comparisonFloor() float64 {
 	return 1e-12
 }
 
+// screenPlan is what every receptor of a screening shares: the requested
+// times (as given, and as elapsed days since the source start), the methods
+// and the comparison floor, mg/L.
+type screenPlan struct {
+	reqTimes, taus []float64
+	run            methods
+	primaryExact   bool   // the peak and exceedance use exact (else Domenico)
+	primary        string // the primary method's name
+	floor          float64
+}
+
 // screenReceptor computes everything but the numeric values at one receptor,
-// in canonical units except the series times, which echo the request's
-// (reqTimes); taus are the same times as elapsed days since the source start.
-func (m *model) screenReceptor(ctx context.Context, p point, reqTimes, taus []float64, run methods, primaryExact bool, primary string, floor float64) ReceptorResult {
-	rr := ReceptorResult{ID: p.id, PlumeX: p.px, PlumeY: p.py, Z: p.mid(), Series: make([]SeriesPoint, len(taus))}
-	if p.screen {
-		rr.ScreenTop, rr.ScreenBottom = ptr(p.top), ptr(p.bot)
+// in canonical units except the series times, which echo the request's.
+func (m *model) screenReceptor(ctx context.Context, p Point, sp screenPlan) ReceptorResult {
+	rr := ReceptorResult{ID: p.ID, PlumeX: p.X, PlumeY: p.Y, Z: p.mid(), Series: make([]SeriesPoint, len(sp.taus))}
+	if p.Screen {
+		rr.ScreenTop, rr.ScreenBottom = Ptr(p.Top), Ptr(p.Bottom)
 	}
 	dev := math.Inf(-1)
 	compare := func(e, d float64) {
-		if e >= floor && e > 0 {
+		if e >= sp.floor && e > 0 {
 			dev = math.Max(dev, math.Abs(d-e)/e)
 		}
 	}
-	var known timeline // primary-method values at the requested times
-	for j, tau := range taus {
+	known, ok := m.receptorSeries(ctx, p, sp, rr.Series, compare)
+	if !ok {
+		return rr // Screen discards it and returns ctx.Err()
+	}
+	steadyPrimary := m.receptorSteady(p, sp, &rr, compare)
+	if dev > math.Inf(-1) && (sp.run.exact && sp.run.domenico) {
+		rr.DomenicoDeviation = Ptr(dev)
+	}
+	m.receptorPeak(ctx, p, sp, &rr, steadyPrimary, known)
+	return rr
+}
+
+// receptorSeries fills the series at the requested times and returns the
+// primary method's values there; ok is false when ctx ended first.
+func (m *model) receptorSeries(ctx context.Context, p Point, sp screenPlan, series []SeriesPoint, compare func(e, d float64)) (known timeline, ok bool) {
+	run := sp.run
+	for j, tau := range sp.taus {
 		if ctx.Err() != nil {
-			return rr // Screen discards it and returns ctx.Err()
+			return known, false
 		}
-		sp := SeriesPoint{Time: reqTimes[j]} // echoed in the request's unit
+		pt := SeriesPoint{Time: sp.reqTimes[j]} // echoed in the request's unit
 		var e, d float64
 		if run.exact {
 			e = m.closedForm(true, p, tau)
-			sp.Exact = ptr(e)
+			pt.Exact = Ptr(e)
 		}
 		if run.domenico {
 			d = m.closedForm(false, p, tau)
-			sp.Domenico = ptr(d)
+			pt.Domenico = Ptr(d)
 		}
 		if run.exact && run.domenico {
 			compare(e, d)
 		}
-		if primaryExact && run.exact {
+		if sp.primaryExact && run.exact {
 			known.tau, known.c = append(known.tau, tau), append(known.c, e)
-		} else if !primaryExact {
+		} else if !sp.primaryExact {
 			known.tau, known.c = append(known.tau, tau), append(known.c, d)
 		}
-		rr.Series[j] = sp
+		series[j] = pt
 	}
+	return known, true
+}
+
+// receptorSteady fills the steady state of the methods run and returns the
+// primary method's.
+func (m *model) receptorSteady(p Point, sp screenPlan, rr *ReceptorResult, compare func(e, d float64)) float64 {
+	run := sp.run
 	inf := math.Inf(1)
-	var steadyPrimary float64
 	if run.exact {
-		e := m.closedForm(true, p, inf)
-		rr.SteadyState.Exact = ptr(e)
+		rr.SteadyState.Exact = Ptr(m.closedForm(true, p, inf))
 	}
 	if run.domenico {
-		d := m.closedForm(false, p, inf)
-		rr.SteadyState.Domenico = ptr(d)
+		rr.SteadyState.Domenico = Ptr(m.closedForm(false, p, inf))
 	}
 	if run.exact && run.domenico {
 		compare(*rr.SteadyState.Exact, *rr.SteadyState.Domenico)
 	}
-	if run.exact || run.domenico {
-		if primaryExact {
-			if rr.SteadyState.Exact != nil {
-				steadyPrimary = *rr.SteadyState.Exact
-			} else {
-				steadyPrimary = m.closedForm(true, p, inf)
-			}
-		} else {
-			steadyPrimary = *rr.SteadyState.Domenico
-		}
-	} else {
-		steadyPrimary = m.closedForm(true, p, inf)
+	switch {
+	case !run.exact && !run.domenico:
+		return m.closedForm(true, p, inf)
+	case !sp.primaryExact:
+		return *rr.SteadyState.Domenico
+	case rr.SteadyState.Exact != nil:
+		return *rr.SteadyState.Exact
 	}
-	if dev > math.Inf(-1) && (run.exact && run.domenico) {
-		rr.DomenicoDeviation = ptr(dev)
-	}
+	return m.closedForm(true, p, inf)
+}
 
-	// The peak and exceedance searches stop early (values then discarded)
-	// when ctx is done.
+// receptorPeak finds the peak and the first exceedance of the screening
+// level. The searches stop early (values then discarded) when ctx is done.
+func (m *model) receptorPeak(ctx context.Context, p Point, sp screenPlan, rr *ReceptorResult, steadyPrimary float64, known timeline) {
 	f := func(tau float64) float64 {
 		if ctx.Err() != nil {
 			return 0
 		}
-		return m.closedForm(primaryExact, p, tau)
+		return m.closedForm(sp.primaryExact, p, tau)
 	}
-	pk := m.findPeak(f, p, steadyPrimary, taus)
-	rr.Peak = Peak{Concentration: pk.c, Method: primary}
+	pk := m.findPeak(f, p, steadyPrimary, sp.taus)
+	rr.Peak = Peak{Concentration: pk.c, Method: sp.primary}
 	if !math.IsInf(pk.tau, 1) {
-		rr.Peak.Time = ptr(m.start + pk.tau)
+		rr.Peak.Time = Ptr(m.start + pk.tau)
 	}
 	if m.screening != nil {
 		rr.ExceedsScreeningLevel = pk.c >= *m.screening && pk.c > 0
 		if tau, ok := m.firstExceedance(f, p, pk, known, *m.screening); ok {
-			rr.FirstExceedanceTime = ptr(m.start + tau)
+			rr.FirstExceedanceTime = Ptr(m.start + tau)
 		}
 	}
-	return rr
 }
 
 // InputSHA256 is the hex SHA-256 of the canonical JSON of a scenario: the

@@ -157,13 +157,13 @@ func toCanonical(sc Scenario) Scenario {
 	return out
 }
 
-// finite reports whether x is neither NaN nor infinite.
-func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
+// Finite reports whether x is neither NaN nor infinite.
+func Finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 
-// clean returns x when finite, 0 for NaN, and the largest finite float64 of
+// Clean returns x when finite, 0 for NaN, and the largest finite float64 of
 // the same sign for an infinity. It is the last line of defence: results
 // are built so that it never changes a value.
-func clean(x float64) float64 {
+func Clean(x float64) float64 {
 	switch {
 	case math.IsNaN(x):
 		return 0

@@ -33,19 +33,20 @@ func Validate(sc Scenario) error {
 	validateSource(&fe, sc)
 	validateReceptors(&fe, sc.Receptors)
 	for i, t := range sc.Times {
-		if !finite(t) || t < 0 {
-			fe.add(fmt.Sprintf("times[%d]", i), fmt.Sprintf("must be a finite number >= 0, got %g", t))
+		if !Finite(t) || t < 0 {
+			fe.Add(fmt.Sprintf("times[%d]", i), fmt.Sprintf("must be a finite number >= 0, got %g", t))
 		}
 	}
 	for i, m := range sc.Methods {
-		if !knownMethod(m) {
-			fe.add(fmt.Sprintf("methods[%d]", i), fmt.Sprintf("must be one of %s, got %q", strings.Join(AllMethods, ", "), m))
+		if !KnownMethod(m) {
+			fe.Add(fmt.Sprintf("methods[%d]", i), fmt.Sprintf("must be one of %s, got %q", strings.Join(AllMethods, ", "), m))
 		}
 	}
-	return fe.orNil()
+	return fe.Err()
 }
 
-func knownMethod(m string) bool {
+// KnownMethod reports whether m names a method.
+func KnownMethod(m string) bool {
 	for _, k := range AllMethods {
 		if m == k {
 			return true
@@ -54,18 +55,20 @@ func knownMethod(m string) bool {
 	return false
 }
 
-// rule is a range check on a given number; it returns "" when v is allowed,
+// Rule is a range check on a given number; it returns "" when v is allowed,
 // else the allowed range in words.
-type rule func(v float64) string
+type Rule func(v float64) string
 
-func positive(v float64) string {
+// Positive allows v > 0.
+func Positive(v float64) string {
 	if v > 0 {
 		return ""
 	}
 	return "must be > 0"
 }
 
-func nonNegative(v float64) string {
+// NonNegative allows v >= 0.
+func NonNegative(v float64) string {
 	if v >= 0 {
 		return ""
 	}
@@ -93,26 +96,27 @@ func atLeastOne(v float64) string {
 	return "must be >= 1"
 }
 
-func anyFinite(float64) string { return "" }
+// AnyFinite allows every finite number.
+func AnyFinite(float64) string { return "" }
 
-// check adds an error when p is given and not finite or not allowed by r.
-func (fe *FieldErrors) check(path string, p *float64, r rule) {
+// Check adds an error when p is given and not finite or not allowed by r.
+func (fe *FieldErrors) Check(path string, p *float64, r Rule) {
 	if p == nil {
 		return
 	}
 	v := *p
-	if !finite(v) {
+	if !Finite(v) {
 		msg := r(1)
 		if msg == "" {
 			msg = "must be a finite number"
 		} else {
 			msg += " and finite"
 		}
-		fe.add(path, fmt.Sprintf("%s, got %g", msg, v))
+		fe.Add(path, fmt.Sprintf("%s, got %g", msg, v))
 		return
 	}
 	if msg := r(v); msg != "" {
-		fe.add(path, fmt.Sprintf("%s, got %g", msg, v))
+		fe.Add(path, fmt.Sprintf("%s, got %g", msg, v))
 	}
 }
 
@@ -120,167 +124,167 @@ func validateUnits(fe *FieldErrors, u Units) {
 	switch u.Length {
 	case "", LengthMetre, LengthFoot:
 	default:
-		fe.add("units.length", fmt.Sprintf("must be %q or %q, got %q", LengthMetre, LengthFoot, u.Length))
+		fe.Add("units.length", fmt.Sprintf("must be %q or %q, got %q", LengthMetre, LengthFoot, u.Length))
 	}
 	switch u.Time {
 	case "", TimeDay, TimeYear:
 	default:
-		fe.add("units.time", fmt.Sprintf("must be %q or %q, got %q", TimeDay, TimeYear, u.Time))
+		fe.Add("units.time", fmt.Sprintf("must be %q or %q, got %q", TimeDay, TimeYear, u.Time))
 	}
 	switch u.Concentration {
 	case "", ConcMgL, ConcUgL:
 	default:
-		fe.add("units.concentration", fmt.Sprintf("must be %q or %q, got %q", ConcMgL, ConcUgL, u.Concentration))
+		fe.Add("units.concentration", fmt.Sprintf("must be %q or %q, got %q", ConcMgL, ConcUgL, u.Concentration))
 	}
 }
 
 func validateAquifer(fe *FieldErrors, sc Scenario) {
 	a := sc.Aquifer
-	fe.check("aquifer.hydraulic_conductivity", a.HydraulicConductivity, positive)
-	fe.check("aquifer.hydraulic_gradient", a.HydraulicGradient, positive)
-	fe.check("aquifer.effective_porosity", a.EffectivePorosity, openUnit)
-	fe.check("aquifer.seepage_velocity", a.SeepageVelocity, positive)
-	fe.check("aquifer.bulk_density", a.BulkDensity, positive)
-	fe.check("aquifer.organic_carbon_fraction", a.OrganicCarbonFraction, closedUnit)
-	fe.check("aquifer.effective_diffusion", a.EffectiveDiffusion, nonNegative)
+	fe.Check("aquifer.hydraulic_conductivity", a.HydraulicConductivity, Positive)
+	fe.Check("aquifer.hydraulic_gradient", a.HydraulicGradient, Positive)
+	fe.Check("aquifer.effective_porosity", a.EffectivePorosity, openUnit)
+	fe.Check("aquifer.seepage_velocity", a.SeepageVelocity, Positive)
+	fe.Check("aquifer.bulk_density", a.BulkDensity, Positive)
+	fe.Check("aquifer.organic_carbon_fraction", a.OrganicCarbonFraction, closedUnit)
+	fe.Check("aquifer.effective_diffusion", a.EffectiveDiffusion, NonNegative)
 	if d := a.Dispersivity; d != nil {
-		fe.check("aquifer.dispersivity.longitudinal", d.Longitudinal, positive)
-		fe.check("aquifer.dispersivity.transverse", d.Transverse, positive)
-		fe.check("aquifer.dispersivity.vertical", d.Vertical, positive)
+		fe.Check("aquifer.dispersivity.longitudinal", d.Longitudinal, Positive)
+		fe.Check("aquifer.dispersivity.transverse", d.Transverse, Positive)
+		fe.Check("aquifer.dispersivity.vertical", d.Vertical, Positive)
 	}
 	if a.SeepageVelocity == nil {
 		const why = "required unless aquifer.seepage_velocity is given (v = K i / n_e)"
 		if a.HydraulicConductivity == nil {
-			fe.add("aquifer.hydraulic_conductivity", why)
+			fe.Add("aquifer.hydraulic_conductivity", why)
 		}
 		if a.HydraulicGradient == nil {
-			fe.add("aquifer.hydraulic_gradient", why)
+			fe.Add("aquifer.hydraulic_gradient", why)
 		}
 		if a.EffectivePorosity == nil {
-			fe.add("aquifer.effective_porosity", why)
+			fe.Add("aquifer.effective_porosity", why)
 		}
 	}
 }
 
 func validateContaminant(fe *FieldErrors, sc Scenario) {
 	c, a := sc.Contaminant, sc.Aquifer
-	fe.check("contaminant.koc", c.Koc, nonNegative)
-	fe.check("contaminant.half_life", c.HalfLife, positive)
-	fe.check("contaminant.retardation", c.Retardation, atLeastOne)
-	fe.check("contaminant.screening_level", c.ScreeningLevel, positive)
-	fe.check("contaminant.solubility", c.Solubility, positive)
+	fe.Check("contaminant.koc", c.Koc, NonNegative)
+	fe.Check("contaminant.half_life", c.HalfLife, Positive)
+	fe.Check("contaminant.retardation", c.Retardation, atLeastOne)
+	fe.Check("contaminant.screening_level", c.ScreeningLevel, Positive)
+	fe.Check("contaminant.solubility", c.Solubility, Positive)
 	switch c.DecayAppliesTo {
 	case "", DecayTotal, DecayDissolved:
 	default:
-		fe.add("contaminant.decay_applies_to", fmt.Sprintf("must be %q or %q, got %q", DecayTotal, DecayDissolved, c.DecayAppliesTo))
+		fe.Add("contaminant.decay_applies_to", fmt.Sprintf("must be %q or %q, got %q", DecayTotal, DecayDissolved, c.DecayAppliesTo))
 	}
 	if c.Retardation == nil {
 		const why = "required unless contaminant.retardation is given (R = 1 + rho_b Koc f_oc / n_e)"
 		if c.Koc == nil {
 			ref, ok := lookupReference(c.Name)
 			if !ok || ref.Koc == nil {
-				fe.add("contaminant.koc", "required unless contaminant.retardation is given or contaminant.name is in the reference table with a Koc")
+				fe.Add("contaminant.koc", "required unless contaminant.retardation is given or contaminant.name is in the reference table with a Koc")
 			}
 		}
 		if a.OrganicCarbonFraction == nil {
-			fe.add("aquifer.organic_carbon_fraction", why)
+			fe.Add("aquifer.organic_carbon_fraction", why)
 		}
 		if a.BulkDensity == nil {
-			fe.add("aquifer.bulk_density", why)
+			fe.Add("aquifer.bulk_density", why)
 		}
 		if a.EffectivePorosity == nil && a.SeepageVelocity != nil {
-			fe.add("aquifer.effective_porosity", why)
+			fe.Add("aquifer.effective_porosity", why)
 		}
 	}
 }
 
 func validateSource(fe *FieldErrors, sc Scenario) {
 	s := sc.Source
-	fe.check("source.x", s.X, anyFinite)
-	fe.check("source.y", s.Y, anyFinite)
-	fe.check("source.flow_azimuth_deg", s.FlowAzimuthDeg, anyFinite)
-	fe.check("source.concentration", s.Concentration, positive)
-	fe.check("source.width", s.Width, positive)
-	fe.check("source.depth", s.Depth, positive)
-	fe.check("source.start", s.Start, nonNegative)
-	fe.check("source.duration", s.Duration, positive)
-	fe.check("source.half_life", s.HalfLife, positive)
-	fe.check("source.mass", s.Mass, positive)
-	fe.check("source.release_depth", s.ReleaseDepth, nonNegative)
+	fe.Check("source.x", s.X, AnyFinite)
+	fe.Check("source.y", s.Y, AnyFinite)
+	fe.Check("source.flow_azimuth_deg", s.FlowAzimuthDeg, AnyFinite)
+	fe.Check("source.concentration", s.Concentration, Positive)
+	fe.Check("source.width", s.Width, Positive)
+	fe.Check("source.depth", s.Depth, Positive)
+	fe.Check("source.start", s.Start, NonNegative)
+	fe.Check("source.duration", s.Duration, Positive)
+	fe.Check("source.half_life", s.HalfLife, Positive)
+	fe.Check("source.mass", s.Mass, Positive)
+	fe.Check("source.release_depth", s.ReleaseDepth, NonNegative)
 	switch {
 	case s.Concentration == nil && s.Mass == nil:
-		fe.add("source.concentration", "required (or source.mass for an instantaneous release)")
+		fe.Add("source.concentration", "required (or source.mass for an instantaneous release)")
 	case s.Concentration != nil && s.Mass != nil:
-		fe.add("source.mass", "give either source.concentration (continuous source) or source.mass (instantaneous release), not both")
+		fe.Add("source.mass", "give either source.concentration (continuous source) or source.mass (instantaneous release), not both")
 	}
 	if s.Mass != nil {
 		if s.Duration != nil {
-			fe.add("source.duration", "must be null for an instantaneous release (source.mass)")
+			fe.Add("source.duration", "must be null for an instantaneous release (source.mass)")
 		}
 		if s.HalfLife != nil {
-			fe.add("source.half_life", "must be null for an instantaneous release (source.mass)")
+			fe.Add("source.half_life", "must be null for an instantaneous release (source.mass)")
 		}
 		if sc.Aquifer.EffectivePorosity == nil {
-			fe.add("aquifer.effective_porosity", "required for an instantaneous release (source.mass)")
+			fe.Add("aquifer.effective_porosity", "required for an instantaneous release (source.mass)")
 		}
 		if s.Inlet != "" {
-			fe.add("source.inlet", "applies only to a continuous 1D column source")
+			fe.Add("source.inlet", "applies only to a continuous 1D column source")
 		}
 		return
 	}
 	if s.ReleaseDepth != nil {
-		fe.add("source.release_depth", "applies only to an instantaneous release (source.mass)")
+		fe.Add("source.release_depth", "applies only to an instantaneous release (source.mass)")
 	}
 	if (s.Width == nil) != (s.Depth == nil) {
 		if s.Width == nil {
-			fe.add("source.width", "give both source.width and source.depth (3D source) or neither (1D column)")
+			fe.Add("source.width", "give both source.width and source.depth (3D source) or neither (1D column)")
 		} else {
-			fe.add("source.depth", "give both source.width and source.depth (3D source) or neither (1D column)")
+			fe.Add("source.depth", "give both source.width and source.depth (3D source) or neither (1D column)")
 		}
 	}
 	switch s.Inlet {
 	case "", InletConcentration:
 	case InletFlux:
 		if s.Width != nil || s.Depth != nil {
-			fe.add("source.inlet", `"flux" applies only to a 1D column source (no width and depth)`)
+			fe.Add("source.inlet", `"flux" applies only to a 1D column source (no width and depth)`)
 		}
 	default:
-		fe.add("source.inlet", fmt.Sprintf("must be %q or %q, got %q", InletConcentration, InletFlux, s.Inlet))
+		fe.Add("source.inlet", fmt.Sprintf("must be %q or %q, got %q", InletConcentration, InletFlux, s.Inlet))
 	}
 }
 
 func validateReceptors(fe *FieldErrors, rs []Receptor) {
 	if len(rs) == 0 {
-		fe.add("receptors", "at least one receptor is required")
+		fe.Add("receptors", "at least one receptor is required")
 		return
 	}
 	seen := make(map[string]int, len(rs))
 	for i, r := range rs {
 		p := fmt.Sprintf("receptors[%d]", i)
 		if r.X == nil {
-			fe.add(p+".x", "required: site x (east) of the receptor")
+			fe.Add(p+".x", "required: site x (east) of the receptor")
 		}
 		if r.Y == nil {
-			fe.add(p+".y", "required: site y (north) of the receptor")
+			fe.Add(p+".y", "required: site y (north) of the receptor")
 		}
-		fe.check(p+".x", r.X, anyFinite)
-		fe.check(p+".y", r.Y, anyFinite)
-		fe.check(p+".z", r.Z, nonNegative)
-		fe.check(p+".screen_top", r.ScreenTop, nonNegative)
-		fe.check(p+".screen_bottom", r.ScreenBottom, nonNegative)
+		fe.Check(p+".x", r.X, AnyFinite)
+		fe.Check(p+".y", r.Y, AnyFinite)
+		fe.Check(p+".z", r.Z, NonNegative)
+		fe.Check(p+".screen_top", r.ScreenTop, NonNegative)
+		fe.Check(p+".screen_bottom", r.ScreenBottom, NonNegative)
 		switch {
 		case (r.ScreenTop == nil) != (r.ScreenBottom == nil):
 			if r.ScreenTop == nil {
-				fe.add(p+".screen_top", "give both screen_top and screen_bottom, or neither")
+				fe.Add(p+".screen_top", "give both screen_top and screen_bottom, or neither")
 			} else {
-				fe.add(p+".screen_bottom", "give both screen_top and screen_bottom, or neither")
+				fe.Add(p+".screen_bottom", "give both screen_top and screen_bottom, or neither")
 			}
-		case r.ScreenTop != nil && finite(*r.ScreenTop) && finite(*r.ScreenBottom) && *r.ScreenBottom < *r.ScreenTop:
-			fe.add(p+".screen_bottom", fmt.Sprintf("must be >= screen_top (%g), got %g", *r.ScreenTop, *r.ScreenBottom))
+		case r.ScreenTop != nil && Finite(*r.ScreenTop) && Finite(*r.ScreenBottom) && *r.ScreenBottom < *r.ScreenTop:
+			fe.Add(p+".screen_bottom", fmt.Sprintf("must be >= screen_top (%g), got %g", *r.ScreenTop, *r.ScreenBottom))
 		}
 		if r.ID != "" {
 			if j, dup := seen[r.ID]; dup {
-				fe.add(p+".id", fmt.Sprintf("must be unique; %q is also receptors[%d].id", r.ID, j))
+				fe.Add(p+".id", fmt.Sprintf("must be unique; %q is also receptors[%d].id", r.ID, j))
 			} else {
 				seen[r.ID] = i
 			}

@@ -1,7 +1,6 @@
 package plume
 
 import (
-	"errors"
 	"math"
 	"slices"
 	"testing"
@@ -93,8 +92,8 @@ func TestValidateNamesFields(t *testing.T) {
 				}
 				return
 			}
-			var fe FieldErrors
-			if !errors.As(err, &fe) {
+			fe := FieldsOf(err)
+			if e, ok := AsError(err); !ok || e.Kind != KindInvalid || len(fe) == 0 {
 				t.Fatalf("want FieldErrors, got %v", err)
 			}
 			var got []string

@@ -1,4 +1,4 @@
-package plume
+package uncertainty
 
 import (
 	"context"
@@ -9,62 +9,39 @@ import (
 	"testing"
 
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"downgradient/internal/plumetest"
+	"downgradient/plume"
 )
 
-// uncertainDemo is the invented demo scenario (helpers_test.go) with ten
-// receptors and ten times, as the benchmark uses.
-func uncertainDemo() Scenario {
-	sc := benchScenario(MethodExact)
+// uncertainDemo is the invented demo scenario (package plumetest) with ten
+// receptors and ten times, as the screening benchmark uses.
+func uncertainDemo() plume.Scenario {
+	var sc plume.Scenario
+	if err := json.Unmarshal([]byte(plumetest.DemoJSON), &sc); err != nil {
+		panic(err)
+	}
+	sc.Receptors = nil
+	for i := range 10 {
+		x, y, z := plumetest.BenchReceptor(i)
+		sc.Receptors = append(sc.Receptors, plume.Receptor{ID: fmt.Sprintf("W%d", i), X: f(x), Y: f(y), Z: f(z)})
+	}
+	sc.Times = plumetest.BenchTimes()
+	sc.Methods = []string{plume.MethodExact}
 	return sc
 }
 
-// ExtractUncertain finds every distribution object, names it by its JSON
-// path and puts its median in its place.
-func TestUncertainExtract(t *testing.T) {
-	var tree map[string]any
-	body := `{"aquifer": {"hydraulic_conductivity": {"distribution": "lognormal", "p05": 2, "p95": 40}, "hydraulic_gradient": 0.004},
-	          "receptors": [{"x": 1, "y": 0}, {"x": {"distribution": "uniform", "min": 10, "max": 20}, "y": 0}]}`
-	if err := json.Unmarshal([]byte(body), &tree); err != nil {
+// f is a test shorthand for a *float64.
+var f = plumetest.F
+
+// param parses a parameter path.
+func param(t testing.TB, path string) plume.Param {
+	t.Helper()
+	p, err := plume.ParseParam(path)
+	if err != nil {
 		t.Fatal(err)
 	}
-	params, mal, inv := ExtractUncertain(tree)
-	if len(mal)+len(inv) > 0 || len(params) != 2 {
-		t.Fatalf("params %v, errors %v %v", params, mal, inv)
-	}
-	if params[0].Path != "aquifer.hydraulic_conductivity" || params[1].Path != "receptors[1].x" {
-		t.Errorf("paths %q %q", params[0].Path, params[1].Path)
-	}
-	// Median of a lognormal given by p05 and p95 is their geometric mean
-	// (symmetry of ln X about mu); of a uniform, the midpoint.
-	if k := tree["aquifer"].(map[string]any)["hydraulic_conductivity"].(float64); math.Abs(k-math.Sqrt(80)) > 1e-12 {
-		t.Errorf("median %g, want sqrt(80)", k)
-	}
-	if x := tree["receptors"].([]any)[1].(map[string]any)["x"].(float64); x != 15 {
-		t.Errorf("median %g, want 15", x)
-	}
-}
-
-// setNumber edits a shallow copy without touching the shared template.
-func TestUncertainSetNumberCopyOnWrite(t *testing.T) {
-	tmpl := demoScenario()
-	sc := tmpl
-	for _, c := range []struct {
-		path string
-		v    float64
-	}{{"aquifer.dispersivity.longitudinal", 3}, {"receptors[1].x", 99}, {"times[2]", 42}, {"source.concentration", 7}} {
-		if err := setNumber(&sc, c.path, c.v); err != nil {
-			t.Fatal(err)
-		}
-	}
-	if *sc.Aquifer.Dispersivity.Longitudinal != 3 || *sc.Receptors[1].X != 99 || sc.Times[2] != 42 || *sc.Source.Concentration != 7 {
-		t.Errorf("values not set: %s", mustJSON(sc))
-	}
-	if *tmpl.Aquifer.Dispersivity.Longitudinal != 10 || *tmpl.Receptors[1].X != 60 || tmpl.Times[2] != 3650 || *tmpl.Source.Concentration != 12 {
-		t.Errorf("template changed: %s", mustJSON(tmpl))
-	}
-	if err := setNumber(&sc, "contaminant.name", 1); err == nil {
-		t.Error("a text field accepted a number")
-	}
+	return p
 }
 
 // Probability of exceedance against a closed form: with only the source
@@ -80,7 +57,7 @@ func TestUncertainExceedanceClosedForm(t *testing.T) {
 	sc.Times = []float64{1825}
 	unit := sc
 	unit.Source.Concentration = f(1)
-	res, err := Screen(context.Background(), unit, Options{})
+	res, err := plume.Screen(context.Background(), unit, plume.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -90,7 +67,7 @@ func TestUncertainExceedanceClosedForm(t *testing.T) {
 	d := Distribution{Kind: DistLognormal, P05: 2, P95: 40}
 	sc.Source.Concentration = f(d.Median())
 	const n = 1000
-	ur, err := RunUncertainty(context.Background(), UncertaintyRequest{Template: sc, Parameters: []UncertainParameter{{Path: "source.concentration", Dist: d}}, Realizations: n, Seed: 3}, Options{})
+	ur, err := RunUncertainty(context.Background(), UncertaintyRequest{Template: sc, Parameters: []UncertainParameter{{Param: param(t, "source.concentration"), Dist: d}}, Realizations: n, Seed: 3}, plume.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -121,12 +98,12 @@ func TestUncertainExceedanceClosedForm(t *testing.T) {
 func TestUncertainReproducible(t *testing.T) {
 	sc := uncertainDemo()
 	params := []UncertainParameter{
-		{Path: "aquifer.hydraulic_conductivity", Dist: Distribution{Kind: DistLognormal, P05: 3, P95: 25}},
-		{Path: "contaminant.half_life", Dist: Distribution{Kind: DistTriangular, Min: 200, Mode: 720, Max: 1500}},
-		{Path: "aquifer.dispersivity.longitudinal", Dist: Distribution{Kind: DistLogUniform, Min: 3, Max: 30}},
+		{Param: param(t, "aquifer.hydraulic_conductivity"), Dist: Distribution{Kind: DistLognormal, P05: 3, P95: 25}},
+		{Param: param(t, "contaminant.half_life"), Dist: Distribution{Kind: DistTriangular, Min: 200, Mode: 720, Max: 1500}},
+		{Param: param(t, "aquifer.dispersivity.longitudinal"), Dist: Distribution{Kind: DistLogUniform, Min: 3, Max: 30}},
 	}
 	run := func(workers int, seed uint64) []byte {
-		r, err := RunUncertainty(context.Background(), UncertaintyRequest{Template: sc, Parameters: params, Realizations: 60, Seed: seed, Workers: workers}, Options{})
+		r, err := RunUncertainty(context.Background(), UncertaintyRequest{Template: sc, Parameters: params, Realizations: 60, Seed: seed, Workers: workers}, plume.Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -166,15 +143,15 @@ func TestUncertainRefusals(t *testing.T) {
 		{"too many realizations", UncertaintyRequest{Template: sc, Realizations: MaxRealizations + 1}, "realizations"},
 		{"unknown method", UncertaintyRequest{Template: sc, Methods: []string{"magic"}}, "methods[0]"},
 		{"porosity beyond 1", UncertaintyRequest{Template: sc, Realizations: 200, Parameters: []UncertainParameter{
-			{Path: "aquifer.effective_porosity", Dist: Distribution{Kind: DistLognormal, P05: 0.1, P95: 0.9}}}}, "aquifer.effective_porosity"},
+			{Param: param(t, "aquifer.effective_porosity"), Dist: Distribution{Kind: DistLognormal, P05: 0.1, P95: 0.9}}}}, "aquifer.effective_porosity"},
 		{"negative conductivity", UncertaintyRequest{Template: sc, Realizations: 50, Parameters: []UncertainParameter{
-			{Path: "aquifer.hydraulic_conductivity", Dist: Distribution{Kind: DistUniform, Min: -1, Max: 10}}}}, "aquifer.hydraulic_conductivity"},
+			{Param: param(t, "aquifer.hydraulic_conductivity"), Dist: Distribution{Kind: DistUniform, Min: -1, Max: 10}}}}, "aquifer.hydraulic_conductivity"},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
-			_, err := RunUncertainty(context.Background(), tc.req, Options{})
-			var fe FieldErrors
-			if !errors.As(err, &fe) {
+			_, err := RunUncertainty(context.Background(), tc.req, plume.Options{})
+			fe := plume.FieldsOf(err)
+			if len(fe) == 0 {
 				t.Fatalf("err %v, want FieldErrors", err)
 			}
 			found := false
@@ -188,7 +165,7 @@ func TestUncertainRefusals(t *testing.T) {
 	}
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
-	if _, err := RunUncertainty(ctx, UncertaintyRequest{Template: sc, Realizations: 10}, Options{}); !errors.Is(err, context.Canceled) {
+	if _, err := RunUncertainty(ctx, UncertaintyRequest{Template: sc, Realizations: 10}, plume.Options{}); !errors.Is(err, context.Canceled) {
 		t.Errorf("cancelled: err %v", err)
 	}
 }
@@ -196,10 +173,10 @@ func TestUncertainRefusals(t *testing.T) {
 // Every number of a result is finite, also with a far receptor and early times.
 func TestUncertainFinite(t *testing.T) {
 	sc := uncertainDemo()
-	sc.Receptors = append(sc.Receptors, Receptor{ID: "far", X: f(5000), Y: f(0), Z: f(0)}, Receptor{ID: "up", X: f(-50), Y: f(0)})
+	sc.Receptors = append(sc.Receptors, plume.Receptor{ID: "far", X: f(5000), Y: f(0), Z: f(0)}, plume.Receptor{ID: "up", X: f(-50), Y: f(0)})
 	sc.Times = []float64{0, 1e-6, 365}
 	r, err := RunUncertainty(context.Background(), UncertaintyRequest{Template: sc, Realizations: 30, Seed: 1, Methods: []string{"exact", "domenico"},
-		Parameters: []UncertainParameter{{Path: "aquifer.seepage_velocity", Dist: Distribution{Kind: DistLognormal, P05: 0.01, P95: 5}}}}, Options{})
+		Parameters: []UncertainParameter{{Param: param(t, "aquifer.seepage_velocity"), Dist: Distribution{Kind: DistLognormal, P05: 0.01, P95: 5}}}}, plume.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -217,13 +194,13 @@ func TestUncertainFinite(t *testing.T) {
 func BenchmarkUncertaintyDemo(b *testing.B) {
 	sc := uncertainDemo()
 	params := []UncertainParameter{
-		{Path: "aquifer.hydraulic_conductivity", Dist: Distribution{Kind: DistLognormal, P05: 3, P95: 25}},
-		{Path: "contaminant.half_life", Dist: Distribution{Kind: DistTriangular, Min: 200, Mode: 720, Max: 1500}},
-		{Path: "aquifer.dispersivity.longitudinal", Dist: Distribution{Kind: DistLogUniform, Min: 3, Max: 30}},
-		{Path: "source.concentration", Dist: Distribution{Kind: DistUniform, Min: 8, Max: 16}},
+		{Param: param(b, "aquifer.hydraulic_conductivity"), Dist: Distribution{Kind: DistLognormal, P05: 3, P95: 25}},
+		{Param: param(b, "contaminant.half_life"), Dist: Distribution{Kind: DistTriangular, Min: 200, Mode: 720, Max: 1500}},
+		{Param: param(b, "aquifer.dispersivity.longitudinal"), Dist: Distribution{Kind: DistLogUniform, Min: 3, Max: 30}},
+		{Param: param(b, "source.concentration"), Dist: Distribution{Kind: DistUniform, Min: 8, Max: 16}},
 	}
 	for b.Loop() {
-		if _, err := RunUncertainty(context.Background(), UncertaintyRequest{Template: sc, Parameters: params, Realizations: 1000, Seed: 7}, Options{}); err != nil {
+		if _, err := RunUncertainty(context.Background(), UncertaintyRequest{Template: sc, Parameters: params, Realizations: 1000, Seed: 7}, plume.Options{}); err != nil {
 			b.Fatal(err)
 		}
 	}

@@ -1,4 +1,4 @@
-package plume
+package uncertainty
 
 import (
 	"encoding/json"
@@ -31,7 +31,7 @@ type uncertaintyReference struct {
 
 func loadUncertaintyReference(t *testing.T) uncertaintyReference {
 	t.Helper()
-	b, err := os.ReadFile("../testdata/reference/uncertainty_reference.json")
+	b, err := os.ReadFile("../../testdata/reference/uncertainty_reference.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -42,12 +42,20 @@ func loadUncertaintyReference(t *testing.T) uncertaintyReference {
 	return ref
 }
 
+// parseDist decodes a distribution object of the reference file.
 func parseDist(t *testing.T, spec map[string]any) Distribution {
 	t.Helper()
-	var mal, inv FieldErrors
-	d, ok := parseDistribution("x", spec, &mal, &inv)
-	if !ok {
-		t.Fatalf("parse %v: %v %v", spec, mal, inv)
+	b, err := json.Marshal(spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var d Distribution
+	if err := json.Unmarshal(b, &d); err != nil {
+		t.Fatal(err)
+	}
+	sort.Float64s(d.Values)
+	if member, msg := d.Check(); member != "" {
+		t.Fatalf("parse %v: %s %s", spec, member, msg)
 	}
 	return d
 }
@@ -85,9 +93,9 @@ func TestSamplingLatinHypercubeMarginals(t *testing.T) {
 	const n = 2000
 	var params []UncertainParameter
 	for _, rd := range ref.Distributions {
-		params = append(params, UncertainParameter{Path: rd.Name, Dist: parseDist(t, rd.Spec)})
+		params = append(params, UncertainParameter{Dist: parseDist(t, rd.Spec)})
 	}
-	params = append(params, UncertainParameter{Path: "empirical", Dist: Distribution{Kind: DistEmpirical, Values: []float64{1, 2, 2, 7}}})
+	params = append(params, UncertainParameter{Dist: Distribution{Kind: DistEmpirical, Values: []float64{1, 2, 2, 7}}})
 	s := SampleLatinHypercube(params, n, 42)
 	if len(s) != n {
 		t.Fatalf("%d rows", len(s))
@@ -138,8 +146,8 @@ func TestSamplingLatinHypercubeMarginals(t *testing.T) {
 // A seed reproduces a sample bit for bit; another seed gives another sample.
 func TestSamplingReproducible(t *testing.T) {
 	params := []UncertainParameter{
-		{Path: "a", Dist: Distribution{Kind: DistLognormal, P05: 2, P95: 40}},
-		{Path: "b", Dist: Distribution{Kind: DistUniform, Min: 0, Max: 1}},
+		{Dist: Distribution{Kind: DistLognormal, P05: 2, P95: 40}},
+		{Dist: Distribution{Kind: DistUniform, Min: 0, Max: 1}},
 	}
 	a := SampleLatinHypercube(params, 500, 7)
 	b := SampleLatinHypercube(params, 500, 7)
@@ -195,47 +203,5 @@ func TestSamplingRanks(t *testing.T) {
 	}
 	if rho := spearman(ranks(x), ranks([]float64{4, 4, 4, 4, 4})); rho != 0 {
 		t.Errorf("constant: rho %g, want 0", rho)
-	}
-}
-
-// Distribution objects: every bad member is named by its path.
-func TestSamplingDistributionErrors(t *testing.T) {
-	cases := []struct {
-		name      string
-		spec      map[string]any
-		field     string
-		malformed bool
-	}{
-		{"unknown kind", map[string]any{"distribution": "gamma"}, "x.distribution", false},
-		{"kind not string", map[string]any{"distribution": 3.0}, "x.distribution", true},
-		{"lognormal p95 below p05", map[string]any{"distribution": "lognormal", "p05": 5.0, "p95": 2.0}, "x.p95", false},
-		{"lognormal p05 zero", map[string]any{"distribution": "lognormal", "p05": 0.0, "p95": 2.0}, "x.p05", false},
-		{"lognormal missing p95", map[string]any{"distribution": "lognormal", "p05": 1.0}, "x.p95", false},
-		{"uniform string", map[string]any{"distribution": "uniform", "min": "1", "max": 2.0}, "x.min", true},
-		{"uniform reversed", map[string]any{"distribution": "uniform", "min": 3.0, "max": 2.0}, "x.max", false},
-		{"loguniform zero", map[string]any{"distribution": "loguniform", "min": 0.0, "max": 2.0}, "x.min", false},
-		{"triangular mode outside", map[string]any{"distribution": "triangular", "min": 1.0, "mode": 9.0, "max": 5.0}, "x.mode", false},
-		{"empirical one value", map[string]any{"distribution": "empirical", "values": []any{1.0}}, "x.values", false},
-		{"empirical string value", map[string]any{"distribution": "empirical", "values": []any{1.0, "NaN"}}, "x.values[1]", true},
-		{"unknown member", map[string]any{"distribution": "uniform", "min": 1.0, "max": 2.0, "mean": 1.5}, "x.mean", false},
-	}
-	for _, tc := range cases {
-		t.Run(tc.name, func(t *testing.T) {
-			var mal, inv FieldErrors
-			if _, ok := parseDistribution("x", tc.spec, &mal, &inv); ok {
-				t.Fatal("accepted")
-			}
-			list := inv
-			if tc.malformed {
-				list = mal
-			}
-			found := false
-			for _, e := range list {
-				found = found || e.Field == tc.field
-			}
-			if !found {
-				t.Errorf("want %s in malformed=%v; got malformed %v invalid %v", tc.field, tc.malformed, mal, inv)
-			}
-		})
 	}
 }

@@ -1,4 +1,4 @@
-package plume
+package contour
 
 import (
 	"math"

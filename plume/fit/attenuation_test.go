@@ -1,10 +1,11 @@
-package plume
+package fit
 
 import (
 	"context"
-	"errors"
 	"math"
 	"testing"
+
+	"downgradient/plume"
 )
 
 // Buscheck & Alcantar (1995), in Hinchee, Wilson & Downey (eds.), Intrinsic
@@ -49,31 +50,31 @@ func TestAttenuationBuscheckAlcantarIdentity(t *testing.T) {
 }
 
 // column1D is a 1D column scenario (Ogata-Banks, first-type inlet), invented numbers.
-func column1D(halfLife float64) Scenario {
-	return Scenario{
-		Aquifer:     Aquifer{SeepageVelocity: f(0.3), Dispersivity: &Dispersivity{Longitudinal: f(5), Transverse: f(0.5), Vertical: f(0.05)}},
-		Contaminant: Contaminant{Name: "test compound", Retardation: f(1.5), HalfLife: f(halfLife), ScreeningLevel: f(0.005)},
-		Source:      Source{Concentration: f(10)},
-		Receptors:   []Receptor{{ID: "R", X: f(50), Y: f(0)}},
+func column1D(halfLife float64) plume.Scenario {
+	return plume.Scenario{
+		Aquifer:     plume.Aquifer{SeepageVelocity: f(0.3), Dispersivity: &plume.Dispersivity{Longitudinal: f(5), Transverse: f(0.5), Vertical: f(0.05)}},
+		Contaminant: plume.Contaminant{Name: "test compound", Retardation: f(1.5), HalfLife: f(halfLife), ScreeningLevel: f(0.005)},
+		Source:      plume.Source{Concentration: f(10)},
+		Receptors:   []plume.Receptor{{ID: "R", X: f(50), Y: f(0)}},
 		Times:       []float64{20000},
-		Methods:     []string{MethodExact},
+		Methods:     []string{plume.MethodExact},
 	}
 }
 
 // syntheticWells samples the scenario's exact solution at wells on the axis
 // (steady state when time is +Inf, else at that time).
-func syntheticWells(t *testing.T, sc Scenario, xs []float64, time float64) []Observation {
+func syntheticWells(t *testing.T, sc plume.Scenario, xs []float64, time float64) []Observation {
 	t.Helper()
 	s := sc
 	s.Receptors = nil
 	for _, x := range xs {
-		s.Receptors = append(s.Receptors, Receptor{X: f(x), Y: f(0)})
+		s.Receptors = append(s.Receptors, plume.Receptor{X: f(x), Y: f(0)})
 	}
 	s.Times = []float64{}
 	if !math.IsInf(time, 1) {
 		s.Times = []float64{time}
 	}
-	res, err := Screen(context.Background(), s, Options{})
+	res, err := plume.Screen(context.Background(), s, plume.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -116,7 +117,7 @@ func TestAttenuationRecoversDecayRate(t *testing.T) {
 			if !math.IsInf(c.time, 1) {
 				req.Time = f(c.time)
 			}
-			res, err := Attenuation(req)
+			res, err := Attenuation(context.Background(), req)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -145,7 +146,7 @@ func TestAttenuationRecoversDecayRate(t *testing.T) {
 func TestAttenuationCensoredAndOffAxis(t *testing.T) {
 	sc := column1D(400)
 	obs := syntheticWells(t, sc, []float64{10, 40, 80, 130}, math.Inf(1))
-	base, err := Attenuation(AttenuationRequest{Scenario: sc, Observations: obs})
+	base, err := Attenuation(context.Background(), AttenuationRequest{Scenario: sc, Observations: obs})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -155,7 +156,7 @@ func TestAttenuationCensoredAndOffAxis(t *testing.T) {
 		Observation{WellID: "ND-ok", X: f(300), Y: f(0), Detected: &nd, DetectionLimit: f(1)},     // consistent
 		Observation{WellID: "off-axis", X: f(50), Y: f(60), Concentration: f(5)},
 	)
-	res, err := Attenuation(AttenuationRequest{Scenario: sc, Observations: obs})
+	res, err := Attenuation(context.Background(), AttenuationRequest{Scenario: sc, Observations: obs})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -185,13 +186,13 @@ func TestAttenuationCensoredAndOffAxis(t *testing.T) {
 func TestAttenuationFewWells(t *testing.T) {
 	sc := column1D(400)
 	one := syntheticWells(t, sc, []float64{40}, math.Inf(1))
-	_, err := Attenuation(AttenuationRequest{Scenario: sc, Observations: one})
-	var fe FieldErrors
-	if !errors.As(err, &fe) || fe[0].Field != "observations" {
+	_, err := Attenuation(context.Background(), AttenuationRequest{Scenario: sc, Observations: one})
+	fe := plume.FieldsOf(err)
+	if len(fe) == 0 || fe[0].Field != "observations" {
 		t.Fatalf("err %v", err)
 	}
 	two := syntheticWells(t, sc, []float64{40, 90}, math.Inf(1))
-	res, err := Attenuation(AttenuationRequest{Scenario: sc, Observations: two})
+	res, err := Attenuation(context.Background(), AttenuationRequest{Scenario: sc, Observations: two})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -206,8 +207,8 @@ func TestAttenuationFewWells(t *testing.T) {
 		t.Error("no few_centreline_wells caveat")
 	}
 	// A round with no samples is refused naming time... by the observations check.
-	_, err = Attenuation(AttenuationRequest{Scenario: sc, Observations: two, Time: f(100)})
-	if !errors.As(err, &fe) {
+	_, err = Attenuation(context.Background(), AttenuationRequest{Scenario: sc, Observations: two, Time: f(100)})
+	if len(plume.FieldsOf(err)) == 0 {
 		t.Errorf("missing times: err %v", err)
 	}
 }

@@ -1,4 +1,4 @@
-package plume
+package maps
 
 import (
 	"context"
@@ -7,20 +7,21 @@ import (
 	"os"
 	"testing"
 
-	"downgradient/analytic"
-
 	"github.com/paulmach/orb"
+
+	"downgradient/analytic"
+	"downgradient/plume"
 )
 
 // demoSiteScenario is the invented demo scenario of testdata/demo.
-func demoSiteScenario(t testing.TB) Scenario {
+func demoSiteScenario(t testing.TB) plume.Scenario {
 	t.Helper()
-	b, err := os.ReadFile("../testdata/demo/scenario.json")
+	b, err := os.ReadFile("../../testdata/demo/scenario.json")
 	if err != nil {
 		t.Fatal(err)
 	}
 	var body struct {
-		Scenario
+		plume.Scenario
 		Description string `json:"description"`
 	}
 	if err := json.Unmarshal(b, &body); err != nil {
@@ -44,15 +45,15 @@ type plumeLengthCase struct {
 	SteadyAtHalf    float64    `json:"steady_at_half_length"`
 }
 
-func (c plumeLengthCase) scenario() Scenario {
+func (c plumeLengthCase) scenario() plume.Scenario {
 	f := func(v float64) *float64 { return &v }
-	return Scenario{
-		Aquifer: Aquifer{SeepageVelocity: f(c.SeepageVelocity),
-			Dispersivity: &Dispersivity{f(c.Dispersivity[0]), f(c.Dispersivity[1]), f(c.Dispersivity[2])}},
-		Contaminant: Contaminant{Retardation: f(c.Retardation), HalfLife: c.HalfLife, ScreeningLevel: f(c.ScreeningLevel)},
-		Source:      Source{Concentration: f(c.Concentration), Width: f(c.Width), Depth: f(c.Depth)},
-		Receptors:   []Receptor{{X: f(100), Y: f(0)}},
-		Methods:     []string{MethodExact},
+	return plume.Scenario{
+		Aquifer: plume.Aquifer{SeepageVelocity: f(c.SeepageVelocity),
+			Dispersivity: &plume.Dispersivity{Longitudinal: f(c.Dispersivity[0]), Transverse: f(c.Dispersivity[1]), Vertical: f(c.Dispersivity[2])}},
+		Contaminant: plume.Contaminant{Retardation: f(c.Retardation), HalfLife: c.HalfLife, ScreeningLevel: f(c.ScreeningLevel)},
+		Source:      plume.Source{Concentration: f(c.Concentration), Width: f(c.Width), Depth: f(c.Depth)},
+		Receptors:   []plume.Receptor{{X: f(100), Y: f(0)}},
+		Methods:     []string{plume.MethodExact},
 	}
 }
 
@@ -62,7 +63,7 @@ func (c plumeLengthCase) scenario() Scenario {
 // (testdata/reference/gen_plume_length.py -> plume_length.json), and
 // against bisection here on analytic.Exact3D values.
 func TestSteadyPlumeLength(t *testing.T) {
-	b, err := os.ReadFile("../testdata/reference/plume_length.json")
+	b, err := os.ReadFile("../../testdata/reference/plume_length.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -78,7 +79,7 @@ func TestSteadyPlumeLength(t *testing.T) {
 	for _, c := range ref.Cases {
 		t.Run(c.Name, func(t *testing.T) {
 			cells := 400
-			mp, err := PlumeMap(context.Background(), c.scenario(), MapOptions{Depth: &c.Z, Cells: &cells}, Options{})
+			mp, err := PlumeMap(context.Background(), c.scenario(), MapOptions{Depth: &c.Z, Cells: &cells}, plume.Options{})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -127,7 +128,7 @@ func TestSteadyPlumeLength(t *testing.T) {
 // lower one), and whose outer rings are counter-clockwise.
 func TestPlumeMapDemo(t *testing.T) {
 	sc := demoSiteScenario(t)
-	mp, err := PlumeMap(context.Background(), sc, MapOptions{}, Options{})
+	mp, err := PlumeMap(context.Background(), sc, MapOptions{}, plume.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -169,7 +170,7 @@ func TestPlumeMapDemo(t *testing.T) {
 		t.Errorf("width %g, length %g", o.Width, o.Length)
 	}
 	// A section along the centreline: depth grows downwards from 0.
-	sec, err := PlumeMap(context.Background(), sc, MapOptions{View: ViewSection}, Options{})
+	sec, err := PlumeMap(context.Background(), sc, MapOptions{View: ViewSection}, plume.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -228,15 +229,14 @@ func TestPlumeMapBadInput(t *testing.T) {
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
-			_, err := PlumeMap(context.Background(), sc, tc.mo, Options{})
+			_, err := PlumeMap(context.Background(), sc, tc.mo, plume.Options{})
 			if err == nil {
 				t.Fatal("no error")
 			}
-			var fields FieldErrors
-			if tc.over {
-				fields = OverLimitFields(err)
-			} else {
-				fields, _ = err.(FieldErrors)
+			e, _ := plume.AsError(err)
+			var fields plume.FieldErrors
+			if e != nil && (e.Kind == plume.KindOverLimit) == tc.over {
+				fields = e.Fields
 			}
 			found := false
 			for _, f := range fields {
@@ -250,8 +250,8 @@ func TestPlumeMapBadInput(t *testing.T) {
 	// A scenario error is named by its path in the request body.
 	bad := sc
 	bad.Receptors = nil
-	_, err := PlumeMap(context.Background(), bad, MapOptions{}, Options{})
-	if fe, ok := err.(FieldErrors); !ok || fe[0].Field != "scenario.receptors" {
+	_, err := PlumeMap(context.Background(), bad, MapOptions{}, plume.Options{})
+	if fe := plume.FieldsOf(err); len(fe) == 0 || fe[0].Field != "scenario.receptors" {
 		t.Errorf("scenario error %v", err)
 	}
 }
@@ -263,7 +263,7 @@ func BenchmarkPlumeMapDemo(b *testing.B) {
 	sc := demoSiteScenario(b)
 	sp := 3.0
 	mo := MapOptions{Spacing: &sp, Extent: &Extent{XMin: 1200, XMax: 1797, YMin: 600, YMax: 897}}
-	mp, err := PlumeMap(context.Background(), sc, mo, Options{})
+	mp, err := PlumeMap(context.Background(), sc, mo, plume.Options{})
 	if err != nil {
 		b.Fatal(err)
 	}
@@ -272,7 +272,7 @@ func BenchmarkPlumeMapDemo(b *testing.B) {
 	}
 	b.ResetTimer()
 	for b.Loop() {
-		if _, err := PlumeMap(context.Background(), sc, mo, Options{}); err != nil {
+		if _, err := PlumeMap(context.Background(), sc, mo, plume.Options{}); err != nil {
 			b.Fatal(err)
 		}
 	}

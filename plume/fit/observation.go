@@ -1,8 +1,10 @@
-package plume
+package fit
 
 import (
 	"fmt"
 	"math"
+
+	"downgradient/plume"
 )
 
 // MaxObservations is the most monitoring observations one request may hold.
@@ -39,67 +41,70 @@ func (o Observation) detected() bool { return o.Detected == nil || *o.Detected }
 // ValidateObservations checks the observations; needTime requires a time
 // on each. Paths are "observations[i].field".
 func ValidateObservations(obs []Observation, needTime bool) error {
-	var fe FieldErrors
+	var fe plume.FieldErrors
 	if len(obs) == 0 {
-		fe.add("observations", "at least one observation is needed")
+		fe.Add("observations", "at least one observation is needed")
 	}
 	for i, o := range obs {
 		at := func(f string) string { return fmt.Sprintf("observations[%d].%s", i, f) }
 		if o.X == nil {
-			fe.add(at("x"), "required field is missing")
+			fe.Add(at("x"), "required field is missing")
 		}
 		if o.Y == nil {
-			fe.add(at("y"), "required field is missing")
+			fe.Add(at("y"), "required field is missing")
 		}
-		fe.check(at("x"), o.X, anyFinite)
-		fe.check(at("y"), o.Y, anyFinite)
-		fe.check(at("z"), o.Z, nonNegative)
+		fe.Check(at("x"), o.X, plume.AnyFinite)
+		fe.Check(at("y"), o.Y, plume.AnyFinite)
+		fe.Check(at("z"), o.Z, plume.NonNegative)
 		if needTime && o.Time == nil {
-			fe.add(at("time"), "required field is missing: the sampling time, T, on the scenario's clock")
+			fe.Add(at("time"), "required field is missing: the sampling time, T, on the scenario's clock")
 		}
-		fe.check(at("time"), o.Time, nonNegative)
+		fe.Check(at("time"), o.Time, plume.NonNegative)
 		if o.detected() {
 			if o.Concentration == nil {
-				fe.add(at("concentration"), "required for a detect (> 0); for a non-detect set detected: false and give detection_limit")
+				fe.Add(at("concentration"), "required for a detect (> 0); for a non-detect set detected: false and give detection_limit")
 			} else {
-				fe.check(at("concentration"), o.Concentration, positive)
+				fe.Check(at("concentration"), o.Concentration, plume.Positive)
 			}
 		} else {
 			if o.DetectionLimit == nil {
-				fe.add(at("detection_limit"), "required for a non-detect (detected: false): the laboratory's detection limit, C, > 0")
+				fe.Add(at("detection_limit"), "required for a non-detect (detected: false): the laboratory's detection limit, C, > 0")
 			}
 		}
-		fe.check(at("detection_limit"), o.DetectionLimit, positive)
+		fe.Check(at("detection_limit"), o.DetectionLimit, plume.Positive)
 	}
-	return fe.orNil()
+	return fe.Err()
 }
 
 // obsPoint is an observation in canonical units and the plume frame.
 type obsPoint struct {
 	index    int
 	well     string
-	pt       point   // plume-frame point (classified)
-	tau      float64 // elapsed time since the source started, d
-	c        float64 // concentration (detect) or detection limit (non-detect), mg/L
+	pt       plume.Point // plume-frame point (classified)
+	tau      float64     // elapsed time since the source started, d
+	c        float64     // concentration (detect) or detection limit (non-detect), mg/L
 	detected bool
 }
 
-// observationPoints converts observations to the plume frame of pr, in
+// observationPoints converts observations to the plume frame of md, in
 // canonical units; the wells count toward the travel distance of estimated
-// dispersivities only through prepare's extraX.
-func (pr *prepared) observationPoints(obs []Observation) []obsPoint {
+// dispersivities only through PrepareOptions.TravelPlumeX.
+func observationPoints(md *plume.Model, obs []Observation) []obsPoint {
 	out := make([]obsPoint, len(obs))
-	uf := pr.uf
+	uf := md.Factors()
 	for i, o := range obs {
-		r := Receptor{ID: o.WellID, X: scaled(o.X, uf.L), Y: scaled(o.Y, uf.L), Z: scaled(o.Z, uf.L)}
-		p := pr.pointAt(r, i)
-		if p.id == fmt.Sprintf("R%d", i+1) && o.WellID == "" {
-			p.id = fmt.Sprintf("observation %d", i+1)
+		id := o.WellID
+		if id == "" {
+			id = fmt.Sprintf("observation %d", i+1)
 		}
-		pr.m.classify(&p)
-		op := obsPoint{index: i, well: p.id, pt: p, detected: o.detected(), tau: math.Inf(1)}
+		z := 0.0
+		if o.Z != nil {
+			z = *o.Z * uf.L
+		}
+		p := md.LocateSite(id, *o.X*uf.L, *o.Y*uf.L, z)
+		op := obsPoint{index: i, well: p.ID, pt: p, detected: o.detected(), tau: math.Inf(1)}
 		if o.Time != nil {
-			op.tau = *o.Time*uf.T - pr.m.start
+			op.tau = md.Elapsed(*o.Time)
 		}
 		if op.detected {
 			op.c = *o.Concentration * uf.C
@@ -113,18 +118,38 @@ func (pr *prepared) observationPoints(obs []Observation) []obsPoint {
 
 // wellPlumeX returns the plume-frame x, m, of each observation, for the
 // travel distance of an estimated dispersivity.
-func wellPlumeX(sc Scenario, obs []Observation) []float64 {
-	f, ok := sc.Units.factors()
-	if !ok {
-		return nil
-	}
-	fr := frameOf(toCanonical(sc).Source)
+func wellPlumeX(sc plume.Scenario, obs []Observation) []float64 {
 	var xs []float64
 	for _, o := range obs {
-		if o.X != nil && o.Y != nil && finite(*o.X) && finite(*o.Y) {
-			px, _ := fr.ToPlume(*o.X*f.L, *o.Y*f.L)
-			xs = append(xs, px)
+		if o.X != nil && o.Y != nil && plume.Finite(*o.X) && plume.Finite(*o.Y) {
+			if px, _, ok := plume.SiteToPlume(sc, *o.X, *o.Y); ok {
+				xs = append(xs, px)
+			}
 		}
 	}
 	return xs
+}
+
+// WellReceptors returns one receptor per observed well, at the first
+// position given for its well_id (an observation without an id is its own
+// well, "observation <i+1>"), at most limit of them, for a scenario that
+// gives no receptors of its own.
+func WellReceptors(obs []Observation, limit int) []plume.Receptor {
+	seen := map[string]bool{}
+	var rs []plume.Receptor
+	for i, o := range obs {
+		if o.X == nil || o.Y == nil {
+			continue
+		}
+		id := o.WellID
+		if id == "" {
+			id = fmt.Sprintf("observation %d", i+1)
+		}
+		if seen[id] || len(rs) >= limit {
+			continue
+		}
+		seen[id] = true
+		rs = append(rs, plume.Receptor{ID: id, X: o.X, Y: o.Y, Z: o.Z})
+	}
+	return rs
 }

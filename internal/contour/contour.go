@@ -1,4 +1,7 @@
-package plume
+// Package contour draws the outlines of a level on a regular grid (marching
+// squares) as RFC 7946 polygons; no kept Go library offers contouring to
+// polygons with holes, so this is our own.
+package contour
 
 import (
 	"math"

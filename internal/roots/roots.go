@@ -1,13 +1,19 @@
-package plume
+// Package roots holds the two scalar searches the screening needs and that
+// gonum does not offer: a bracketed root (Brent 1973) and a bracketed
+// maximum (golden-section search). gonum's optimize package minimises
+// multivariate functions (its Nelder-Mead is used by the calibration) but
+// has no bracketed scalar root finder and no bounded one-dimensional
+// maximiser.
+package roots
 
 import "math"
 
-// brentRoot returns x in [a, b] with g(x) = 0, given fa = g(a) and
+// Brent returns x in [a, b] with g(x) = 0, given fa = g(a) and
 // fb = g(b) of opposite signs (or one of them zero), to within tol in x
 // (plus a few ulps of x). Brent's method (Brent 1973, Algorithms for
 // Minimization without Derivatives, ch. 4): inverse quadratic
 // interpolation and secant steps safeguarded by bisection.
-func brentRoot(g func(float64) float64, a, b, fa, fb, tol float64, maxIter int) float64 {
+func Brent(g func(float64) float64, a, b, fa, fb, tol float64, maxIter int) float64 {
 	if fa == 0 {
 		return a
 	}
@@ -71,9 +77,9 @@ func brentRoot(g func(float64) float64, a, b, fa, fb, tol float64, maxIter int) 
 	return b
 }
 
-// goldenMax returns the x in [a, b] maximising a unimodal f, to within
+// GoldenMax returns the x in [a, b] maximising a unimodal f, to within
 // relative tolerance rel of x, and f there (golden-section search).
-func goldenMax(f func(float64) float64, a, b, rel float64) (x, fx float64) {
+func GoldenMax(f func(float64) float64, a, b, rel float64) (x, fx float64) {
 	const invPhi = 0.6180339887498949 // (sqrt 5 - 1)/2
 	c := b - invPhi*(b-a)
 	d := a + invPhi*(b-a)

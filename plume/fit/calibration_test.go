@@ -1,39 +1,41 @@
-package plume
+package fit
 
 import (
 	"context"
-	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
 	"testing"
+
+	"downgradient/internal/plumetest"
+	"downgradient/plume"
 )
 
 // calibrationTruth is an invented 3D site (numbers made up) whose exact
 // solution generates the synthetic observations.
-func calibrationTruth() Scenario {
-	return Scenario{
-		Aquifer:     Aquifer{SeepageVelocity: f(0.12), Dispersivity: &Dispersivity{Longitudinal: f(10), Transverse: f(1), Vertical: f(0.1)}},
-		Contaminant: Contaminant{Name: "benzene", Retardation: f(1.37), HalfLife: f(720), ScreeningLevel: f(0.005)},
-		Source:      Source{Concentration: f(12), Width: f(15), Depth: f(3)},
-		Receptors:   []Receptor{{ID: "W-4", X: f(210), Y: f(6), Z: f(2)}},
+func calibrationTruth() plume.Scenario {
+	return plume.Scenario{
+		Aquifer:     plume.Aquifer{SeepageVelocity: f(0.12), Dispersivity: &plume.Dispersivity{Longitudinal: f(10), Transverse: f(1), Vertical: f(0.1)}},
+		Contaminant: plume.Contaminant{Name: "benzene", Retardation: f(1.37), HalfLife: f(720), ScreeningLevel: f(0.005)},
+		Source:      plume.Source{Concentration: f(12), Width: f(15), Depth: f(3)},
+		Receptors:   []plume.Receptor{{ID: "W-4", X: f(210), Y: f(6), Z: f(2)}},
 		Times:       []float64{3650},
-		Methods:     []string{MethodExact},
+		Methods:     []string{plume.MethodExact},
 	}
 }
 
 // syntheticObservations: 10 wells x 3 rounds from the exact solution of sc,
 // times exp(N(0, sigma^2)) in log10 (seeded, reproducible).
-func syntheticObservations(t testing.TB, sc Scenario, sigma float64) []Observation {
+func syntheticObservations(t testing.TB, sc plume.Scenario, sigma float64) []Observation {
 	t.Helper()
 	rng := rand.New(rand.NewPCG(5, 9))
 	s := sc
 	s.Receptors = nil
 	for i := range 10 {
-		s.Receptors = append(s.Receptors, Receptor{ID: fmt.Sprintf("MW-%d", i+1), X: f(20 + 30*float64(i)), Y: f(float64(i%3) - 1), Z: f(1)})
+		s.Receptors = append(s.Receptors, plume.Receptor{ID: fmt.Sprintf("MW-%d", i+1), X: f(20 + 30*float64(i)), Y: f(float64(i%3) - 1), Z: f(1)})
 	}
 	s.Times = []float64{1000, 2000, 3650}
-	res, err := Screen(context.Background(), s, Options{})
+	res, err := plume.Screen(context.Background(), s, plume.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -59,7 +61,7 @@ func TestCalibrationRecoversParameters(t *testing.T) {
 	start := truth
 	start.Source.Concentration = f(5)
 	start.Contaminant.HalfLife = f(300)
-	start.Aquifer.Dispersivity = &Dispersivity{Longitudinal: f(3), Transverse: f(1), Vertical: f(0.1)}
+	start.Aquifer.Dispersivity = &plume.Dispersivity{Longitudinal: f(3), Transverse: f(1), Vertical: f(0.1)}
 	res, err := Calibrate(context.Background(), CalibrationRequest{Scenario: start, Observations: obs, Fit: calibFit})
 	if err != nil {
 		t.Fatal(err)
@@ -151,8 +153,8 @@ func TestCalibrationUnderdetermined(t *testing.T) {
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := Calibrate(context.Background(), tc.req)
-			var fe FieldErrors
-			if !errors.As(err, &fe) {
+			fe := plume.FieldsOf(err)
+			if len(fe) == 0 {
 				t.Fatalf("err %v, want FieldErrors", err)
 			}
 			found := false
@@ -174,10 +176,13 @@ func BenchmarkCalibration(b *testing.B) {
 	start := truth
 	start.Source.Concentration = f(5)
 	start.Contaminant.HalfLife = f(300)
-	start.Aquifer.Dispersivity = &Dispersivity{Longitudinal: f(3), Transverse: f(1), Vertical: f(0.1)}
+	start.Aquifer.Dispersivity = &plume.Dispersivity{Longitudinal: f(3), Transverse: f(1), Vertical: f(0.1)}
 	for b.Loop() {
 		if _, err := Calibrate(context.Background(), CalibrationRequest{Scenario: start, Observations: obs, Fit: calibFit}); err != nil {
 			b.Fatal(err)
 		}
 	}
 }
+
+// f is a test shorthand for a *float64.
+var f = plumetest.F

@@ -1,4 +1,4 @@
-package plume
+package maps
 
 import (
 	"context"
@@ -13,6 +13,9 @@ import (
 
 	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/planar"
+
+	"downgradient/internal/contour"
+	"downgradient/plume"
 )
 
 // CaveatMapResolution notes that the map grid is coarse next to the source.
@@ -23,29 +26,19 @@ const PlumeLengthMethod = "root of the steady-state exact solution along the cen
 
 // PlumeMap computes a gridded concentration field of a scenario, the
 // outlines of its levels and the steady-state plume length (DESIGN.md
-// section 4b). Validation failures come back as FieldErrors (paths of the
-// request body: "scenario.aquifer...", "levels[0]", "time"); a grid over
-// the limits as an error whose OverBudget() is true (see OverLimitFields);
-// a cancelled ctx as ctx.Err(). The grid is evaluated on all cores.
-func PlumeMap(ctx context.Context, sc Scenario, mo MapOptions, opt Options) (*Map, error) {
-	opt = opt.withDefaults()
-	bad, over := validateMapOptions(mo)
-	if err := Validate(sc); err != nil {
-		if fe, ok := err.(FieldErrors); ok {
-			bad = append(fe.prefixed("scenario."), bad...)
-		} else {
-			return nil, err
-		}
-	}
-	if len(bad) > 0 {
-		return nil, bad.orNil()
-	}
-	if len(over) > 0 {
-		return nil, &mapError{over}
+// section 4b). Validation failures come back as an *plume.Error of kind
+// KindInvalid (paths of the request body: "scenario.aquifer...",
+// "levels[0]", "time"); a grid over the limits as kind KindOverLimit; a
+// cancelled ctx as ctx.Err(). The grid is evaluated on all cores.
+func PlumeMap(ctx context.Context, sc plume.Scenario, mo MapOptions, opt plume.Options) (*Map, error) {
+	opt = opt.WithDefaults()
+	md, err := prepareMap(sc, mo)
+	if err != nil {
+		return nil, err
 	}
 	method := mo.Method
 	if method == "" {
-		method = MethodExact
+		method = plume.MethodExact
 	}
 	view := mo.View
 	if view == "" {
@@ -55,50 +48,81 @@ func PlumeMap(ctx context.Context, sc Scenario, mo MapOptions, opt Options) (*Ma
 	if mo.Time != nil {
 		mt = *mo.Time
 	}
-
 	// Derived parameters and caveats exactly as a screening reports them.
-	ssc := sc
-	ssc.Methods = []string{method}
-	ssc.Times = nil
-	res, err := Screen(ctx, ssc, opt)
+	res, err := md.With([]string{method}, nil).Screen(ctx, opt)
 	if err != nil {
-		if fe, ok := err.(FieldErrors); ok {
-			return nil, fe.prefixed("scenario.")
-		}
 		return nil, err
 	}
-
-	units := sc.Units.withDefaults()
-	uf, _ := units.factors()
-	c := toCanonical(sc)
-	cframe := frameOf(c.Source)
-	maxX := math.Inf(-1)
-	for _, r := range c.Receptors {
-		px, _ := cframe.ToPlume(*r.X, *r.Y)
-		maxX = math.Max(maxX, px)
+	levels, err := mapLevels(md, mo)
+	if err != nil {
+		return nil, err
 	}
-	m := derive(c, maxX)
+	ev := newEvaluator(md, method == plume.MethodExact, mt, mo, view)
+	g, err := ev.grid(ctx, view, mo, levels)
+	if err != nil {
+		return nil, err
+	}
+	out := newMap(md, res, mo, view, mt, method, &ev)
+	uf := md.Factors()
+	// Grid and levels in the request's units.
+	g.X0, g.Y0, g.DX, g.DY = g.X0/uf.L, g.Y0/uf.L, g.DX/uf.L, g.DY/uf.L
+	for i, v := range g.Values {
+		g.Values[i] = plume.Clean(v) / uf.C
+	}
+	out.Grid = g
+	for _, l := range levels {
+		lv := l / uf.C
+		out.Levels = append(out.Levels, lv)
+		out.Outlines = append(out.Outlines, outlineOf(&g, lv, view, out.Frame))
+	}
+	out.addLengthAndCaveats(md, &ev, &g)
+	return out, nil
+}
 
-	// Levels, canonical.
+// prepareMap validates the map options and the scenario together (every
+// bad field at once) and prepares the scenario.
+func prepareMap(sc plume.Scenario, mo MapOptions) (*plume.Model, error) {
+	bad, over := validateMapOptions(mo)
+	md, err := plume.Prepare(sc, plume.PrepareOptions{})
+	if err != nil {
+		if e, ok := plume.AsError(err); ok && e.Kind == plume.KindInvalid {
+			bad = append(e.Fields.Prefixed("scenario."), bad...)
+		} else {
+			return nil, err
+		}
+	}
+	if len(bad) > 0 {
+		return nil, bad.Err()
+	}
+	if len(over) > 0 {
+		return nil, over.OverLimit("the map is over the limits")
+	}
+	return md, nil
+}
+
+// mapLevels are the outline levels, canonical: the given ones, else the
+// screening level and 10 and 100 times it.
+func mapLevels(md *plume.Model, mo MapOptions) ([]float64, error) {
+	uf := md.Factors()
 	var levels []float64
 	if len(mo.Levels) > 0 {
 		for _, l := range mo.Levels {
 			levels = append(levels, l*uf.C)
 		}
-	} else if m.screening != nil {
-		s := *m.screening
+	} else if s, ok := md.ScreeningLevel(); ok {
 		levels = []float64{s, 10 * s, 100 * s}
 	} else {
-		return nil, FieldErrors{{Field: "levels", Message: "no screening level is known (give scenario.contaminant.screening_level or a compound of the reference table), so give the levels"}}
+		return nil, plume.Invalid("levels", "no screening level is known (give scenario.contaminant.screening_level or a compound of the reference table), so give the levels")
 	}
-	lowest := math.Inf(1)
-	for _, l := range levels {
-		lowest = math.Min(lowest, l)
-	}
+	return levels, nil
+}
 
-	ev := mapEvaluator{m: m, exact: method == MethodExact, tau: math.Inf(1)}
+// newEvaluator sets the method, time and depths of a map.
+func newEvaluator(md *plume.Model, exact bool, mt MapTime, mo MapOptions, view string) mapEvaluator {
+	uf := md.Factors()
+	ev := mapEvaluator{md: md, exact: exact, tau: math.Inf(1)}
 	if !mt.Steady {
-		ev.tau = mt.Value*uf.T - m.start
+		ev.tau = md.Elapsed(mt.Value)
 	}
 	if mo.Depth != nil {
 		ev.top = *mo.Depth * uf.L
@@ -107,39 +131,55 @@ func PlumeMap(ctx context.Context, sc Scenario, mo MapOptions, opt Options) (*Ma
 	if mo.DepthBottom != nil && view == ViewPlan {
 		ev.bot = *mo.DepthBottom * uf.L
 	}
+	return ev
+}
 
-	var g Grid
+// grid lays out the nodes (the given extent, or one around the plume
+// above the lowest level) and fills them, canonical units.
+func (ev *mapEvaluator) grid(ctx context.Context, view string, mo MapOptions, levels []float64) (contour.Grid, error) {
+	uf := ev.md.Factors()
+	lowest := math.Inf(1)
+	for _, l := range levels {
+		lowest = math.Min(lowest, l)
+	}
+	var g contour.Grid
+	var err error
 	if mo.Extent != nil {
 		e := *mo.Extent
 		e = Extent{e.XMin * uf.L, e.XMax * uf.L, e.YMin * uf.L, e.YMax * uf.L}
 		g, err = layout(e, view, mo, uf)
 	} else {
-		g, err = layout(ev.autoExtent(ctx, view, cframe, c, lowest), view, mo, uf)
+		g, err = layout(ev.autoExtent(ctx, view, lowest), view, mo, uf)
 	}
 	if err != nil {
-		return nil, err
+		return contour.Grid{}, err
 	}
-	if err := ev.fill(ctx, &g, view, cframe); err != nil {
-		return nil, err
+	if err := ev.fill(ctx, &g, view, ev.md.Frame()); err != nil {
+		return contour.Grid{}, err
 	}
+	return g, nil
+}
 
+// newMap fills the map's description from the model and the screening res.
+func newMap(md *plume.Model, res *plume.Result, mo MapOptions, view string, mt MapTime, method string, ev *mapEvaluator) *Map {
+	uf, sc := md.Factors(), md.Scenario()
 	out := &Map{
-		Engine:    Engine{Version: opt.EngineVersion, InputSHA256: mapInputSHA256(sc, mo)},
-		Units:     units,
+		Engine:    plume.Engine{Version: res.Engine.Version, InputSHA256: mapInputSHA256(sc, mo)},
+		Units:     md.Units(),
 		View:      view,
 		Time:      mt,
 		Depth:     ev.top / uf.L,
 		Method:    method,
 		Derived:   res.Derived,
 		Caveats:   res.Caveats,
-		Frame:     frameOf(sc.Source),
+		Frame:     md.SiteFrame(),
 		Receptors: make([]MapPoint, len(res.Receptors)),
 	}
 	if mo.DepthBottom != nil && view == ViewPlan {
-		out.DepthBottom = ptr(ev.bot / uf.L)
+		out.DepthBottom = plume.Ptr(ev.bot / uf.L)
 	}
-	if m.kind == SourceKind3D {
-		out.SourceWidth = m.width / uf.L
+	if src := md.SourceTerm(); src.Kind == plume.SourceKind3D {
+		out.SourceWidth = src.Width / uf.L
 	}
 	for i, rr := range res.Receptors {
 		if view == ViewSection {
@@ -148,38 +188,30 @@ func PlumeMap(ctx context.Context, sc Scenario, mo MapOptions, opt Options) (*Ma
 			out.Receptors[i] = MapPoint{ID: rr.ID, X: *sc.Receptors[i].X, Y: *sc.Receptors[i].Y}
 		}
 	}
+	return out
+}
 
-	// Grid and levels in the request's units.
-	g.X0, g.Y0, g.DX, g.DY = g.X0/uf.L, g.Y0/uf.L, g.DX/uf.L, g.DY/uf.L
-	for i, v := range g.Values {
-		g.Values[i] = clean(v) / uf.C
-	}
-	out.Grid = g
-	for _, l := range levels {
-		lv := l / uf.C
-		out.Levels = append(out.Levels, lv)
-		out.Outlines = append(out.Outlines, outlineOf(&g, lv, view, out.Frame))
-	}
-
-	if m.screening != nil {
-		pl := &PlumeLength{Level: *m.screening / uf.C, Depth: ev.top / uf.L, Method: PlumeLengthMethod}
-		if L, ok := ev.steadyLength(*m.screening); ok {
-			pl.Length = ptr(L / uf.L)
+// addLengthAndCaveats adds the steady plume length and the resolution note.
+func (out *Map) addLengthAndCaveats(md *plume.Model, ev *mapEvaluator, g *contour.Grid) {
+	uf, units, src := md.Factors(), md.Units(), md.SourceTerm()
+	if s, ok := md.ScreeningLevel(); ok {
+		pl := &PlumeLength{Level: s / uf.C, Depth: ev.top / uf.L, Method: PlumeLengthMethod}
+		if L, ok := ev.steadyLength(s); ok {
+			pl.Length = plume.Ptr(L / uf.L)
 		}
 		out.SteadyPlumeLength = pl
 	}
-	if w := m.width; m.kind == SourceKind3D && math.Max(g.DX, g.DY)*uf.L > w/2 {
-		out.Caveats = append(out.Caveats, Caveat{Code: CaveatMapResolution, Severity: SeverityNote, Message: fmt.Sprintf(
+	if w := src.Width; src.Kind == plume.SourceKind3D && math.Max(g.DX, g.DY)*uf.L > w/2 {
+		out.Caveats = append(out.Caveats, plume.Caveat{Code: CaveatMapResolution, Severity: plume.SeverityNote, Message: fmt.Sprintf(
 			"The map's nodes are %.4g %s apart, more than half the source width (%.4g %s): outlines are interpolated between nodes, so features narrower than about two node spacings are smoothed. Ask for more cells or a smaller extent for detail.",
 			math.Max(g.DX, g.DY), units.Length, w/uf.L, units.Length)})
 	}
-	return out, nil
 }
 
 // mapInputSHA256 hashes the canonical JSON of the scenario and the map options.
-func mapInputSHA256(sc Scenario, mo MapOptions) string {
+func mapInputSHA256(sc plume.Scenario, mo MapOptions) string {
 	b, err := json.Marshal(struct {
-		Scenario Scenario `json:"scenario"`
+		Scenario plume.Scenario `json:"scenario"`
 		MapOptions
 	}{sc, mo})
 	if err != nil {
@@ -191,30 +223,36 @@ func mapInputSHA256(sc Scenario, mo MapOptions) string {
 
 // mapEvaluator evaluates the chosen closed form, canonical units.
 type mapEvaluator struct {
-	m        *model
+	md       *plume.Model
 	exact    bool
 	tau      float64 // elapsed time since the source started, d (+Inf: steady)
 	top, bot float64 // depth interval of a plan view, m
 }
 
+// method is the evaluator's method name.
+func (ev *mapEvaluator) method() string {
+	if ev.exact {
+		return plume.MethodExact
+	}
+	return plume.MethodDomenico
+}
+
 // at is the concentration at plume-frame (px, py) over depths [top, bot], mg/L.
 func (ev *mapEvaluator) at(px, py, top, bot float64) float64 {
-	p := point{px: px, py: py, top: top, bot: bot, screen: bot > top}
-	ev.m.classify(&p)
-	return ev.m.closedForm(ev.exact, p, ev.tau)
+	return ev.md.Value(ev.method(), ev.md.Locate(px, py, top, bot), ev.tau)
 }
 
 // steadyLength finds the centreline distance where the steady-state exact
 // concentration falls to level, m; ok false when it does not within
 // MaxPlumeLength or the source is not constant and continuous.
 func (ev *mapEvaluator) steadyLength(level float64) (float64, bool) {
-	m := ev.m
-	if !m.continuous() {
+	md := ev.md
+	if !md.SourceTerm().Continuous {
 		return 0, false
 	}
 	f := func(x float64) float64 {
-		p := point{px: x, top: ev.top, bot: ev.bot, screen: ev.bot > ev.top}
-		return m.closedForm(true, p, math.Inf(1)) - level
+		p := plume.Point{X: x, Top: ev.top, Bottom: ev.bot, Screen: ev.bot > ev.top}
+		return md.Value(plume.MethodExact, p, math.Inf(1)) - level
 	}
 	lo := 1e-6
 	if f(lo) < 0 {
@@ -245,8 +283,8 @@ func (ev *mapEvaluator) steadyLength(level float64) (float64, bool) {
 // autoExtent is the default extent, canonical: the region above the lowest
 // level (found along the centreline and across it), the source and the
 // receptors, with margins. Plan: site x, y; section: plume_x, depth.
-func (ev *mapEvaluator) autoExtent(ctx context.Context, view string, fr Frame, c Scenario, lowest float64) Extent {
-	m := ev.m
+func (ev *mapEvaluator) autoExtent(ctx context.Context, view string, lowest float64) Extent {
+	src, fr := ev.md.SourceTerm(), ev.md.Frame()
 	top, bot := ev.top, ev.bot
 	if view == ViewSection {
 		top, bot = 0, 0
@@ -260,8 +298,8 @@ func (ev *mapEvaluator) autoExtent(ctx context.Context, view string, fr Frame, c
 		}
 	}
 	w := 0.0
-	if m.kind == SourceKind3D {
-		w = m.width
+	if src.Kind == plume.SourceKind3D {
+		w = src.Width
 	}
 	pad := math.Max(math.Max(w, 0.05*reach), 2)
 	// Half-width (plan) or depth reach (section) at stations along the plume.
@@ -294,8 +332,8 @@ func (ev *mapEvaluator) autoExtent(ctx context.Context, view string, fr Frame, c
 	}
 	if view == ViewSection {
 		zmax := math.Max(spread*1.15, 1)
-		if m.kind == SourceKind3D {
-			zmax = math.Max(zmax, 1.5*m.depth)
+		if src.Kind == plume.SourceKind3D {
+			zmax = math.Max(zmax, 1.5*src.Depth)
 		}
 		xmax := math.Max(reach*1.05+pad, 10*pad)
 		return Extent{XMin: -pad, XMax: xmax, YMin: 0, YMax: zmax}
@@ -307,7 +345,7 @@ func (ev *mapEvaluator) autoExtent(ctx context.Context, view string, fr Frame, c
 		x, y := fr.ToSite(pc[0], pc[1])
 		b = b.Extend(orb.Point{x, y})
 	}
-	for _, r := range c.Receptors {
+	for _, r := range ev.md.Canonical().Receptors {
 		b = b.Extend(orb.Point{*r.X, *r.Y})
 	}
 	mx := 0.04 * math.Max(b.Max[0]-b.Min[0], b.Max[1]-b.Min[1])
@@ -317,7 +355,7 @@ func (ev *mapEvaluator) autoExtent(ctx context.Context, view string, fr Frame, c
 // niceStep rounds a spacing up to 1, 1.2, 1.5, 2, 2.5, 3, 4, 5, 6 or 8 times
 // a power of ten, so that grid coordinates are round numbers.
 func niceStep(d float64) float64 {
-	if !(d > 0) || !finite(d) {
+	if !(d > 0) || !plume.Finite(d) {
 		return 1
 	}
 	p := math.Pow(10, math.Floor(math.Log10(d)))
@@ -331,7 +369,7 @@ func niceStep(d float64) float64 {
 
 // layout chooses the nodes of a grid covering e (canonical) within the
 // node budget, with round spacings and an origin on a multiple of them.
-func layout(e Extent, view string, mo MapOptions, uf unitFactors) (Grid, error) {
+func layout(e Extent, view string, mo MapOptions, uf plume.UnitFactors) (contour.Grid, error) {
 	budget := DefaultMapCells
 	if mo.Cells != nil {
 		budget = *mo.Cells
@@ -370,16 +408,16 @@ func layout(e Extent, view string, mo MapOptions, uf unitFactors) (Grid, error) 
 		nxf = math.Min(nxf, math.Floor(float64(budget)/nyf))
 	}
 	if nxf*nyf > MaxMapCells || nxf > MaxMapCells || nyf > MaxMapCells {
-		return Grid{}, &mapError{FieldErrors{{Field: "spacing", Message: fmt.Sprintf(
-			"the grid would hold %.0f x %.0f nodes; at most %d allowed: give a larger spacing or a smaller extent", nxf, nyf, MaxMapCells)}}}
+		return contour.Grid{}, plume.FieldErrors{{Field: "spacing", Message: fmt.Sprintf(
+			"the grid would hold %.0f x %.0f nodes; at most %d allowed: give a larger spacing or a smaller extent", nxf, nyf, MaxMapCells)}}.OverLimit("the map is over the limits")
 	}
 	nx, ny := max(int(nxf), 2), max(int(nyf), 2)
-	return Grid{X0: x0, Y0: y0, DX: dx, DY: dy, NX: nx, NY: ny, Values: make([]float64, nx*ny)}, nil
+	return contour.Grid{X0: x0, Y0: y0, DX: dx, DY: dy, NX: nx, NY: ny, Values: make([]float64, nx*ny)}, nil
 }
 
 // fill evaluates every node of g (canonical) on all cores, row by row,
 // stopping when ctx is done.
-func (ev *mapEvaluator) fill(ctx context.Context, g *Grid, view string, fr Frame) error {
+func (ev *mapEvaluator) fill(ctx context.Context, g *contour.Grid, view string, fr plume.Frame) error {
 	workers := min(runtime.GOMAXPROCS(0), g.NY, 8)
 	var next atomic.Int64
 	var wg sync.WaitGroup
@@ -412,8 +450,8 @@ func (ev *mapEvaluator) fill(ctx context.Context, g *Grid, view string, fr Frame
 
 // outlineOf contours g at level and measures the outline; fr is the flow
 // frame in the grid's unit (plan view).
-func outlineOf(g *Grid, level float64, view string, fr Frame) Outline {
-	o := Outline{Level: level, Geometry: Contour(g, level)}
+func outlineOf(g *contour.Grid, level float64, view string, fr plume.Frame) Outline {
+	o := Outline{Level: level, Geometry: contour.Contour(g, level)}
 	if o.Geometry == nil {
 		o.Geometry = orb.MultiPolygon{}
 	}

@@ -1,8 +1,10 @@
-package plume
+package maps
 
 import (
 	"context"
 	"math"
+
+	"downgradient/plume"
 )
 
 // DenseTimes returns n+1 evenly spaced times from 0 to a horizon, in the
@@ -10,7 +12,7 @@ import (
 // largest requested time, or (when larger, or when none was requested) twice
 // the retarded travel time R x / v to the farthest receptor downgradient,
 // rounded up to a round number. res is a screening of the same scenario.
-func DenseTimes(sc Scenario, res *Result, n int) []float64 {
+func DenseTimes(sc plume.Scenario, res *plume.Result, n int) []float64 {
 	horizon := 0.0
 	for _, t := range sc.Times {
 		horizon = math.Max(horizon, t)
@@ -25,7 +27,7 @@ func DenseTimes(sc Scenario, res *Result, n int) []float64 {
 	if sc.Source.Start != nil {
 		horizon += *sc.Source.Start
 	}
-	if !(horizon > 0) || !finite(horizon) {
+	if !(horizon > 0) || !plume.Finite(horizon) {
 		horizon = 1
 	}
 	horizon = niceStep(horizon)
@@ -39,19 +41,19 @@ func DenseTimes(sc Scenario, res *Result, n int) []float64 {
 
 // Breakthroughs screens sc at the given times with its closed-form methods
 // only (the numeric cross-check is not rerun for a curve), for drawing.
-func Breakthroughs(ctx context.Context, sc Scenario, times []float64, opt Options) (*Result, error) {
+func Breakthroughs(ctx context.Context, sc plume.Scenario, times []float64, opt plume.Options) (*plume.Result, error) {
 	d := sc
 	d.Times = times
 	d.Methods = nil
 	for _, m := range sc.Methods {
-		if m != MethodNumeric {
+		if m != plume.MethodNumeric {
 			d.Methods = append(d.Methods, m)
 		}
 	}
 	if len(d.Methods) == 0 {
-		d.Methods = []string{MethodExact, MethodDomenico}
+		d.Methods = []string{plume.MethodExact, plume.MethodDomenico}
 	}
-	return Screen(ctx, d, opt)
+	return plume.Screen(ctx, d, opt)
 }
 
 // ProfileCurve is the centreline concentration at one time.
@@ -80,32 +82,29 @@ type Profile struct {
 // depth (L) at every time of sc and at steady state, at n+1 distances from
 // the source face to beyond the farthest receptor and the steady-state
 // reach of a hundredth of the screening level (at most MaxPlumeLength).
-func CentrelineProfile(ctx context.Context, sc Scenario, depth float64, n int, opt Options) (*Profile, error) {
-	if err := Validate(sc); err != nil {
+func CentrelineProfile(ctx context.Context, sc plume.Scenario, depth float64, n int, opt plume.Options) (*Profile, error) {
+	md, err := plume.Prepare(sc, plume.PrepareOptions{})
+	if err != nil {
 		return nil, err
 	}
-	units := sc.Units.withDefaults()
-	uf, _ := units.factors()
-	c := toCanonical(sc)
-	fr := frameOf(c.Source)
+	uf := md.Factors()
 	maxX := 0.0
-	for _, r := range c.Receptors {
-		px, _ := fr.ToPlume(*r.X, *r.Y)
-		maxX = math.Max(maxX, px)
+	for _, p := range md.Receptors() {
+		maxX = math.Max(maxX, p.X)
 	}
-	m := derive(c, maxX)
-	ev := mapEvaluator{m: m, exact: true, top: depth * uf.L, bot: depth * uf.L}
+	level, haveLevel := md.ScreeningLevel()
+	ev := mapEvaluator{md: md, exact: true, top: depth * uf.L, bot: depth * uf.L}
 	xmax := maxX * 1.1
-	if m.screening != nil {
-		if L, ok := ev.steadyLength(*m.screening / 100); ok {
+	if haveLevel {
+		if L, ok := ev.steadyLength(level / 100); ok {
 			xmax = math.Max(xmax, L)
 		}
 	}
 	xmax = niceStep(math.Min(math.Max(xmax, 10), MaxPlumeLength))
 	n = max(n, 2)
-	pr := &Profile{Depth: depth, Method: MethodExact, X: make([]float64, n+1)}
-	if m.screening != nil {
-		pr.ScreeningLevel = ptr(*m.screening / uf.C)
+	pr := &Profile{Depth: depth, Method: plume.MethodExact, X: make([]float64, n+1)}
+	if haveLevel {
+		pr.ScreeningLevel = plume.Ptr(level / uf.C)
 	}
 	xs := make([]float64, n+1)
 	for i := range xs {
@@ -122,14 +121,14 @@ func CentrelineProfile(ctx context.Context, sc Scenario, depth float64, n int, o
 	for _, t := range times {
 		ev.tau = math.Inf(1)
 		if !t.Steady {
-			ev.tau = t.Value*uf.T - m.start
+			ev.tau = md.Elapsed(t.Value)
 		}
 		cv := make([]float64, len(xs))
 		for i, x := range xs {
 			if err := ctx.Err(); err != nil {
 				return nil, err
 			}
-			cv[i] = clean(ev.at(math.Max(x, 1e-6), 0, ev.top, ev.bot)) / uf.C
+			cv[i] = plume.Clean(ev.at(math.Max(x, 1e-6), 0, ev.top, ev.bot)) / uf.C
 		}
 		pr.Curves = append(pr.Curves, ProfileCurve{Time: t, C: cv})
 	}

@@ -1,6 +1,4 @@
-package plume
-
-import "math"
+package contour
 
 // Grid is a regular grid of node values in a right-handed plane frame
 // (x to the right, y up): node (i, j) sits at (X0 + i*DX, Y0 + j*DY) and
@@ -20,12 +18,3 @@ func (g *Grid) X(i int) float64 { return g.X0 + float64(i)*g.DX }
 
 // Y returns the y coordinate of row j.
 func (g *Grid) Y(j int) float64 { return g.Y0 + float64(j)*g.DY }
-
-// Max is the largest value of the grid (0 for an empty grid).
-func (g *Grid) Max() float64 {
-	m := 0.0
-	for _, v := range g.Values {
-		m = math.Max(m, v)
-	}
-	return m
-}

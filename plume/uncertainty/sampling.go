@@ -1,4 +1,4 @@
-package plume
+package uncertainty
 
 import (
 	"math/rand/v2"

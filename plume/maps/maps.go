@@ -1,4 +1,4 @@
-package plume
+package maps
 
 import (
 	"bytes"
@@ -7,6 +7,9 @@ import (
 	"fmt"
 
 	"github.com/paulmach/orb"
+
+	"downgradient/internal/contour"
+	"downgradient/plume"
 )
 
 // Map views.
@@ -99,11 +102,11 @@ type Extent struct {
 // east, y north); that of a section has x = plume_x (along flow from the
 // source face) and y = depth below the water table.
 type Map struct {
-	Engine Engine  `json:"engine"`
-	Units  Units   `json:"units"`
-	View   string  `json:"view"`
-	Time   MapTime `json:"time"`
-	Depth  float64 `json:"depth"`
+	Engine plume.Engine `json:"engine"`
+	Units  plume.Units  `json:"units"`
+	View   string       `json:"view"`
+	Time   MapTime      `json:"time"`
+	Depth  float64      `json:"depth"`
 	// Bottom of the averaged depth interval of a plan view; null for a point depth.
 	DepthBottom *float64  `json:"depth_bottom"`
 	Method      string    `json:"method"`
@@ -115,13 +118,13 @@ type Map struct {
 	// Steady-state plume length to the screening level along the centreline.
 	SteadyPlumeLength *PlumeLength `json:"steady_plume_length"`
 	// The flow frame: source face centre and flow azimuth.
-	Frame Frame `json:"-"`
+	Frame plume.Frame `json:"-"`
 	// Source width (0 for a column or a spill), L.
 	SourceWidth float64 `json:"-"`
 	// Receptors in the map's frame (site x, y; for a section plume_x, depth).
-	Receptors []MapPoint `json:"-"`
-	Derived   Derived    `json:"derived"`
-	Caveats   []Caveat   `json:"caveats"`
+	Receptors []MapPoint     `json:"-"`
+	Derived   plume.Derived  `json:"derived"`
+	Caveats   []plume.Caveat `json:"caveats"`
 }
 
 // MapPoint is a labelled point of a map.
@@ -165,90 +168,81 @@ type Outline struct {
 	Reach float64
 }
 
-// mapError is a map request over the workload limits (413).
-type mapError struct{ fe FieldErrors }
-
-func (e *mapError) Error() string    { return "map over the limits: " + e.fe.Error() }
-func (e *mapError) OverBudget() bool { return true }
-
-// Fields returns the fields over the limits.
-func (e *mapError) Fields() FieldErrors { return e.fe }
-
-// OverLimitFields returns the fields named by a map's over-the-limit error.
-func OverLimitFields(err error) FieldErrors {
-	var me *mapError
-	if errors.As(err, &me) {
-		return me.fe
-	}
-	return nil
-}
-
 // validateMapOptions checks the map fields (scenario fields are checked by
 // Validate) and returns 422-class and 413-class errors separately.
-func validateMapOptions(mo MapOptions) (bad, over FieldErrors) {
+func validateMapOptions(mo MapOptions) (bad, over plume.FieldErrors) {
 	if t := mo.Time; t != nil && !t.Steady {
-		if !finite(t.Value) || t.Value < 0 {
-			bad.add("time", fmt.Sprintf(`must be a finite number >= 0 or "steady", got %g`, t.Value))
+		if !plume.Finite(t.Value) || t.Value < 0 {
+			bad.Add("time", fmt.Sprintf(`must be a finite number >= 0 or "steady", got %g`, t.Value))
 		}
 	}
 	switch mo.View {
 	case "", ViewPlan, ViewSection:
 	default:
-		bad.add("view", fmt.Sprintf(`must be "plan" or "section", got %q`, mo.View))
+		bad.Add("view", fmt.Sprintf(`must be "plan" or "section", got %q`, mo.View))
 	}
 	switch mo.Method {
-	case "", MethodExact, MethodDomenico:
+	case "", plume.MethodExact, plume.MethodDomenico:
 	default:
-		bad.add("method", fmt.Sprintf(`must be "exact" or "domenico", got %q`, mo.Method))
+		bad.Add("method", fmt.Sprintf(`must be "exact" or "domenico", got %q`, mo.Method))
 	}
-	bad.check("depth", mo.Depth, nonNegative)
-	bad.check("depth_bottom", mo.DepthBottom, nonNegative)
+	bad.Check("depth", mo.Depth, plume.NonNegative)
+	bad.Check("depth_bottom", mo.DepthBottom, plume.NonNegative)
 	if mo.DepthBottom != nil && mo.Depth != nil && *mo.DepthBottom < *mo.Depth {
-		bad.add("depth_bottom", fmt.Sprintf("must be >= depth (%g), got %g", *mo.Depth, *mo.DepthBottom))
+		bad.Add("depth_bottom", fmt.Sprintf("must be >= depth (%g), got %g", *mo.Depth, *mo.DepthBottom))
 	}
 	for i, l := range mo.Levels {
 		lv := l
-		bad.check(fmt.Sprintf("levels[%d]", i), &lv, positive)
+		bad.Check(fmt.Sprintf("levels[%d]", i), &lv, plume.Positive)
 	}
 	if len(mo.Levels) > MaxMapLevels {
-		over.add("levels", fmt.Sprintf("%d levels; at most %d allowed", len(mo.Levels), MaxMapLevels))
+		over.Add("levels", fmt.Sprintf("%d levels; at most %d allowed", len(mo.Levels), MaxMapLevels))
 	}
 	if c := mo.Cells; c != nil {
 		switch {
 		case *c < 4:
-			bad.add("cells", fmt.Sprintf("must be >= 4, got %d", *c))
+			bad.Add("cells", fmt.Sprintf("must be >= 4, got %d", *c))
 		case *c > MaxMapCells:
-			over.add("cells", fmt.Sprintf("%d cells; at most %d allowed", *c, MaxMapCells))
+			over.Add("cells", fmt.Sprintf("%d cells; at most %d allowed", *c, MaxMapCells))
 		}
 	}
-	bad.check("spacing", mo.Spacing, positive)
+	bad.Check("spacing", mo.Spacing, plume.Positive)
 	if e := mo.Extent; e != nil {
 		for _, v := range []struct {
 			name string
 			v    float64
 		}{{"extent.x_min", e.XMin}, {"extent.x_max", e.XMax}, {"extent.y_min", e.YMin}, {"extent.y_max", e.YMax}} {
-			if !finite(v.v) {
-				bad.add(v.name, "must be a finite number")
+			if !plume.Finite(v.v) {
+				bad.Add(v.name, "must be a finite number")
 			}
 		}
 		if !(e.XMax > e.XMin) {
-			bad.add("extent.x_max", fmt.Sprintf("must be > extent.x_min (%g), got %g", e.XMin, e.XMax))
+			bad.Add("extent.x_max", fmt.Sprintf("must be > extent.x_min (%g), got %g", e.XMin, e.XMax))
 		}
 		if !(e.YMax > e.YMin) {
-			bad.add("extent.y_max", fmt.Sprintf("must be > extent.y_min (%g), got %g", e.YMin, e.YMax))
+			bad.Add("extent.y_max", fmt.Sprintf("must be > extent.y_min (%g), got %g", e.YMin, e.YMax))
 		}
 		if mo.View == ViewSection && e.YMin < 0 {
-			bad.add("extent.y_min", fmt.Sprintf("a section's depth must be >= 0, got %g", e.YMin))
+			bad.Add("extent.y_min", fmt.Sprintf("a section's depth must be >= 0, got %g", e.YMin))
 		}
 	}
 	return bad, over
 }
 
-// prefixed returns fe with every field prefixed ("scenario.").
-func (fe FieldErrors) prefixed(p string) FieldErrors {
-	out := make(FieldErrors, len(fe))
-	for i, e := range fe {
-		out[i] = FieldError{Field: p + e.Field, Message: e.Message}
+// Grid is a regular grid of node values (see package contour).
+type Grid = contour.Grid
+
+// FigureLevels are the outline levels of a figure's map: nil (the default:
+// the screening level and 10 and 100 times it) when a screening level is
+// known, else a thousandth, a hundredth and a tenth of the source
+// concentration (of 1 for a spill), so that a map can be drawn without a level.
+func FigureLevels(sc plume.Scenario, screeningLevel *float64) []float64 {
+	if screeningLevel != nil {
+		return nil
 	}
-	return out
+	c0 := 1.0
+	if sc.Source.Concentration != nil {
+		c0 = *sc.Source.Concentration
+	}
+	return []float64{c0 * 1e-3, c0 * 1e-2, c0 * 1e-1}
 }

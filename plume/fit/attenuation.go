@@ -1,6 +1,7 @@
-package plume
+package fit
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"sort"
@@ -8,6 +9,8 @@ import (
 
 	"gonum.org/v1/gonum/stat"
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"downgradient/plume"
 )
 
 // CentrelineCone is the slope of the cone around the plume axis within
@@ -27,7 +30,7 @@ const AttenuationConfidence = 0.95
 type AttenuationRequest struct {
 	// The scenario: source position, flow direction, width, seepage
 	// velocity (or K, i, n_e), retardation and longitudinal dispersivity.
-	Scenario Scenario
+	Scenario plume.Scenario
 	// The monitoring results.
 	Observations []Observation
 	// The sampling round to use, T; nil uses every observation as one
@@ -37,7 +40,7 @@ type AttenuationRequest struct {
 
 // AttenuationResult holds the rates, in the request's units.
 type AttenuationResult struct {
-	Units Units `json:"units"`
+	Units plume.Units `json:"units"`
 	// First-order bulk attenuation rate along the centreline, per L: the
 	// negative slope of ln C against distance along the flow.
 	BulkAttenuationRate float64 `json:"bulk_attenuation_rate"`
@@ -67,7 +70,7 @@ type AttenuationResult struct {
 	// how it was used.
 	Points []AttenuationPoint `json:"points"`
 	// Cautions and notes.
-	Caveats []Caveat `json:"caveats"`
+	Caveats []plume.Caveat `json:"caveats"`
 }
 
 // AttenuationPoint reports one observation.
@@ -109,58 +112,32 @@ func BuscheckAlcantar(kx, vc, alphaX float64) float64 {
 // line predicts more than its detection limit there (the true rate is then
 // likely larger). Fewer than two detects at distinct distances is a
 // FieldErrors on "observations" saying what data would fix it.
-func Attenuation(req AttenuationRequest) (*AttenuationResult, error) {
+func Attenuation(ctx context.Context, req AttenuationRequest) (*AttenuationResult, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	sc := req.Scenario
 	if err := ValidateObservations(req.Observations, req.Time != nil); err != nil {
 		return nil, err
 	}
-	if req.Time != nil && (!finite(*req.Time) || *req.Time < 0) {
-		return nil, FieldErrors{{Field: "time", Message: fmt.Sprintf("must be a finite number >= 0, got %g", *req.Time)}}
+	if req.Time != nil && (!plume.Finite(*req.Time) || *req.Time < 0) {
+		return nil, plume.Invalid("time", fmt.Sprintf("must be a finite number >= 0, got %g", *req.Time))
 	}
-	pr, err := prepare(sc, wellPlumeX(sc, req.Observations)...)
+	md, err := plume.Prepare(sc, plume.PrepareOptions{TravelPlumeX: wellPlumeX(sc, req.Observations)})
 	if err != nil {
 		return nil, err
 	}
-	uf := pr.uf
-	pts := pr.observationPoints(req.Observations)
+	uf := md.Factors()
+	pts := observationPoints(md, req.Observations)
 
 	halfW := 0.0
-	if pr.m.kind == SourceKind3D {
-		halfW = pr.m.width / 2
+	if src := md.SourceTerm(); src.Kind == plume.SourceKind3D {
+		halfW = src.Width / 2
 	}
-	res := &AttenuationResult{Units: pr.units, WellsUsed: []string{}, Points: make([]AttenuationPoint, len(pts)), Caveats: []Caveat{
-		{Code: CaveatScreeningEstimate, Severity: SeverityCaution, Message: ScreeningCaution}}}
-	var rounds []float64
-	var xs, ys []float64
-	var nonDetects []int
-	wells := map[string]bool{}
-	for i, o := range pts {
-		ap := AttenuationPoint{WellID: o.well, PlumeX: o.pt.px / uf.L, PlumeY: o.pt.py / uf.L, Concentration: o.c / uf.C, Detected: o.detected}
-		t := req.Observations[i].Time
-		if t != nil {
-			rounds = append(rounds, *t)
-		}
-		switch {
-		case req.Time != nil && math.Abs(*t-*req.Time) > 1e-9*math.Max(1, math.Abs(*req.Time)):
-			ap.Use = "other_round"
-		case o.pt.px < 0:
-			ap.Use = "upgradient"
-		case math.Abs(o.pt.py) > halfW+CentrelineCone*o.pt.px:
-			ap.Use = "off_centreline"
-		case !o.detected:
-			ap.Use = "non_detect_check"
-			nonDetects = append(nonDetects, i)
-		default:
-			ap.Use = "regression"
-			xs = append(xs, o.pt.px/uf.L)
-			ys = append(ys, math.Log(o.c/uf.C))
-			if !wells[o.well] {
-				wells[o.well] = true
-				res.WellsUsed = append(res.WellsUsed, o.well)
-			}
-		}
-		res.Points[i] = ap
-	}
+	res := &AttenuationResult{Units: md.Units(), WellsUsed: []string{}, Points: make([]AttenuationPoint, len(pts)), Caveats: []plume.Caveat{
+		{Code: plume.CaveatScreeningEstimate, Severity: plume.SeverityCaution, Message: plume.ScreeningCaution}}}
+	sel := res.classify(req, pts, uf, halfW)
+	xs, ys, rounds, nonDetects := sel.xs, sel.ys, sel.rounds, sel.nonDetects
 	distinct := map[float64]bool{}
 	for _, x := range xs {
 		distinct[x] = true
@@ -175,16 +152,68 @@ func Attenuation(req AttenuationRequest) (*AttenuationResult, error) {
 		if req.Time != nil {
 			msg += " or pick another round (rounds present: " + listRounds(rounds) + ")"
 		}
-		return nil, FieldErrors{{Field: "observations", Message: msg}}
+		return nil, plume.Invalid("observations", msg)
 	}
 
-	intercept, slope := stat.LinearRegression(xs, ys, nil, false)
+	intercept, slope := res.regress(xs, ys)
+	res.rates(md)
+	res.attenuationCaveats(md, len(xs), len(res.WellsUsed), nonDetects, pts, intercept, slope)
+	return res, nil
+}
+
+// selection is the observations sorted by use: the detects near the
+// centreline (xs: distance, L; ys: ln C), the non-detects to check against
+// the line, and the sampling rounds present.
+type selection struct {
+	xs, ys, rounds []float64
+	nonDetects     []int
+}
+
+// classify decides how each observation is used and fills res.Points and
+// res.WellsUsed.
+func (res *AttenuationResult) classify(req AttenuationRequest, pts []obsPoint, uf plume.UnitFactors, halfW float64) selection {
+	var sel selection
+	wells := map[string]bool{}
+	for i, o := range pts {
+		ap := AttenuationPoint{WellID: o.well, PlumeX: o.pt.X / uf.L, PlumeY: o.pt.Y / uf.L, Concentration: o.c / uf.C, Detected: o.detected}
+		t := req.Observations[i].Time
+		if t != nil {
+			sel.rounds = append(sel.rounds, *t)
+		}
+		switch {
+		case req.Time != nil && math.Abs(*t-*req.Time) > 1e-9*math.Max(1, math.Abs(*req.Time)):
+			ap.Use = "other_round"
+		case o.pt.X < 0:
+			ap.Use = "upgradient"
+		case math.Abs(o.pt.Y) > halfW+CentrelineCone*o.pt.X:
+			ap.Use = "off_centreline"
+		case !o.detected:
+			ap.Use = "non_detect_check"
+			sel.nonDetects = append(sel.nonDetects, i)
+		default:
+			ap.Use = "regression"
+			sel.xs = append(sel.xs, o.pt.X/uf.L)
+			sel.ys = append(sel.ys, math.Log(o.c/uf.C))
+			if !wells[o.well] {
+				wells[o.well] = true
+				res.WellsUsed = append(res.WellsUsed, o.well)
+			}
+		}
+		res.Points[i] = ap
+	}
+	return sel
+}
+
+// regress fits ln C = intercept + slope x and sets the bulk rate, its
+// interval and r^2 (with three points or more).
+func (res *AttenuationResult) regress(xs, ys []float64) (intercept, slope float64) {
+	intercept, slope = stat.LinearRegression(xs, ys, nil, false)
 	n := len(xs)
-	res.BulkAttenuationRate = clean(-slope)
-	res.InterceptConcentration = clean(math.Exp(math.Min(intercept, 700)))
+	res.BulkAttenuationRate = plume.Clean(-slope)
+	res.InterceptConcentration = plume.Clean(math.Exp(math.Min(intercept, 700)))
 	if n >= 3 {
 		r2 := stat.RSquared(xs, ys, nil, intercept, slope)
-		r2 = clean(math.Max(0, math.Min(1, r2)))
+		r2 = plume.Clean(math.Max(0, math.Min(1, r2)))
 		res.RSquared = &r2
 		mx := stat.Mean(xs, nil)
 		sxx, ssr := 0.0, 0.0
@@ -195,30 +224,36 @@ func Attenuation(req AttenuationRequest) (*AttenuationResult, error) {
 		}
 		se := math.Sqrt(ssr / float64(n-2) / sxx)
 		tq := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(n - 2)}.Quantile(0.5 + AttenuationConfidence/2)
-		res.BulkAttenuationRateCI = []float64{clean(-slope - tq*se), clean(-slope + tq*se)}
+		res.BulkAttenuationRateCI = []float64{plume.Clean(-slope - tq*se), plume.Clean(-slope + tq*se)}
 	}
+	return intercept, slope
+}
 
-	v := pr.m.v / (uf.L / uf.T)
-	R := pr.m.r
+// rates converts the bulk rate into the Buscheck & Alcantar biodegradation
+// rate with md's velocity, retardation and dispersivity.
+func (res *AttenuationResult) rates(md *plume.Model) {
+	uf := md.Factors()
+
+	tr := md.Transport()
+	v := tr.V / (uf.L / uf.T)
+	R := tr.R
 	vc := v / R
-	alpha := pr.m.alpha[0] / uf.L
-	res.SeepageVelocity, res.Retardation, res.ContaminantVelocity, res.LongitudinalDispersivity = clean(v), clean(R), clean(vc), clean(alpha)
+	alpha := tr.Alpha[0] / uf.L
+	res.SeepageVelocity, res.Retardation, res.ContaminantVelocity, res.LongitudinalDispersivity = plume.Clean(v), plume.Clean(R), plume.Clean(vc), plume.Clean(alpha)
 	k := res.BulkAttenuationRate
 	if k > 0 {
-		lam := clean(BuscheckAlcantar(k, vc, alpha))
+		lam := plume.Clean(BuscheckAlcantar(k, vc, alpha))
 		res.BiodegradationRate = &lam
-		hl := clean(math.Ln2 / lam)
+		hl := plume.Clean(math.Ln2 / lam)
 		res.HalfLife = &hl
 		if ci := res.BulkAttenuationRateCI; ci != nil {
 			lo := 0.0
 			if ci[0] > 0 {
-				lo = clean(BuscheckAlcantar(ci[0], vc, alpha))
+				lo = plume.Clean(BuscheckAlcantar(ci[0], vc, alpha))
 			}
-			res.BiodegradationRateCI = []float64{lo, clean(BuscheckAlcantar(math.Max(ci[1], 0), vc, alpha))}
+			res.BiodegradationRateCI = []float64{lo, plume.Clean(BuscheckAlcantar(math.Max(ci[1], 0), vc, alpha))}
 		}
 	}
-	res.attenuationCaveats(pr, n, len(res.WellsUsed), nonDetects, pts, intercept, slope)
-	return res, nil
 }
 
 func listRounds(ts []float64) string {
@@ -237,39 +272,39 @@ func listRounds(ts []float64) string {
 }
 
 // attenuationCaveats adds the caveats of an attenuation result.
-func (res *AttenuationResult) attenuationCaveats(pr *prepared, n, nWells int, nonDetects []int, pts []obsPoint, intercept, slope float64) {
+func (res *AttenuationResult) attenuationCaveats(md *plume.Model, n, nWells int, nonDetects []int, pts []obsPoint, intercept, slope float64) {
 	add := func(code, sev, format string, args ...any) {
-		res.Caveats = append(res.Caveats, Caveat{Code: code, Severity: sev, Message: fmt.Sprintf(format, args...)})
+		res.Caveats = append(res.Caveats, plume.Caveat{Code: code, Severity: sev, Message: fmt.Sprintf(format, args...)})
 	}
-	u := pr.units
+	u, uf := md.Units(), md.Factors()
 	if nWells < 3 || n < 3 {
-		add(CaveatFewCentrelineWells, SeverityWarning,
+		add(CaveatFewCentrelineWells, plume.SeverityWarning,
 			"Only %d well(s) (%d detect(s)) near the plume centreline entered the regression; with fewer than three the rate has no confidence interval and rests on too few points. Sample more wells along the plume axis.", nWells, n)
 	}
 	if res.RSquared != nil && *res.RSquared < PoorFitRSquared {
-		add(CaveatPoorFit, SeverityWarning,
+		add(CaveatPoorFit, plume.SeverityWarning,
 			"The regression of ln C on distance explains %.0f %% of the variance (r^2 = %.3f < %.1f): the data do not follow one exponential decline along the axis; the rates are poorly determined.", 100**res.RSquared, *res.RSquared, PoorFitRSquared)
 	}
 	if res.BiodegradationRate == nil {
-		add(CaveatNoAttenuation, SeverityWarning,
+		add(CaveatNoAttenuation, plume.SeverityWarning,
 			"Concentrations near the centreline do not fall with distance (bulk rate %.4g per %s): no biodegradation rate can be derived. The plume may still be expanding, or the wells may not lie on its axis.", res.BulkAttenuationRate, u.Length)
 	}
-	add(CaveatNonDetects, SeverityNote,
+	add(CaveatNonDetects, plume.SeverityNote,
 		"Non-detects are censored values: they are not entered in the regression (neither as zero nor at the detection limit). Each one near the centreline downgradient of the source is checked against the fitted line instead.")
 	for _, i := range nonDetects {
 		o := pts[i]
-		pred := math.Exp(intercept + slope*o.pt.px/pr.uf.L)
-		if pred > o.c/pr.uf.C {
-			res.Caveats = append(res.Caveats, Caveat{Code: CaveatNonDetectAboveFit, Severity: SeverityCaution, ReceptorID: o.well, Message: fmt.Sprintf(
+		pred := math.Exp(intercept + slope*o.pt.X/uf.L)
+		if pred > o.c/uf.C {
+			res.Caveats = append(res.Caveats, plume.Caveat{Code: CaveatNonDetectAboveFit, Severity: plume.SeverityCaution, ReceptorID: o.well, Message: fmt.Sprintf(
 				"The fitted line predicts %.4g %s at %s (plume_x %.4g %s), above its detection limit of %.4g %s: concentrations fall faster there than the fit says, so the rates reported are likely low (conservative).",
-				pred, u.Concentration, o.well, o.pt.px/pr.uf.L, u.Length, o.c/pr.uf.C, u.Concentration)})
+				pred, u.Concentration, o.well, o.pt.X/uf.L, u.Length, o.c/uf.C, u.Concentration)})
 		}
 	}
-	add(CaveatSteadyPlumeAssumed, SeverityCaution,
+	add(CaveatSteadyPlumeAssumed, plume.SeverityCaution,
 		"The biodegradation rate follows Buscheck & Alcantar (1995): it assumes a plume at steady state, one-dimensional transport along the axis (transverse dilution is counted as biodegradation, so the rate is an upper estimate), and this scenario's seepage velocity (%.4g %s/%s), retardation (%.4g) and longitudinal dispersivity (%.4g %s), to which it is sensitive. The rate acts on dissolved and sorbed mass alike: use it as contaminant.half_life with decay_applies_to \"total\" (for \"dissolved\" the equivalent rate is R times larger).",
 		res.SeepageVelocity, u.Length, u.Time, res.Retardation, res.LongitudinalDispersivity, u.Length)
-	if pr.m.derived.DispersivityEstimated {
-		add(CaveatDispersivityEstimated, SeverityCaution,
-			"The longitudinal dispersivity (%.4g %s) was estimated from the distance to the farthest well (%s), not measured.", res.LongitudinalDispersivity, u.Length, DispersivityRelation)
+	if md.Derived().DispersivityEstimated {
+		add(plume.CaveatDispersivityEstimated, plume.SeverityCaution,
+			"The longitudinal dispersivity (%.4g %s) was estimated from the distance to the farthest well (%s), not measured.", res.LongitudinalDispersivity, u.Length, plume.DispersivityRelation)
 	}
 }

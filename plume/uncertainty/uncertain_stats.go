@@ -1,4 +1,4 @@
-package plume
+package uncertainty
 
 import (
 	"math"
@@ -6,6 +6,8 @@ import (
 
 	"gonum.org/v1/gonum/stat"
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"downgradient/plume"
 )
 
 // Percentiles of a sample, in the unit of the sampled quantity.
@@ -24,7 +26,7 @@ const PercentileMethod = "linear interpolation between order statistics (gonum s
 func samplePercentiles(x []float64) Percentiles {
 	s := append([]float64(nil), x...)
 	sort.Float64s(s)
-	q := func(p float64) float64 { return clean(stat.Quantile(p, stat.LinInterp, s, nil)) }
+	q := func(p float64) float64 { return plume.Clean(stat.Quantile(p, stat.LinInterp, s, nil)) }
 	return Percentiles{P05: q(0.05), P25: q(0.25), P50: q(0.5), P75: q(0.75), P95: q(0.95)}
 }
 
@@ -44,7 +46,7 @@ func ClopperPearson(k, n int, conf float64) (lo, hi float64) {
 	if k < n {
 		hi = distuv.Beta{Alpha: float64(k + 1), Beta: float64(n - k)}.Quantile(1 - a)
 	}
-	return clean(lo), clean(hi)
+	return plume.Clean(lo), plume.Clean(hi)
 }
 
 // ranks returns the ranks of x (1-based), ties sharing their average rank.
