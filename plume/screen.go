@@ -150,27 +150,33 @@ func (m *model) screenReceptor(ctx context.Context, p Point, sp screenPlan) Rece
 	if p.Screen {
 		rr.ScreenTop, rr.ScreenBottom = Ptr(p.Top), Ptr(p.Bottom)
 	}
-	dev := math.Inf(-1)
-	compare := func(e, d float64) {
-		if e >= sp.floor && e > 0 {
-			dev = math.Max(dev, math.Abs(d-e)/e)
-		}
-	}
-	known, ok := m.receptorSeries(ctx, p, sp, rr.Series, compare)
+	dev := deviation{floor: sp.floor, max: math.Inf(-1)}
+	known, ok := m.receptorSeries(ctx, p, sp, rr.Series, &dev)
 	if !ok {
 		return rr // Screen discards it and returns ctx.Err()
 	}
-	steadyPrimary := m.receptorSteady(p, sp, &rr, compare)
-	if dev > math.Inf(-1) && (sp.run.exact && sp.run.domenico) {
-		rr.DomenicoDeviation = Ptr(dev)
+	steadyPrimary := m.receptorSteady(p, sp, &rr, &dev)
+	if dev.max > math.Inf(-1) && (sp.run.exact && sp.run.domenico) {
+		rr.DomenicoDeviation = Ptr(dev.max)
 	}
 	m.receptorPeak(ctx, p, sp, &rr, steadyPrimary, known)
 	return rr
 }
 
+// deviation tracks the largest relative Domenico-vs-exact difference where
+// exact is at or above floor, mg/L.
+type deviation struct{ floor, max float64 }
+
+// compare counts one pair of exact (e) and Domenico (d) values.
+func (dv *deviation) compare(e, d float64) {
+	if e >= dv.floor && e > 0 {
+		dv.max = math.Max(dv.max, math.Abs(d-e)/e)
+	}
+}
+
 // receptorSeries fills the series at the requested times and returns the
 // primary method's values there; ok is false when ctx ended first.
-func (m *model) receptorSeries(ctx context.Context, p Point, sp screenPlan, series []SeriesPoint, compare func(e, d float64)) (known timeline, ok bool) {
+func (m *model) receptorSeries(ctx context.Context, p Point, sp screenPlan, series []SeriesPoint, dev *deviation) (known timeline, ok bool) {
 	run := sp.run
 	for j, tau := range sp.taus {
 		if ctx.Err() != nil {
@@ -187,7 +193,7 @@ func (m *model) receptorSeries(ctx context.Context, p Point, sp screenPlan, seri
 			pt.Domenico = Ptr(d)
 		}
 		if run.exact && run.domenico {
-			compare(e, d)
+			dev.compare(e, d)
 		}
 		if sp.primaryExact && run.exact {
 			known.tau, known.c = append(known.tau, tau), append(known.c, e)
@@ -201,7 +207,7 @@ func (m *model) receptorSeries(ctx context.Context, p Point, sp screenPlan, seri
 
 // receptorSteady fills the steady state of the methods run and returns the
 // primary method's.
-func (m *model) receptorSteady(p Point, sp screenPlan, rr *ReceptorResult, compare func(e, d float64)) float64 {
+func (m *model) receptorSteady(p Point, sp screenPlan, rr *ReceptorResult, dev *deviation) float64 {
 	run := sp.run
 	inf := math.Inf(1)
 	if run.exact {
@@ -211,7 +217,7 @@ func (m *model) receptorSteady(p Point, sp screenPlan, rr *ReceptorResult, compa
 		rr.SteadyState.Domenico = Ptr(m.closedForm(false, p, inf))
 	}
 	if run.exact && run.domenico {
-		compare(*rr.SteadyState.Exact, *rr.SteadyState.Domenico)
+		dev.compare(*rr.SteadyState.Exact, *rr.SteadyState.Domenico)
 	}
 	switch {
 	case !run.exact && !run.domenico:
