@@ -1,6 +1,5 @@
 package plume
 
-
 // fromCanonical converts a result computed in m, d, mg/L into the request's
 // units (factors f: request unit -> canonical).
 func (r *Result) fromCanonical(f unitFactors) {
