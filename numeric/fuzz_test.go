@@ -79,7 +79,7 @@ func FuzzSolverInputs(f *testing.F) {
 // TestRegressionGradedAxisUnbounded is the crasher FuzzSolverInputs found
 // (seed 5 of the target): Screen3D with a fast, barely dispersive flow, a
 // 1 mm source and a receptor 1e9 m away. designGrid3 builds each graded
-// axis face by face (gradedAxis in grid.go) before designFor compares the
+// axis face by face (gradedAxis, now in graded.go) before designFor compares the
 // cell count with CellBudget, so the axis grows without bound: the process
 // runs out of memory within seconds, and the context is not checked during
 // the design. The same input reaches the solver through POST /v1/screenings

@@ -132,52 +132,6 @@ func (p *Problem1D) validate() error {
 	return nil
 }
 
-func validateTimes(field string, ts []float64) error {
-	if len(ts) == 0 {
-		return invalid(field, "need at least one output time")
-	}
-	for i, t := range ts {
-		if !(t >= 0) {
-			return invalid(fmt.Sprintf("%s[%d]", field, i), "must be >= 0 (+Inf: steady state), got %g", t)
-		}
-		if i > 0 && !(t > ts[i-1]) {
-			return invalid(fmt.Sprintf("%s[%d]", field, i), "times must be strictly ascending: %g follows %g", t, ts[i-1])
-		}
-	}
-	return nil
-}
-
-func orDefault(v, d float64) float64 {
-	if v == 0 {
-		return d
-	}
-	return v
-}
-
-// lastFinite is the last finite output time (0 if none) and whether a
-// steady state is asked for.
-func lastFinite(ts []float64) (float64, bool) {
-	tl := 0.0
-	steady := false
-	for _, t := range ts {
-		if math.IsInf(t, 1) {
-			steady = true
-		} else {
-			tl = t
-		}
-	}
-	return tl, steady
-}
-
-func firstPositive(ts []float64) float64 {
-	for _, t := range ts {
-		if t > 0 {
-			return t
-		}
-	}
-	return 0
-}
-
 // Screen1D solves the column problem and returns the concentrations at the
 // receptors at the output times, the grid report and the mass budget. The
 // context is checked during time stepping; when it ends the error wraps
@@ -185,10 +139,6 @@ func firstPositive(ts []float64) float64 {
 func Screen1D(ctx context.Context, p Problem1D) (*Result1D, error) {
 	if err := p.validate(); err != nil {
 		return nil, err
-	}
-	area := p.Area
-	if area == nil {
-		area = func(float64) float64 { return 1 }
 	}
 	axis := p.Grid
 	if len(axis.Faces) == 0 {
@@ -206,48 +156,11 @@ func Screen1D(ctx context.Context, p Problem1D) (*Result1D, error) {
 	if n > budget {
 		return nil, fmt.Errorf("%w: Problem1D.CellBudget: the given grid has %d cells but the budget is %d", ErrBudget, n, budget)
 	}
-	// Areas and geometry.
-	a0 := area(0)
-	if !(a0 > 0) || math.IsInf(a0, 0) {
-		return nil, invalid("Problem1D.Area", "A(0) must be finite and > 0, got %g", a0)
+	m, pe, err := newColumn(&p, axis)
+	if err != nil {
+		return nil, err
 	}
-	q := p.V * a0
-	dispAt := func(af float64) float64 { return p.Dm + (p.Dx-p.Dm)*a0/af }
-	centers := axis.centers()
-	stor := make([]float64, n)
-	cond := make([]float64, max(n-1, 0))
-	pe := 0.0
-	for i := 0; i < n; i++ {
-		xl, xr := axis.Faces[i], axis.Faces[i+1]
-		al, ac, ar := area(xl), area(centers[i]), area(xr)
-		for _, v := range [...]float64{al, ac, ar} {
-			if !(v > 0) || math.IsInf(v, 0) {
-				return nil, invalid("Problem1D.Area", "A(x) must be finite and > 0 on [0, %g], got %g near x = %g", axis.Length(), v, centers[i])
-			}
-		}
-		// Simpson's rule for the cell volume.
-		stor[i] = p.R * (xr - xl) * (al + 4*ac + ar) / 6
-		if i < n-1 {
-			h := centers[i+1] - centers[i]
-			cond[i] = ar * dispAt(ar) / h
-			pe = math.Max(pe, (q/ar)*h/dispAt(ar))
-		}
-	}
-	pe = math.Max(pe, p.V*axis.Width(0)/p.Dx)
-	gIn := a0 * p.Dx / (0.5 * axis.Width(0))
-	gFirst := gIn
-	if p.Inlet == InletFlux {
-		gIn = gIn * q / (gIn + q)
-		gFirst = 0
-	}
-	m := &column{
-		n: n, centers: centers, stor: stor, half1mc: make([]float64, n), q: q,
-		disp: newDispersionMatrix(stor, cond, gFirst), inv: invert(stor), gIn: gIn, mu: p.Mu,
-		c: make([]float64, n), rhs: make([]float64, n), hist: p.History,
-		inletFirst: p.Inlet == InletConcentration, rec: p.Receptors,
-	}
-	m.dispCN = newDispersionMatrix(stor, cond, gFirst)
-	m.dispCN.fixedTheta = 0.5
+	stor, q, centers := m.stor, m.q, m.centers
 	// Courant limit on the smallest storage per unit flow.
 	courant := orDefault(p.Courant, 1)
 	dtMax := math.Inf(1)
@@ -283,62 +196,4 @@ func Screen1D(ctx context.Context, p Problem1D) (*Result1D, error) {
 		res.Grid.SteadyIterations, res.Grid.SteadyResidual = st.steady.iterations, st.steady.residual
 	}
 	return res, nil
-}
-
-func invert(s []float64) []float64 {
-	v := make([]float64, len(s))
-	for i, x := range s {
-		v[i] = 1 / x
-	}
-	return v
-}
-
-func minSlice(s []float64) float64 {
-	v := math.Inf(1)
-	for _, x := range s {
-		v = math.Min(v, x)
-	}
-	return v
-}
-
-// autoAxis1D designs a uniform grid: spacing the smallest of PecletMax Dx/V,
-// a quarter of the spreading length sqrt(2 Dx t1/R) at the first output time
-// and 1/50 of the domain, divided by Refine; the domain reaches past the
-// farthest receptor by the outflow boundary layer (12 Dx/V, where the
-// influence of the free outflow face has decayed by exp(-12)) or to beyond
-// the front (V t/R + 5 sqrt(2 Dx t/R)), whichever is shorter.
-func autoAxis1D(p *Problem1D) (Axis, error) {
-	xr := 0.0
-	for _, x := range p.Receptors {
-		xr = math.Max(xr, x)
-	}
-	tl, steady := lastFinite(p.Times)
-	front := math.Inf(1)
-	if !steady {
-		front = p.V*tl/p.R + 5*math.Sqrt(2*p.Dx*tl/p.R)
-	}
-	layer := 12 * p.Dx / p.V
-	pe := orDefault(p.PecletMax, 2)
-	refine := orDefault(p.Refine, 1)
-	hPe := pe * p.Dx / p.V
-	h := hPe
-	if t1 := firstPositive(p.Times); t1 > 0 && !math.IsInf(t1, 1) {
-		h = math.Min(h, 0.25*math.Sqrt(2*p.Dx*t1/p.R))
-	}
-	L := math.Max(xr, math.Min(front, xr+layer))
-	L = math.Max(L, 1e-300)
-	h = math.Min(h, L/50) / refine
-	L += 2 * h
-	nf := math.Ceil(L / h)
-	budget := p.CellBudget
-	if budget == 0 {
-		budget = DefaultCellBudget1D
-	}
-	n := int(math.Min(nf, 1<<53))
-	if nf > float64(budget) {
-		hFit := L / float64(budget)
-		return Axis{}, fmt.Errorf("%w: Problem1D.CellBudget: need %.3g cells (spacing %.3g over %.4g) for grid Peclet <= %.3g but the budget is %d; a budget of %d fits spacing %.3g, grid Peclet <= %.3g",
-			ErrBudget, nf, h, L, math.Min(pe, p.V*h/p.Dx), budget, budget, hFit, p.V*hFit/p.Dx)
-	}
-	return UniformAxis(L, n), nil
 }
