@@ -1,7 +1,6 @@
 package numeric
 
 import (
-	"fmt"
 	"math"
 )
 
@@ -38,11 +37,10 @@ func autoAxis1D(p *Problem1D) (Axis, error) {
 	if budget == 0 {
 		budget = DefaultCellBudget1D
 	}
-	n := int(math.Min(nf, 1<<53))
-	if nf > float64(budget) {
+	if !(nf <= float64(budget)) {
 		hFit := L / float64(budget)
-		return Axis{}, fmt.Errorf("%w: Problem1D.CellBudget: need %.3g cells (spacing %.3g over %.4g) for grid Peclet <= %.3g but the budget is %d; a budget of %d fits spacing %.3g, grid Peclet <= %.3g",
-			ErrBudget, nf, h, L, math.Min(pe, p.V*h/p.Dx), budget, budget, hFit, p.V*hFit/p.Dx)
+		return Axis{}, cellBudgetError("Problem1D.CellBudget", nf, budget, "need %.3g cells (spacing %.3g over %.4g) for grid Peclet <= %.3g but the budget is %d; a budget of %d fits spacing %.3g, grid Peclet <= %.3g",
+			nf, h, L, math.Min(pe, p.V*h/p.Dx), budget, budget, hFit, p.V*hFit/p.Dx)
 	}
-	return UniformAxis(L, n), nil
+	return UniformAxis(L, int(nf)), nil
 }

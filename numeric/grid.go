@@ -10,17 +10,7 @@ import (
 // Faces are strictly ascending; cell i spans [Faces[i], Faces[i+1]].
 type Axis struct {
 	Faces []float64
-	// oversize is the cell count of an automatic axis that was too long to
-	// build (more than maxAxisCells cells); Faces is then nil and the axis
-	// can only be counted, never solved on; oversizeLength is its length.
-	oversize       int
-	oversizeLength float64
 }
-
-// maxAxisCells bounds the cells of one automatically designed axis. An axis
-// needing more is reported by count without building its faces, so a design
-// far beyond any cell budget costs no memory.
-const maxAxisCells = 1 << 22
 
 // UniformAxis divides [0, length] into n equal cells.
 func UniformAxis(length float64, n int) Axis {
@@ -33,12 +23,7 @@ func UniformAxis(length float64, n int) Axis {
 }
 
 // N is the number of cells.
-func (a Axis) N() int {
-	if a.oversize > 0 {
-		return a.oversize
-	}
-	return len(a.Faces) - 1
-}
+func (a Axis) N() int { return len(a.Faces) - 1 }
 
 // Width of cell i, L.
 func (a Axis) Width(i int) float64 { return a.Faces[i+1] - a.Faces[i] }
@@ -67,11 +52,6 @@ func (a Axis) centers() []float64 {
 
 // minMax returns the smallest and largest cell width.
 func (a Axis) minMax() (lo, hi float64) {
-	if a.oversize > 0 {
-		// Not built: the mean width stands for both.
-		w := a.oversizeLength / float64(a.oversize)
-		return w, w
-	}
 	lo, hi = math.Inf(1), 0
 	for i := 0; i+1 < len(a.Faces); i++ {
 		w := a.Width(i)

@@ -154,7 +154,7 @@ func Screen1D(ctx context.Context, p Problem1D) (*Result1D, error) {
 		budget = DefaultCellBudget1D
 	}
 	if n > budget {
-		return nil, fmt.Errorf("%w: Problem1D.CellBudget: the given grid has %d cells but the budget is %d", ErrBudget, n, budget)
+		return nil, cellBudgetError("Problem1D.CellBudget", float64(n), budget, "the given grid has %d cells but the budget is %d", n, budget)
 	}
 	m, pe, err := newColumn(&p, axis)
 	if err != nil {

@@ -179,14 +179,14 @@ func run3D(ctx context.Context, p Problem3D) (*Result3D, *grid3, error) {
 	if p.Grid != nil {
 		gx, gy, gz = p.Grid.X, p.Grid.Y, p.Grid.Z
 		if n := float64(gx.N()) * float64(gy.N()) * float64(gz.N()); n > float64(budget) {
-			return nil, nil, fmt.Errorf("%w: Problem3D.CellBudget: the given grid has %.4g cells but the budget is %d", ErrBudget, n, budget)
+			return nil, nil, cellBudgetError("Problem3D.CellBudget", n, budget, "the given grid has %.4g cells but the budget is %d", n, budget)
 		}
 	} else {
-		d, err := designFor(&p, budget)
+		var err error
+		gx, gy, gz, err = designFor(&p, budget)
 		if err != nil {
 			return nil, nil, err
 		}
-		gx, gy, gz = d.x, d.y, d.z
 	}
 	g := newGrid3(gx, gy, gz, p.V, p.Dx, p.Dy, p.Dz, p.R, p.Mu, 0.5*p.Width, p.Depth, p.History)
 	g.rec = p.Receptors
