@@ -5,12 +5,12 @@ import (
 )
 
 // autoAxis1D designs a uniform grid: spacing the smallest of PecletMax Dx/V,
-// a quarter of the spreading length sqrt(2 Dx t1/R) at the first output time
-// and 1/50 of the domain, divided by Refine; the domain reaches past the
+// the spreading length sqrt(2 Dx t1/R) at the first output time divided by
+// perSpread, and 1/50 of the domain, divided by Refine; the domain reaches past the
 // farthest receptor by the outflow boundary layer (12 Dx/V, where the
 // influence of the free outflow face has decayed by exp(-12)) or to beyond
 // the front (V t/R + 5 sqrt(2 Dx t/R)), whichever is shorter.
-func autoAxis1D(p *Problem1D) (Axis, error) {
+func autoAxis1D(p *Problem1D, perSpread float64) (Axis, error) {
 	xr := 0.0
 	for _, x := range p.Receptors {
 		xr = math.Max(xr, x)
@@ -26,7 +26,7 @@ func autoAxis1D(p *Problem1D) (Axis, error) {
 	hPe := pe * p.Dx / p.V
 	h := hPe
 	if t1 := firstPositive(p.Times); t1 > 0 && !math.IsInf(t1, 1) {
-		h = math.Min(h, 0.25*math.Sqrt(2*p.Dx*t1/p.R))
+		h = math.Min(h, math.Sqrt(2*p.Dx*t1/p.R)/perSpread)
 	}
 	L := math.Max(xr, math.Min(front, xr+layer))
 	L = math.Max(L, 1e-300)

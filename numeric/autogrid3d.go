@@ -25,9 +25,9 @@ func (d *design3) peclet(p *Problem3D, limit float64) float64 {
 	return p.V * d.x.maxWidth(limit) / p.Dx
 }
 
-// count formats a cell count: the integer when it is moderate, else three
+// fmtCount formats a cell count: the integer when it is moderate, else three
 // significant digits.
-func count(n float64) string {
+func fmtCount(n float64) string {
 	if n <= 1e9 {
 		return fmt.Sprintf("%.0f", n)
 	}
@@ -152,7 +152,7 @@ func designFor(p *Problem3D, budget int) (x, y, z Axis, err error) {
 	if !found {
 		c := designGrid3(p, hi)
 		return x, y, z, cellBudgetError("Problem3D.CellBudget", need, budget, "need %.3g cells (%s x %s x %s) for grid Peclet <= %.3g but the budget is %d, and even all spacings %.3g times coarser need %s cells; reduce the extent of the domain (%.4g along flow: the farthest receptor, the latest time)",
-			need, count(d.x.cells), count(d.y.cells), count(d.z.cells), d.peclet(p, float64(budget)), budget, hi*refine, count(c.cells()), d.x.length())
+			need, fmtCount(d.x.cells), fmtCount(d.y.cells), fmtCount(d.z.cells), d.peclet(p, float64(budget)), budget, hi*refine, fmtCount(c.cells()), d.x.length())
 	}
 	for k := 0; k < 40; k++ {
 		mid := math.Sqrt(lo * hi)
@@ -165,6 +165,6 @@ func designFor(p *Problem3D, budget int) (x, y, z Axis, err error) {
 	fit := designGrid3(p, hi)
 	b := float64(budget)
 	return x, y, z, cellBudgetError("Problem3D.CellBudget", need, budget, "need %.3g cells (%s x %s x %s) for grid Peclet <= %.3g but the budget is %d; a budget of %d fits grid Peclet <= %.3g (all spacings %.3g times coarser, %s x %s x %s cells), which is less accurate; raise CellBudget to at least %s or loosen PecletMax/Refine",
-		need, count(d.x.cells), count(d.y.cells), count(d.z.cells), d.peclet(p, b), budget, budget, fit.peclet(p, b), hi*refine,
-		count(fit.x.cells), count(fit.y.cells), count(fit.z.cells), count(need))
+		need, fmtCount(d.x.cells), fmtCount(d.y.cells), fmtCount(d.z.cells), d.peclet(p, b), budget, budget, fit.peclet(p, b), hi*refine,
+		fmtCount(fit.x.cells), fmtCount(fit.y.cells), fmtCount(fit.z.cells), fmtCount(need))
 }

@@ -49,7 +49,10 @@ type Problem1D struct {
 	// the first output time and Refine; length from the receptors, the
 	// travel distance and the outflow boundary layer).
 	Grid       Axis
-	CellBudget int     // largest number of cells allowed; 0: DefaultCellBudget1D
+	CellBudget int // largest number of cells allowed; 0: DefaultCellBudget1D
+	// WorkBudget is the largest work allowed, cells times time steps
+	// (GridReport.CellSteps), in (0, 1e15]; 0: DefaultWorkBudget1D.
+	WorkBudget float64
 	Courant    float64 // largest V dt/(R dx), in (0, 1]; 0: 1
 	PecletMax  float64 // largest grid Peclet number V dx/Dx of the automatic grid, in (0, 100]; 0: 2
 	Refine     float64 // divides the automatic spacing (convergence studies), in (0, 1000]; 0: 1
@@ -110,6 +113,9 @@ func (p *Problem1D) validate() error {
 	if p.CellBudget < 0 {
 		return invalid(pre+"CellBudget", "must be 0 (default %d) or > 0, got %d", DefaultCellBudget1D, p.CellBudget)
 	}
+	if err := checkOptional(pre+"WorkBudget", p.WorkBudget, 0, maxWorkBudget); err != nil {
+		return err
+	}
 	if err := checkOptional(pre+"Courant", p.Courant, 0, 1); err != nil {
 		return err
 	}
@@ -132,63 +138,53 @@ func (p *Problem1D) validate() error {
 	return nil
 }
 
+// basePerSpread is the number of cells per spreading length at the first
+// output time of the automatic grid.
+const basePerSpread = 4
+
 // Screen1D solves the column problem and returns the concentrations at the
 // receptors at the output times, the grid report and the mass budget. The
-// context is checked during time stepping; when it ends the error wraps
-// ctx.Err().
+// work is counted before the first step and checked against WorkBudget;
+// output times at which the field has reached its long-time limit are
+// answered with it directly (see settle.go; only for a uniform column,
+// Area nil). The context is checked during time stepping; when it ends the
+// error wraps ctx.Err().
 func Screen1D(ctx context.Context, p Problem1D) (*Result1D, error) {
 	if err := p.validate(); err != nil {
 		return nil, err
 	}
-	axis := p.Grid
-	if len(axis.Faces) == 0 {
-		var err error
-		axis, err = autoAxis1D(&p)
-		if err != nil {
-			return nil, err
-		}
+	if len(p.Grid.Faces) > 0 {
+		return p.solve(ctx, p.Grid, 0)
 	}
-	n := axis.N()
-	budget := p.CellBudget
-	if budget == 0 {
-		budget = DefaultCellBudget1D
-	}
-	if n > budget {
-		return nil, cellBudgetError("Problem1D.CellBudget", float64(n), budget, "the given grid has %d cells but the budget is %d", n, budget)
-	}
-	m, pe, err := newColumn(&p, axis)
+	axis, err := autoAxis1D(&p, basePerSpread)
 	if err != nil {
 		return nil, err
 	}
-	stor, q, centers := m.stor, m.q, m.centers
-	// Courant limit on the smallest storage per unit flow.
-	courant := orDefault(p.Courant, 1)
-	dtMax := math.Inf(1)
-	for _, s := range stor {
-		dtMax = math.Min(dtMax, courant*s/q)
+	return p.solve(ctx, axis, 0)
+}
+
+// solve runs the problem on axis, with at least minSteps steps up to each
+// output time (0: the Courant limit only).
+func (p *Problem1D) solve(ctx context.Context, axis Axis, minSteps float64) (*Result1D, error) {
+	m, plan, pe, err := p.setup(axis, minSteps)
+	if err != nil {
+		return nil, err
 	}
-	L := axis.Length()
 	var marchedMass float64
-	plan := marchPlan{
-		times: p.Times, switchOff: p.History.switchOff(), dtMax: dtMax,
-		steadyZero: p.History.switchOff() < math.Inf(1) || p.History.Depletion > 0,
-	}
 	vals, st, err := march(ctx, m, len(p.Receptors), plan, &marchedMass)
 	if err != nil {
 		return nil, err
 	}
+	n := axis.N()
 	dxMin, dxMax := axis.minMax()
 	res := &Result1D{
 		C: vals,
-		Grid: GridReport{NX: n, NY: 1, NZ: 1, Cells: n, XLength: L, DXMin: dxMin, DXMax: dxMax,
-			PecletX: pe, TimeStep: dtMax, Courant: q * dtMax / minSlice(stor),
-			Steps: st.steps, CellSteps: float64(n) * float64(st.steps)},
+		Grid: GridReport{NX: n, NY: 1, NZ: 1, Cells: n, XLength: axis.Length(), DXMin: dxMin, DXMax: dxMax,
+			PecletX: pe, TimeStep: st.dtLimit, Courant: m.q * st.dtLimit / minSlice(m.stor),
+			Steps: st.steps, CellSteps: float64(n) * float64(st.steps), SteadyFrom: st.settled},
 		Budget:  m.acc.result(marchedMass, 1),
-		Centers: centers,
+		Centers: m.centers,
 		Final:   append([]float64(nil), m.c...),
-	}
-	if st.steps == 0 {
-		res.Grid.TimeStep, res.Grid.Courant = 0, 0
 	}
 	if st.steady != nil {
 		b := st.steady.budget
@@ -196,4 +192,40 @@ func Screen1D(ctx context.Context, p Problem1D) (*Result1D, error) {
 		res.Grid.SteadyIterations, res.Grid.SteadyResidual = st.steady.iterations, st.steady.residual
 	}
 	return res, nil
+}
+
+// setup checks axis against the cell budget and returns the discretized
+// column, the plan of its time stepping and the largest grid Peclet number.
+func (p *Problem1D) setup(axis Axis, minSteps float64) (*column, marchPlan, float64, error) {
+	n := axis.N()
+	budget := p.CellBudget
+	if budget == 0 {
+		budget = DefaultCellBudget1D
+	}
+	if n > budget {
+		return nil, marchPlan{}, 0, cellBudgetError("Problem1D.CellBudget", float64(n), budget, "the given grid has %d cells but the budget is %d", n, budget)
+	}
+	m, pe, err := newColumn(p, axis)
+	if err != nil {
+		return nil, marchPlan{}, 0, err
+	}
+	// Courant limit on the smallest storage per unit flow.
+	courant := orDefault(p.Courant, 1)
+	dtMax := math.Inf(1)
+	for _, s := range m.stor {
+		dtMax = math.Min(dtMax, courant*s/m.q)
+	}
+	plan := marchPlan{
+		times: p.Times, switchOff: p.History.switchOff(), dtMax: dtMax,
+		steadyZero: p.History.switchOff() < math.Inf(1) || p.History.Depletion > 0,
+		settled:    math.Inf(1), minSteps: minSteps,
+		cells: float64(n), workBudget: orDefault(p.WorkBudget, DefaultWorkBudget1D), field: "Problem1D",
+	}
+	if p.Area == nil {
+		_, hMax := axis.minMax()
+		dEff := p.Dx + 0.5*p.V*hMax
+		L := axis.Length()
+		plan.settled = settledFrom(p.History, func(k float64) float64 { return settleTime(p.V, dEff, p.R, p.Mu, L, nil, k) })
+	}
+	return m, plan, pe, nil
 }
