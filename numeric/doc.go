@@ -34,9 +34,11 @@
 // (advection, dispersion, decay, then decay, dispersion, advection), so each
 // pair of steps is a symmetric (Strang) composition, second order in the
 // time step; the time step is set by the Courant limit V dt/(R dx) <=
-// Courant (default 1), which the caller can tighten, and on the automatic 3D
+// Courant (default 1), which the caller can tighten, on the automatic 3D
 // grid also by at least 16 steps over the travel time to the nearest
-// receptor. In the 1D solver, where the positivity-preserving theta exceeds
+// receptor, and on the automatic 1D grid by at least 32 steps up to each
+// output time (with 10 cells per spreading length at the first one, so
+// early times are resolved). In the 1D solver, where the positivity-preserving theta exceeds
 // 1/2 the dispersion step first tries Crank-Nicolson and keeps it when it
 // adds no variation and stays within the old range; the third-type inlet
 // flux is shared between the advection and dispersion sub-steps as the
