@@ -46,6 +46,8 @@ func (m *model) runNumeric(ctx context.Context, pts []Point, taus []float64, bud
 	case err == nil:
 	case ctx.Err() != nil:
 		return nil, "", ctx.Err()
+	case errors.Is(err, numeric.ErrWorkBudget):
+		return nil, "the time steps it needs exceed the work budget (" + err.Error() + ")", nil
 	case errors.Is(err, numeric.ErrBudget):
 		return nil, "the grid it needs exceeds the cell budget (" + err.Error() + ")", nil
 	default:
@@ -181,6 +183,7 @@ func numericReport(out numericOutput, budget int) *NumericReport {
 		TimeSteps:        grid.Steps,
 		MassBalanceError: out.budget.ClosureError,
 		CellBudget:       budget,
+		SteadyFrom:       steadyFrom(grid.SteadyFrom),
 	}
 }
 
@@ -193,4 +196,13 @@ func uniq(s []float64) []float64 {
 		}
 	}
 	return out
+}
+
+// steadyFrom is the report's steady_from, d: nil when every value was time
+// stepped.
+func steadyFrom(t float64) *float64 {
+	if !(t > 0) || math.IsInf(t, 0) {
+		return nil
+	}
+	return Ptr(t)
 }

@@ -53,6 +53,7 @@ func (r *Result) fromCanonical(f unitFactors) {
 			n.MaxSpacing[i] /= L
 		}
 		n.TimeStep /= T
+		n.SteadyFrom = scaled(n.SteadyFrom, 1/T)
 		n.XMin /= L
 		n.XMax /= L
 		n.YHalf /= L

@@ -272,6 +272,10 @@ type NumericReport struct {
 	MassBalanceError float64 `json:"mass_balance_error"`
 	// Cell budget the grid had to fit in.
 	CellBudget int `json:"cell_budget"`
+	// Elapsed time since the source started, T, from which the numeric
+	// values are the directly solved steady state (the field has stopped
+	// changing by then); omitted when every value was time stepped.
+	SteadyFrom *float64 `json:"steady_from,omitempty"`
 }
 
 // Caveat severities.
