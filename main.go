@@ -18,7 +18,9 @@ import (
 	"net/http"
 	"os"
 	"os/signal"
+	"path/filepath"
 	"runtime/debug"
+	"strings"
 	"syscall"
 	"time"
 
@@ -27,7 +29,10 @@ import (
 
 // version is the engine version reported in /healthz and engine.version; set
 // it at build time with -ldflags "-X main.version=1.2.3". Without that, the
-// module version or VCS revision of the build is used.
+// module version or VCS revision the Go build information holds is used,
+// and failing that (go run with -buildvcs=false) the commit the working
+// directory's git checkout is at, so that every answer can be traced to a
+// commit.
 var version = ""
 
 func engineVersion() string {
@@ -38,13 +43,51 @@ func engineVersion() string {
 		if v := bi.Main.Version; v != "" && v != "(devel)" {
 			return v
 		}
+		rev, dirty := "", ""
 		for _, s := range bi.Settings {
-			if s.Key == "vcs.revision" && len(s.Value) >= 12 {
-				return "dev+" + s.Value[:12]
+			switch {
+			case s.Key == "vcs.revision" && len(s.Value) >= 12:
+				rev = s.Value[:12]
+			case s.Key == "vcs.modified" && s.Value == "true":
+				dirty = "+dirty"
+			}
+		}
+		if rev != "" {
+			return "dev+" + rev + dirty
+		}
+	}
+	if rev := gitHead("."); rev != "" {
+		return "dev+" + rev + "(checkout)"
+	}
+	return "dev"
+}
+
+// gitHead returns the first 12 hex digits of the commit the git checkout in
+// dir is at, reading .git/HEAD and the ref it names (loose or packed);
+// "" when there is none.
+func gitHead(dir string) string {
+	gitDir := filepath.Join(dir, ".git")
+	head, err := os.ReadFile(filepath.Join(gitDir, "HEAD"))
+	if err != nil {
+		return ""
+	}
+	h := strings.TrimSpace(string(head))
+	if ref, ok := strings.CutPrefix(h, "ref: "); ok {
+		h = ""
+		if b, err := os.ReadFile(filepath.Join(gitDir, filepath.FromSlash(ref))); err == nil {
+			h = strings.TrimSpace(string(b))
+		} else if packed, err := os.ReadFile(filepath.Join(gitDir, "packed-refs")); err == nil {
+			for _, line := range strings.Split(string(packed), "\n") {
+				if sha, name, ok := strings.Cut(line, " "); ok && name == ref {
+					h = sha
+				}
 			}
 		}
 	}
-	return "dev"
+	if len(h) < 12 || strings.Trim(h, "0123456789abcdef") != "" {
+		return ""
+	}
+	return h[:12]
 }
 
 func main() {

@@ -2,6 +2,7 @@ package api
 
 import (
 	"net/http"
+	"strings"
 
 	"github.com/labstack/echo/v4"
 
@@ -37,6 +38,8 @@ type pointGeometry struct {
 // GIS tools show as attribute columns; the full series is kept as an array.
 type receptorFeatProps struct {
 	ID                    string              `json:"id"`
+	Status                plume.Status        `json:"status"`
+	CaveatCodes           string              `json:"caveat_codes"`
 	Z                     float64             `json:"z"`
 	ScreenTop             *float64            `json:"screen_top"`
 	ScreenBottom          *float64            `json:"screen_bottom"`
@@ -49,7 +52,8 @@ type receptorFeatProps struct {
 	PeakTime              *float64            `json:"peak_time"`
 	PeakMethod            string              `json:"peak_method"`
 	FirstExceedanceTime   *float64            `json:"first_exceedance_time"`
-	ExceedsScreeningLevel bool                `json:"exceeds_screening_level"`
+	ExceedsScreeningLevel *bool               `json:"exceeds_screening_level"`
+	ScreeningLevel        *float64            `json:"screening_level"`
 	DomenicoDeviation     *float64            `json:"domenico_deviation"`
 	Series                []plume.SeriesPoint `json:"series"`
 }
@@ -76,7 +80,8 @@ func buildGeoJSON(sc plume.Scenario, res *plume.Result) featureCollection {
 			ID:       rr.ID,
 			Geometry: pointGeometry{Type: "Point", Coordinates: xy},
 			Properties: receptorFeatProps{
-				ID: rr.ID, Z: rr.Z, ScreenTop: rr.ScreenTop, ScreenBottom: rr.ScreenBottom,
+				ID: rr.ID, Status: rr.Status, CaveatCodes: strings.Join(res.CaveatCodes(rr.ID), ";"),
+				Z: rr.Z, ScreenTop: rr.ScreenTop, ScreenBottom: rr.ScreenBottom, ScreeningLevel: res.Derived.ScreeningLevel,
 				PlumeX: rr.PlumeX, PlumeY: rr.PlumeY,
 				SteadyExact: rr.SteadyState.Exact, SteadyDomenico: rr.SteadyState.Domenico, SteadyNumeric: rr.SteadyState.Numeric,
 				PeakConcentration: rr.Peak.Concentration, PeakTime: rr.Peak.Time, PeakMethod: rr.Peak.Method,

@@ -52,7 +52,8 @@ type problemKind struct {
 
 var (
 	kindMalformed   = problemKind{"malformed-request", "Malformed request", http.StatusBadRequest}
-	kindInvalid     = problemKind{"invalid-input", "Input out of range", http.StatusUnprocessableEntity}
+	kindInvalid     = problemKind{"invalid-input", "Invalid input", http.StatusUnprocessableEntity}
+	kindMissing     = problemKind{"missing-input", "Required input missing", http.StatusUnprocessableEntity}
 	kindTooLarge    = problemKind{"too-large", "Request over the limits", http.StatusRequestEntityTooLarge}
 	kindTimeout     = problemKind{"deadline-exceeded", "Computation deadline exceeded", http.StatusServiceUnavailable}
 	kindNotFound    = problemKind{"not-found", "No such resource", http.StatusNotFound}

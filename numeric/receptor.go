@@ -15,13 +15,6 @@ type Receptor struct {
 
 type receptor3 = Receptor
 
-// clamp01 removes round-off excursions (of order 1e-16) outside the range
-// that the schemes guarantee in exact arithmetic: no negative values, no
-// value above the source.
-func clamp01(v float64) float64 {
-	return math.Min(1, math.Max(0, v))
-}
-
 // sample writes the receptor values at time t.
 func (g *grid3) sample(t float64, out []float64) {
 	cb := g.hist.value(t)

@@ -29,4 +29,10 @@ type GridReport struct {
 	// cells relative to the inflow rate (at most SteadyTolerance).
 	SteadyIterations int
 	SteadyResidual   float64
+	// SteadyFrom is the first finite output time that was answered with
+	// the long-time limit instead of time stepping (the steady state of a
+	// constant source, 0 for a source that stops or depletes: the field
+	// no longer changes by then, see settle.go); 0 when every finite time
+	// was reached by time stepping.
+	SteadyFrom float64
 }

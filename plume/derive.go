@@ -80,16 +80,20 @@ type model struct {
 
 // aquiferParams are the flow and dispersion parameters.
 type aquiferParams struct {
-	v         float64    // seepage velocity, m/d
-	alpha     [3]float64 // dispersivities, m
-	disp      [3]float64 // dispersion coefficients, m^2/d
-	porosity  float64    // effective porosity (0 when not given and not needed)
-	travel    *float64   // travel distance used for estimates, m
-	travelRaw float64    // travel distance before the floor, m
+	v         float64      // seepage velocity, m/d
+	alpha     [3]float64   // dispersivities, m (model-wide; see basis)
+	disp      [3]float64   // dispersion coefficients, m^2/d (model-wide; see basis)
+	porosity  float64      // effective porosity (0 when not given and not needed)
+	given     Dispersivity // the dispersivities given, m
+	de        float64      // effective diffusion, m^2/d
+	basis     string       // BasisGiven, BasisScale or BasisReceptorDistance
+	travel    *float64     // scale used for a model-wide estimate, m
+	travelRaw float64      // the scale before the floor, m
 }
 
 // compoundParams are one compound's sorption, decay and levels.
 type compoundParams struct {
+	name       string   // as given
 	r          float64  // retardation
 	lambda     float64  // ln2 / half-life, 1/d
 	mu         float64  // decay rate in the retarded equation, 1/d
@@ -118,8 +122,8 @@ func (s *sourceParams) continuous() bool {
 }
 
 // derive computes the transport parameters of a validated canonical
-// scenario; maxPlumeX is the largest plume-frame x of the receptors, m.
-func derive(c Scenario, maxPlumeX float64) *model {
+// scenario. Nothing in it depends on the receptors.
+func derive(c Scenario) *model {
 	m := &model{sourceParams: sourceParams{duration: math.Inf(1), width: math.Inf(1), depth: math.Inf(1)}}
 	d := &m.derived
 	d.Estimated = []string{}
@@ -129,10 +133,11 @@ func derive(c Scenario, maxPlumeX float64) *model {
 		d.ReferenceCompound = ref.Name
 	}
 	m.deriveFlow(c.Aquifer)
+	m.name = c.Contaminant.Name
 	m.deriveSorption(c.Aquifer, c.Contaminant, ref)
 	m.deriveDecay(c.Contaminant, ref)
 	m.deriveLevels(c.Contaminant, ref)
-	m.deriveDispersion(c.Aquifer, maxPlumeX)
+	m.deriveDispersion(c.Aquifer)
 	m.deriveSource(c.Source)
 	return m
 }
@@ -211,52 +216,91 @@ func (m *model) deriveLevels(k Contaminant, ref referenceValues) {
 	d.Solubility = copyPtr(m.solubility)
 }
 
-// deriveDispersion sets the dispersivities (given ones win; a missing
-// alpha_L comes from the travel distance, missing alpha_T and alpha_V from
-// alpha_L) and the dispersion coefficients.
-func (m *model) deriveDispersion(a Aquifer, maxPlumeX float64) {
+// Bases of the dispersivities (Derived.DispersivityBasis).
+const (
+	// BasisGiven: the longitudinal dispersivity was given.
+	BasisGiven = "given"
+	// BasisScale: estimated at aquifer.dispersivity_scale for the whole model.
+	BasisScale = "dispersivity_scale"
+	// BasisReceptorDistance: estimated at each receptor's (and map node's)
+	// own travel distance from the source face.
+	BasisReceptorDistance = "receptor_distance"
+)
+
+// deriveDispersion sets the dispersivities and the dispersion coefficients:
+// given ones win; a missing alpha_L is estimated at the dispersivity scale
+// when one is given, else at each point's own travel distance (classify
+// then gives each point its own); missing alpha_T and alpha_V follow alpha_L.
+func (m *model) deriveDispersion(a Aquifer) {
 	d := &m.derived
-	var given Dispersivity
 	if a.Dispersivity != nil {
-		given = *a.Dispersivity
+		m.given = *a.Dispersivity
 	}
-	if given.Longitudinal != nil {
-		m.alpha[0] = *given.Longitudinal
-	} else {
-		m.travelRaw = math.Max(maxPlumeX, 0)
-		L := math.Max(m.travelRaw, MinTravelDistance)
-		m.travel = &L
-		m.alpha[0] = LongitudinalDispersivity(L)
+	if a.EffectiveDiffusion != nil {
+		m.de = *a.EffectiveDiffusion
+	}
+	switch {
+	case m.given.Longitudinal != nil:
+		m.basis = BasisGiven
+	case a.DispersivityScale != nil:
+		m.basis = BasisScale
+		m.travel = Ptr(*a.DispersivityScale)
+		m.travelRaw = *a.DispersivityScale
+	default:
+		m.basis = BasisReceptorDistance
+	}
+	if m.given.Longitudinal == nil {
 		d.Estimated = append(d.Estimated, "aquifer.dispersivity.longitudinal")
 	}
-	if given.Transverse != nil {
-		m.alpha[1] = *given.Transverse
-	} else {
-		m.alpha[1] = m.alpha[0] / 10
+	if m.given.Transverse == nil {
 		d.Estimated = append(d.Estimated, "aquifer.dispersivity.transverse")
 	}
-	if given.Vertical != nil {
-		m.alpha[2] = *given.Vertical
-	} else {
-		m.alpha[2] = m.alpha[0] / 100
+	if m.given.Vertical == nil {
 		d.Estimated = append(d.Estimated, "aquifer.dispersivity.vertical")
 	}
-	d.DispersivityEstimated = given.Longitudinal == nil || given.Transverse == nil || given.Vertical == nil
+	d.DispersivityBasis = m.basis
+	d.DispersivityEstimated = len(d.Estimated) > 0
 	if d.DispersivityEstimated {
 		d.DispersivityRelation = DispersivityRelation
-		d.TravelDistance = copyPtr(m.travel)
-	}
-	de := 0.0
-	if a.EffectiveDiffusion != nil {
-		de = *a.EffectiveDiffusion
-	}
-	for i := range m.disp {
-		m.disp[i] = m.alpha[i]*m.v + de
 	}
 	d.SeepageVelocity = m.v
 	d.Retardation = m.r
-	d.Dispersivity = DispersivityValues{m.alpha[0], m.alpha[1], m.alpha[2]}
-	d.Dispersion = DispersionValues{m.disp[0], m.disp[1], m.disp[2]}
+	if m.basis == BasisReceptorDistance {
+		return // each point its own (see pointAquifer)
+	}
+	travel := 0.0
+	if m.travel != nil {
+		travel = *m.travel
+	}
+	m.alpha, m.disp = m.dispersionAt(travel)
+	d.TravelDistance = copyPtr(m.travel)
+	d.Dispersivity = &DispersivityValues{m.alpha[0], m.alpha[1], m.alpha[2]}
+	d.Dispersion = &DispersionValues{m.disp[0], m.disp[1], m.disp[2]}
+}
+
+// dispersionAt returns the dispersivities, m, and dispersion coefficients,
+// m^2/d, for a travel distance, m (used only for what was not given; raised
+// to MinTravelDistance).
+func (a *aquiferParams) dispersionAt(travel float64) (alpha, disp [3]float64) {
+	if a.given.Longitudinal != nil {
+		alpha[0] = *a.given.Longitudinal
+	} else {
+		alpha[0] = LongitudinalDispersivity(math.Max(travel, MinTravelDistance))
+	}
+	if a.given.Transverse != nil {
+		alpha[1] = *a.given.Transverse
+	} else {
+		alpha[1] = alpha[0] / 10
+	}
+	if a.given.Vertical != nil {
+		alpha[2] = *a.given.Vertical
+	} else {
+		alpha[2] = alpha[0] / 100
+	}
+	for i := range disp {
+		disp[i] = alpha[i]*a.v + a.de
+	}
+	return alpha, disp
 }
 
 // deriveSource sets the source kind, strength, geometry and history.

@@ -33,7 +33,7 @@ func ExampleScreen() {
 	d, w := res.Derived, res.Receptors[0]
 	fmt.Printf("v = %.4f m/d, R = %.3f\n", d.SeepageVelocity, d.Retardation)
 	fmt.Printf("after 10 years: %.3f mg/L; steady state %.3f mg/L\n", *w.Series[0].Exact, *w.SteadyState.Exact)
-	fmt.Printf("exceeds 0.005 mg/L: %v, first after %.0f days\n", w.ExceedsScreeningLevel, *w.FirstExceedanceTime)
+	fmt.Printf("exceeds 0.005 mg/L: %v, first after %.0f days\n", *w.ExceedsScreeningLevel, *w.FirstExceedanceTime)
 	fmt.Println(res.Caveats[0].Code)
 	// Output:
 	// v = 0.1229 m/d, R = 1.375

@@ -17,6 +17,10 @@ import (
 // in the caveat); for a 1D column every px <= 0 is the inlet.
 func (m *model) classify(p *Point) {
 	p.Status = StatusModelled
+	p.aq = nil
+	if m.basis == BasisReceptorDistance {
+		p.aq = m.pointAquifer(*p)
+	}
 	if m.kind == SourceKindInstantaneous || p.X > 0 {
 		return
 	}
@@ -32,7 +36,36 @@ func params(a *aquiferParams, c *compoundParams) analytic.Params {
 	return analytic.Params{V: a.v, Dx: a.disp[0], Dy: a.disp[1], Dz: a.disp[2], R: c.r, Mu: c.mu}
 }
 
-func (m *model) params() analytic.Params { return params(&m.aquiferParams, &m.compoundParams) }
+// travelDistance is a point's travel distance from the source, m: along
+// the flow from the source face, or from the release point of a spill.
+func (m *model) travelDistance(p Point) float64 {
+	if m.kind == SourceKindInstantaneous {
+		return math.Hypot(p.X, p.Y)
+	}
+	return math.Max(p.X, 0)
+}
+
+// pointAquifer is the aquifer with the dispersion estimated at p's own
+// travel distance (BasisReceptorDistance).
+func (m *model) pointAquifer(p Point) *aquiferParams {
+	a := m.aquiferParams
+	a.travelRaw = m.travelDistance(p)
+	a.travel = Ptr(math.Max(a.travelRaw, MinTravelDistance))
+	a.alpha, a.disp = a.dispersionAt(a.travelRaw)
+	return &a
+}
+
+// aquiferFor is the aquifer a point is evaluated in: its own for
+// BasisReceptorDistance, else the model's.
+func (m *model) aquiferFor(p Point) *aquiferParams {
+	switch {
+	case p.aq != nil:
+		return p.aq
+	case m.basis == BasisReceptorDistance:
+		return m.pointAquifer(p)
+	}
+	return &m.aquiferParams
+}
 
 func (s *sourceParams) history() analytic.History {
 	return analytic.History{Duration: s.duration, Depletion: s.depletion}
@@ -58,7 +91,7 @@ func (s *sourceParams) strength(tau float64) float64 {
 // steady state), in mg/L. Domenico is not defined for an instantaneous
 // release (returns 0).
 func (m *model) closedForm(exact bool, p Point, tau float64) float64 {
-	return closedFormOf(&m.aquiferParams, &m.compoundParams, &m.sourceParams, exact, p, tau)
+	return closedFormOf(m.aquiferFor(p), &m.compoundParams, &m.sourceParams, exact, p, tau)
 }
 
 // closedFormOf is closedForm for compound c released by source s in aquifer a.

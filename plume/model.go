@@ -2,7 +2,6 @@ package plume
 
 import (
 	"fmt"
-	"math"
 )
 
 // Model is a validated scenario prepared for evaluation: the request's units
@@ -28,17 +27,9 @@ type Model struct {
 	pts   []Point
 }
 
-// PrepareOptions tune Prepare; the zero value is usable.
-type PrepareOptions struct {
-	// TravelPlumeX are further plume-frame distances, m, that count toward
-	// the travel distance of an estimated dispersivity (observation wells,
-	// for example), besides the receptors'.
-	TravelPlumeX []float64
-}
-
 // Prepare validates sc (every bad field at once, as an *Error of kind
 // KindInvalid) and derives its model.
-func Prepare(sc Scenario, o PrepareOptions) (*Model, error) {
+func Prepare(sc Scenario) (*Model, error) {
 	if err := Validate(sc); err != nil {
 		return nil, err
 	}
@@ -46,16 +37,9 @@ func Prepare(sc Scenario, o PrepareOptions) (*Model, error) {
 	uf, _ := units.factors()
 	c := toCanonical(sc)
 	md := &Model{sc: sc, units: units, uf: uf, canon: c, frame: frameOf(c.Source), pts: make([]Point, len(c.Receptors))}
-	maxX := math.Inf(-1)
+	md.m = derive(c)
 	for i, r := range c.Receptors {
 		md.pts[i] = md.receptorPoint(r, i)
-		maxX = math.Max(maxX, md.pts[i].X)
-	}
-	for _, x := range o.TravelPlumeX {
-		maxX = math.Max(maxX, x)
-	}
-	md.m = derive(c, maxX)
-	for i := range md.pts {
 		md.m.classify(&md.pts[i])
 	}
 	return md, nil
@@ -135,10 +119,20 @@ func (md *Model) Peak(method string, p Point, steady float64, taus []float64) (t
 	return pk.tau, pk.c
 }
 
-// Transport returns the transport parameters, canonical units.
+// Transport returns the model-wide transport parameters, canonical units;
+// with DispersivityBasis "receptor_distance" the dispersivities are each
+// point's own (TransportAt) and Alpha and Dispersion are zero here.
 func (md *Model) Transport() Transport {
 	m := md.m
 	return Transport{V: m.v, R: m.r, Lambda: m.lambda, Mu: m.mu, Alpha: m.alpha, Dispersion: m.disp}
+}
+
+// TransportAt returns the transport parameters a point is evaluated with.
+func (md *Model) TransportAt(p Point) Transport {
+	tr := md.Transport()
+	a := md.m.aquiferFor(p)
+	tr.Alpha, tr.Dispersion = a.alpha, a.disp
+	return tr
 }
 
 // SourceTerm returns the source description, canonical units.
@@ -166,6 +160,7 @@ type UnitFactors struct {
 	L float64 // metres per request length unit
 	T float64 // days per request time unit
 	C float64 // mg/L per request concentration unit
+	K float64 // m/d per request conductivity unit
 }
 
 // Transport holds the transport parameters of a model, canonical units.
@@ -214,6 +209,8 @@ type Point struct {
 	Bottom float64 // depth of the screen's bottom (= Top for a point)
 	Screen bool    // a well screen rather than a point
 	Status Status  // set by the model; "" counts as modelled
+
+	aq *aquiferParams // the point's own dispersion (BasisReceptorDistance); set by the model
 }
 
 // mid is the reported depth: the point depth or the screen's mid-depth.
@@ -228,19 +225,6 @@ func (p Point) upgradient() bool { return p.Status == StatusUpgradient }
 // inside reports a place within a continuous source's zone.
 func (p Point) inside() bool { return p.Status == StatusInsideSource }
 
-// SiteToPlume places a site point (x, y), given in sc's length unit, in the
-// plume frame of sc's source, m; ok is false when sc's units are unknown.
-// It lets a caller find plume-frame distances before Prepare (for
-// PrepareOptions.TravelPlumeX).
-func SiteToPlume(sc Scenario, x, y float64) (px, py float64, ok bool) {
-	f, ok := sc.Units.factors()
-	if !ok {
-		return 0, 0, false
-	}
-	px, py = frameOf(toCanonical(sc).Source).ToPlume(x*f.L, y*f.L)
-	return px, py, true
-}
-
 // With returns a copy of md that runs methods at times (request units;
 // nil times: none), sharing the derived parameters and receptors; methods
 // must be known (see KnownMethod).
@@ -254,3 +238,7 @@ func (md *Model) With(methods []string, times []float64) *Model {
 	}
 	return &c
 }
+
+// ConcentrationFloor is the concentration, mg/L, below which results are
+// reported as 0 (see Derived.ConcentrationFloor).
+func (md *Model) ConcentrationFloor() float64 { return md.m.concentrationFloor() }

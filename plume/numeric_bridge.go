@@ -34,11 +34,20 @@ func (m *model) runNumeric(ctx context.Context, pts []Point, taus []float64, bud
 	if reason != "" {
 		return nil, reason, nil
 	}
-	out, err := m.solveNumeric(ctx, pts, idx, times, budget)
+	aq := m.aquiferFor(pts[idx[0]])
+	for _, i := range idx[1:] {
+		if m.aquiferFor(pts[i]).alpha != aq.alpha {
+			return nil, "the dispersivities were estimated at each receptor's own travel distance, and one finite-volume grid holds one dispersivity: " +
+				"give aquifer.dispersivity or aquifer.dispersivity_scale for a cross-check of several receptors (or check one receptor at a time)", nil
+		}
+	}
+	out, err := m.solveNumeric(ctx, aq, pts, idx, times, budget)
 	switch {
 	case err == nil:
 	case ctx.Err() != nil:
 		return nil, "", ctx.Err()
+	case errors.Is(err, numeric.ErrWorkBudget):
+		return nil, "the time steps it needs exceed the work budget (" + err.Error() + ")", nil
 	case errors.Is(err, numeric.ErrBudget):
 		return nil, "the grid it needs exceeds the cell budget (" + err.Error() + ")", nil
 	default:
@@ -86,7 +95,7 @@ type numericOutput struct {
 }
 
 // solveNumeric runs the 1D or 3D solver for the receptors idx at times.
-func (m *model) solveNumeric(ctx context.Context, pts []Point, idx []int, times []float64, budget int) (numericOutput, error) {
+func (m *model) solveNumeric(ctx context.Context, aq *aquiferParams, pts []Point, idx []int, times []float64, budget int) (numericOutput, error) {
 	hist := numeric.History{Duration: m.duration, Depletion: m.depletion}
 	if m.kind == SourceKind1D {
 		inlet := numeric.InletConcentration
@@ -98,7 +107,7 @@ func (m *model) solveNumeric(ctx context.Context, pts []Point, idx []int, times 
 			xs[k] = pts[i].X
 		}
 		r, err := numeric.Screen1D(ctx, numeric.Problem1D{
-			V: m.v, Dx: m.disp[0], Dm: math.Min(m.de(), m.disp[0]), R: m.r, Mu: m.mu,
+			V: m.v, Dx: aq.disp[0], Dm: math.Min(m.de, aq.disp[0]), R: m.r, Mu: m.mu,
 			Inlet: inlet, History: hist, Receptors: xs, Times: times, CellBudget: budget,
 		})
 		if r == nil {
@@ -112,7 +121,7 @@ func (m *model) solveNumeric(ctx context.Context, pts []Point, idx []int, times 
 		rs[k] = numeric.Receptor{X: p.X, Y: p.Y, Top: p.Top, Bottom: p.Bottom}
 	}
 	r, err := numeric.Screen3D(ctx, numeric.Problem3D{
-		V: m.v, Dx: m.disp[0], Dy: m.disp[1], Dz: m.disp[2], R: m.r, Mu: m.mu,
+		V: m.v, Dx: aq.disp[0], Dy: aq.disp[1], Dz: aq.disp[2], R: m.r, Mu: m.mu,
 		Width: m.width, Depth: m.depth, History: hist,
 		Receptors: rs, Times: times, CellBudget: budget,
 	})
@@ -174,12 +183,8 @@ func numericReport(out numericOutput, budget int) *NumericReport {
 		TimeSteps:        grid.Steps,
 		MassBalanceError: out.budget.ClosureError,
 		CellBudget:       budget,
+		SteadyFrom:       steadyFrom(grid.SteadyFrom),
 	}
-}
-
-// de is the effective diffusion coefficient, m^2/d (D_x - alpha_L v).
-func (m *model) de() float64 {
-	return math.Max(m.disp[0]-m.alpha[0]*m.v, 0)
 }
 
 // uniq removes repeated values from a sorted slice.
@@ -191,4 +196,13 @@ func uniq(s []float64) []float64 {
 		}
 	}
 	return out
+}
+
+// steadyFrom is the report's steady_from, d: nil when every value was time
+// stepped.
+func steadyFrom(t float64) *float64 {
+	if !(t > 0) || math.IsInf(t, 0) {
+		return nil
+	}
+	return Ptr(t)
 }

@@ -1,7 +1,5 @@
 package plume
 
-import "math"
-
 // fromCanonical converts a result computed in m, d, mg/L into the request's
 // units (factors f: request unit -> canonical).
 func (r *Result) fromCanonical(f unitFactors) {
@@ -11,9 +9,14 @@ func (r *Result) fromCanonical(f unitFactors) {
 	d.HalfLife = scaled(d.HalfLife, 1/T)
 	d.DecayRate *= T
 	d.EffectiveDecayRate *= T
-	d.Dispersivity = DispersivityValues{d.Dispersivity.Longitudinal / L, d.Dispersivity.Transverse / L, d.Dispersivity.Vertical / L}
+	if v := d.Dispersivity; v != nil {
+		d.Dispersivity = &DispersivityValues{v.Longitudinal / L, v.Transverse / L, v.Vertical / L}
+	}
 	k := L * L / T
-	d.Dispersion = DispersionValues{d.Dispersion.Longitudinal / k, d.Dispersion.Transverse / k, d.Dispersion.Vertical / k}
+	if v := d.Dispersion; v != nil {
+		d.Dispersion = &DispersionValues{v.Longitudinal / k, v.Transverse / k, v.Vertical / k}
+	}
+	d.ConcentrationFloor /= C
 	d.TravelDistance = scaled(d.TravelDistance, 1/L)
 	d.ScreeningLevel = scaled(d.ScreeningLevel, 1/C)
 	d.Solubility = scaled(d.Solubility, 1/C)
@@ -26,6 +29,9 @@ func (r *Result) fromCanonical(f unitFactors) {
 		rr.Z /= L
 		rr.ScreenTop = scaled(rr.ScreenTop, 1/L)
 		rr.ScreenBottom = scaled(rr.ScreenBottom, 1/L)
+		if v := rr.Dispersivity; v != nil {
+			rr.Dispersivity = &ReceptorDispersivity{v.Longitudinal / L, v.Transverse / L, v.Vertical / L, v.TravelDistance / L}
+		}
 		for j := range rr.Series {
 			sp := &rr.Series[j]
 			sp.Exact, sp.Domenico, sp.Numeric = conc(sp.Exact), conc(sp.Domenico), conc(sp.Numeric)
@@ -47,6 +53,7 @@ func (r *Result) fromCanonical(f unitFactors) {
 			n.MaxSpacing[i] /= L
 		}
 		n.TimeStep /= T
+		n.SteadyFrom = scaled(n.SteadyFrom, 1/T)
 		n.XMin /= L
 		n.XMax /= L
 		n.YHalf /= L
@@ -55,7 +62,8 @@ func (r *Result) fromCanonical(f unitFactors) {
 }
 
 // sanitize replaces any NaN or infinity left in r (none should be) by a
-// finite value, and negative concentrations by 0.
+// finite value, and concentrations below the floor (Derived.ConcentrationFloor,
+// in the result's unit), negative ones included, by 0.
 func (r *Result) sanitize() {
 	fix := func(x *float64) { *x = Clean(*x) }
 	fixP := func(p *float64) {
@@ -63,16 +71,25 @@ func (r *Result) sanitize() {
 			*p = Clean(*p)
 		}
 	}
+	floor := r.Derived.ConcentrationFloor
 	conc := func(p *float64) {
 		if p != nil {
-			*p = math.Max(Clean(*p), 0)
+			*p = FloorConcentration(Clean(*p), floor)
 		}
 	}
 	d := &r.Derived
-	for _, x := range []*float64{&d.SeepageVelocity, &d.Retardation, &d.DecayRate, &d.EffectiveDecayRate,
-		&d.Dispersivity.Longitudinal, &d.Dispersivity.Transverse, &d.Dispersivity.Vertical,
-		&d.Dispersion.Longitudinal, &d.Dispersion.Transverse, &d.Dispersion.Vertical} {
+	for _, x := range []*float64{&d.SeepageVelocity, &d.Retardation, &d.DecayRate, &d.EffectiveDecayRate} {
 		fix(x)
+	}
+	if v := d.Dispersivity; v != nil {
+		fix(&v.Longitudinal)
+		fix(&v.Transverse)
+		fix(&v.Vertical)
+	}
+	if v := d.Dispersion; v != nil {
+		fix(&v.Longitudinal)
+		fix(&v.Transverse)
+		fix(&v.Vertical)
 	}
 	for _, p := range []*float64{d.Koc, d.HalfLife, d.TravelDistance, d.ScreeningLevel, d.Solubility} {
 		fixP(p)
@@ -119,4 +136,14 @@ func (r *Result) sanitize() {
 		fix(&n.ZMax)
 		fix(&n.MassBalanceError)
 	}
+}
+
+// FloorConcentration returns c, or 0 when c is below floor (or negative):
+// no output holds a value below the documented floor, so none holds a
+// subnormal number a spreadsheet cannot store.
+func FloorConcentration(c, floor float64) float64 {
+	if !(c >= floor) || c <= 0 {
+		return 0
+	}
+	return c
 }

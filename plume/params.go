@@ -34,6 +34,7 @@ var paramSetters = map[string]setter{
 	"aquifer.bulk_density":              func(sc *Scenario, _ int, v float64) error { sc.Aquifer.BulkDensity = &v; return nil },
 	"aquifer.organic_carbon_fraction":   func(sc *Scenario, _ int, v float64) error { sc.Aquifer.OrganicCarbonFraction = &v; return nil },
 	"aquifer.effective_diffusion":       func(sc *Scenario, _ int, v float64) error { sc.Aquifer.EffectiveDiffusion = &v; return nil },
+	"aquifer.dispersivity_scale":        func(sc *Scenario, _ int, v float64) error { sc.Aquifer.DispersivityScale = &v; return nil },
 	"aquifer.dispersivity.longitudinal": func(sc *Scenario, _ int, v float64) error { ownDispersivity(sc).Longitudinal = &v; return nil },
 	"aquifer.dispersivity.transverse":   func(sc *Scenario, _ int, v float64) error { ownDispersivity(sc).Transverse = &v; return nil },
 	"aquifer.dispersivity.vertical":     func(sc *Scenario, _ int, v float64) error { ownDispersivity(sc).Vertical = &v; return nil },

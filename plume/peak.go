@@ -30,7 +30,7 @@ func (m *model) charTime(p Point) float64 {
 	if m.kind == SourceKindInstantaneous {
 		dist = math.Hypot(p.X, p.Y)
 	}
-	dist = math.Max(dist, math.Max(m.alpha[0], 1e-3))
+	dist = math.Max(dist, math.Max(m.aquiferFor(p).alpha[0], 1e-3))
 	return m.r * dist / m.v
 }
 

@@ -8,6 +8,8 @@ type Result struct {
 	Engine Engine `json:"engine"`
 	// Units of every number in the result (the request's, defaults filled in).
 	Units Units `json:"units"`
+	// The receptors counted by outcome, and the verdict in one sentence.
+	Summary Summary `json:"summary"`
 	// Derived transport parameters and where each came from.
 	Derived Derived `json:"derived"`
 	// One entry per receptor, in request order.
@@ -16,6 +18,25 @@ type Result struct {
 	Numeric *NumericReport `json:"numeric,omitempty"`
 	// Cautions and notes; always holds the general screening caution.
 	Caveats []Caveat `json:"caveats"`
+}
+
+// Summary counts the receptors by outcome. Exceeding + Below + NotCompared
+// = Receptors; a receptor not compared is one not modelled or one without a
+// known screening level.
+type Summary struct {
+	Receptors int `json:"receptors"`
+	// Compared with the level and at or above it at some time.
+	Exceeding int `json:"exceeding"`
+	// Compared with the level and below it at all times.
+	Below int `json:"below"`
+	// Not compared: not modelled, or no screening level known.
+	NotCompared int `json:"not_compared"`
+	// Not modelled (upgradient of the source).
+	NotModelled int `json:"not_modelled"`
+	// Inside the source zone (the source's own concentration is compared).
+	InsideSource int `json:"inside_source"`
+	// The outcome in words.
+	Text string `json:"text"`
 }
 
 // Engine identifies the code version and the input.
@@ -49,17 +70,24 @@ type Derived struct {
 	// Decay rate applied to the dissolved concentration in the retarded
 	// equation, 1/T: DecayRate ("total") or DecayRate / R ("dissolved").
 	EffectiveDecayRate float64 `json:"effective_decay_rate"`
-	// Dispersivities used, L.
-	Dispersivity DispersivityValues `json:"dispersivity"`
+	// Dispersivities used, L; null when each receptor has its own
+	// (dispersivity_basis "receptor_distance": see receptors[].dispersivity).
+	Dispersivity *DispersivityValues `json:"dispersivity"`
 	// True when any dispersivity was estimated rather than given.
 	DispersivityEstimated bool `json:"dispersivity_estimated"`
+	// What the longitudinal dispersivity rests on: "given";
+	// "dispersivity_scale" (estimated at aquifer.dispersivity_scale for the
+	// whole model); "receptor_distance" (estimated at each receptor's own
+	// travel distance, so that no receptor's answer depends on the others).
+	DispersivityBasis string `json:"dispersivity_basis"`
 	// The relations used for the estimated dispersivities; empty when none was estimated.
 	DispersivityRelation string `json:"dispersivity_relation,omitempty"`
-	// Travel distance the estimate used (source to the receptor farthest
-	// downgradient along the flow, at least 1 m), L; null when nothing was estimated.
+	// The plume scale a model-wide estimate used (aquifer.dispersivity_scale),
+	// L; null when alpha_L was given or each receptor used its own distance.
 	TravelDistance *float64 `json:"travel_distance"`
-	// Dispersion coefficients D_i = alpha_i v + D_e, L^2/T.
-	Dispersion DispersionValues `json:"dispersion"`
+	// Dispersion coefficients D_i = alpha_i v + D_e, L^2/T; null when each
+	// receptor has its own.
+	Dispersion *DispersionValues `json:"dispersion"`
 	// Screening level used, C; null when none was given or found.
 	ScreeningLevel *float64 `json:"screening_level"`
 	// Aqueous solubility used for the separate-phase check, C; null when unknown.
@@ -77,6 +105,24 @@ type Derived struct {
 	ReferenceCompound string `json:"reference_compound,omitempty"`
 	// How peak and first-exceedance times were found.
 	PeakMethod string `json:"peak_method"`
+	// Concentrations below this floor, C, are reported as 0: 1e-12 of the
+	// source concentration (for an instantaneous release, of the release's
+	// mass dissolved in 1 m^3 of pore water). Far below any screening level,
+	// it keeps round-off noise and subnormal numbers out of every output.
+	ConcentrationFloor float64 `json:"concentration_floor"`
+	// The unit of every dimensional input, by its JSON path, as the engine
+	// read it (for example "aquifer.hydraulic_conductivity": "ft/d").
+	InputUnits map[string]string `json:"input_units"`
+}
+
+// ReceptorDispersivity is a receptor's own dispersivities, L, estimated at
+// its travel distance (dispersivity_basis "receptor_distance").
+type ReceptorDispersivity struct {
+	Longitudinal float64 `json:"longitudinal"`
+	Transverse   float64 `json:"transverse"`
+	Vertical     float64 `json:"vertical"`
+	// Travel distance the estimate used (at least 2 m), L.
+	TravelDistance float64 `json:"travel_distance"`
 }
 
 // DispersivityValues are the three dispersivities used, L.
@@ -113,6 +159,13 @@ type ReceptorResult struct {
 	ScreenTop *float64 `json:"screen_top,omitempty"`
 	// Bottom of the well screen, L; null for a point receptor.
 	ScreenBottom *float64 `json:"screen_bottom,omitempty"`
+	// Whether and how the receptor was modelled: "modelled",
+	// "not_modelled_upgradient" (values reported as 0 are not a model
+	// result), "inside_source" (values are the source concentration).
+	Status Status `json:"status"`
+	// The receptor's own dispersivities when each receptor has its own
+	// (dispersivity_basis "receptor_distance"); omitted otherwise.
+	Dispersivity *ReceptorDispersivity `json:"dispersivity,omitempty"`
 	// Concentrations at the requested times, one value per method run.
 	Series []SeriesPoint `json:"series"`
 	// Concentrations as t -> infinity, C (numeric is not run to steady state).
@@ -122,8 +175,10 @@ type ReceptorResult struct {
 	// Earliest time the concentration reaches the screening level, T; null
 	// when it never does (or no screening level is known).
 	FirstExceedanceTime *float64 `json:"first_exceedance_time"`
-	// True when the peak concentration reaches the screening level.
-	ExceedsScreeningLevel bool `json:"exceeds_screening_level"`
+	// True when the peak concentration reaches the screening level, false
+	// when it stays below; null when nothing was compared: the receptor is
+	// not modelled (upgradient) or no screening level is known.
+	ExceedsScreeningLevel *bool `json:"exceeds_screening_level"`
 	// Largest relative difference (Domenico - exact)/exact over the series and
 	// steady state where both ran and exact is above a floor; null otherwise.
 	DomenicoDeviation *float64 `json:"domenico_deviation,omitempty"`
@@ -217,6 +272,10 @@ type NumericReport struct {
 	MassBalanceError float64 `json:"mass_balance_error"`
 	// Cell budget the grid had to fit in.
 	CellBudget int `json:"cell_budget"`
+	// Elapsed time since the source started, T, from which the numeric
+	// values are the directly solved steady state (the field has stopped
+	// changing by then); omitted when every value was time stepped.
+	SteadyFrom *float64 `json:"steady_from,omitempty"`
 }
 
 // Caveat severities.

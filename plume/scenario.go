@@ -35,13 +35,17 @@ type Units struct {
 	// Concentration unit: "mg/L" (default) or "ug/L". Applies to source
 	// concentration, screening level, solubility and every result concentration.
 	Concentration string `json:"concentration,omitempty"`
+	// Unit of hydraulic conductivity, when it is not the request's length
+	// over time: "m/d", "ft/d", "m/s", "cm/s", "m/yr", "ft/yr" or "gpd/ft2"
+	// (US gallons per day per square foot). Default: length/time.
+	Conductivity string `json:"conductivity,omitempty"`
 }
 
 // Aquifer holds the hydraulic and sorption properties of the saturated zone.
 // Either SeepageVelocity, or HydraulicConductivity, HydraulicGradient and
 // EffectivePorosity together, must be given.
 type Aquifer struct {
-	// Hydraulic conductivity K, L/T, > 0.
+	// Hydraulic conductivity K, L/T (or Units.Conductivity), > 0.
 	HydraulicConductivity *float64 `json:"hydraulic_conductivity"`
 	// Hydraulic gradient i along the flow direction, dimensionless (L/L), > 0.
 	HydraulicGradient *float64 `json:"hydraulic_gradient"`
@@ -54,8 +58,13 @@ type Aquifer struct {
 	BulkDensity *float64 `json:"bulk_density"`
 	// Fraction of organic carbon f_oc, dimensionless, in [0, 1].
 	OrganicCarbonFraction *float64 `json:"organic_carbon_fraction"`
-	// Dispersivities, L; any not given is estimated from the travel distance.
+	// Dispersivities, L; any not given is estimated (see DispersivityScale).
 	Dispersivity *Dispersivity `json:"dispersivity"`
+	// Plume scale, L, > 0, at which a longitudinal dispersivity not given is
+	// estimated for the whole model. Without it, each receptor (and each map
+	// node) is screened with the dispersivity estimated at its own travel
+	// distance, so that no answer depends on the other receptors.
+	DispersivityScale *float64 `json:"dispersivity_scale,omitempty"`
 	// Effective molecular diffusion coefficient D_e, L^2/T, >= 0; default 0.
 	EffectiveDiffusion *float64 `json:"effective_diffusion"`
 }

@@ -12,6 +12,24 @@ const (
 	ConcUgL     = "ug/L"
 )
 
+// Hydraulic conductivity units accepted in Units.Conductivity, with their
+// exact factors to m/d (1 ft = 0.3048 m, 1 d = 86400 s, 1 yr = 365.25 d,
+// 1 US gallon = 3.785411784 L, NIST SP 811 appendix B).
+var conductivityUnits = map[string]float64{
+	"m/d":     1,
+	"ft/d":    MetresPerFoot,
+	"m/s":     86400,
+	"cm/s":    864,
+	"m/yr":    1 / DaysPerYear,
+	"ft/yr":   MetresPerFoot / DaysPerYear,
+	"gpd/ft2": 3.785411784e-3 / (MetresPerFoot * MetresPerFoot),
+}
+
+// ConductivityUnits lists the names accepted in Units.Conductivity.
+func ConductivityUnits() []string {
+	return []string{"m/d", "ft/d", "m/s", "cm/s", "m/yr", "ft/yr", "gpd/ft2"}
+}
+
 // Exact conversion factors to the canonical units (m, d, mg/L).
 const (
 	// MetresPerFoot: the international foot, exactly 0.3048 m (NIST SP 811, appendix B).
@@ -28,6 +46,7 @@ type unitFactors struct {
 	L float64 // metres per request length unit
 	T float64 // days per request time unit
 	C float64 // mg/L per request concentration unit
+	K float64 // m/d per request conductivity unit
 }
 
 // withDefaults fills empty unit names with m, d, mg/L.
@@ -40,6 +59,9 @@ func (u Units) withDefaults() Units {
 	}
 	if u.Concentration == "" {
 		u.Concentration = ConcMgL
+	}
+	if u.Conductivity == "" {
+		u.Conductivity = u.Length + "/" + u.Time
 	}
 	return u
 }
@@ -72,6 +94,12 @@ func (u Units) factors() (f unitFactors, ok bool) {
 	default:
 		ok = false
 	}
+	f.K = f.L / f.T
+	if k, given := conductivityUnits[u.Conductivity]; given {
+		f.K = k
+	} else if u.Conductivity != u.Length+"/"+u.Time {
+		ok = false
+	}
 	return f, ok
 }
 
@@ -91,16 +119,18 @@ func toCanonical(sc Scenario) Scenario {
 	L, T, C := f.L, f.T, f.C
 	out := sc
 	out.Units = Units{Length: LengthMetre, Time: TimeDay, Concentration: ConcMgL}
+	K := f.K
 
 	a := sc.Aquifer
 	out.Aquifer = Aquifer{
-		HydraulicConductivity: scaled(a.HydraulicConductivity, L/T),
+		HydraulicConductivity: scaled(a.HydraulicConductivity, K),
 		HydraulicGradient:     scaled(a.HydraulicGradient, 1),
 		EffectivePorosity:     scaled(a.EffectivePorosity, 1),
 		SeepageVelocity:       scaled(a.SeepageVelocity, L/T),
 		BulkDensity:           scaled(a.BulkDensity, 1),
 		OrganicCarbonFraction: scaled(a.OrganicCarbonFraction, 1),
 		EffectiveDiffusion:    scaled(a.EffectiveDiffusion, L*L/T),
+		DispersivityScale:     scaled(a.DispersivityScale, L),
 	}
 	if a.Dispersivity != nil {
 		out.Aquifer.Dispersivity = &Dispersivity{

@@ -136,12 +136,16 @@ func validateUnits(fe *FieldErrors, u Units) {
 	default:
 		fe.Add("units.concentration", fmt.Sprintf("must be %q or %q, got %q", ConcMgL, ConcUgL, u.Concentration))
 	}
+	if _, ok := conductivityUnits[u.Conductivity]; !ok && u.Conductivity != "" {
+		fe.Add("units.conductivity", fmt.Sprintf("must be one of %s, got %q", strings.Join(ConductivityUnits(), ", "), u.Conductivity))
+	}
 }
 
 func validateAquifer(fe *FieldErrors, sc Scenario) {
 	a := sc.Aquifer
 	fe.Check("aquifer.hydraulic_conductivity", a.HydraulicConductivity, Positive)
 	fe.Check("aquifer.hydraulic_gradient", a.HydraulicGradient, Positive)
+	fe.Check("aquifer.dispersivity_scale", a.DispersivityScale, Positive)
 	fe.Check("aquifer.effective_porosity", a.EffectivePorosity, openUnit)
 	fe.Check("aquifer.seepage_velocity", a.SeepageVelocity, Positive)
 	fe.Check("aquifer.bulk_density", a.BulkDensity, Positive)
