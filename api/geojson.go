@@ -54,6 +54,10 @@ type receptorFeatProps struct {
 	FirstExceedanceTime   *float64            `json:"first_exceedance_time"`
 	ExceedsScreeningLevel *bool               `json:"exceeds_screening_level"`
 	ScreeningLevel        *float64            `json:"screening_level"`
+	AllowableSteady       *float64            `json:"allowable_source_concentration_steady"`
+	AllowableWithinTimes  *float64            `json:"allowable_source_concentration_within_times"`
+	DAFSteady             *float64            `json:"dilution_attenuation_factor_steady"`
+	DAFWithinTimes        *float64            `json:"dilution_attenuation_factor_within_times"`
 	DomenicoDeviation     *float64            `json:"domenico_deviation"`
 	Series                []plume.SeriesPoint `json:"series"`
 }
@@ -89,6 +93,13 @@ func buildGeoJSON(sc plume.Scenario, res *plume.Result) featureCollection {
 				DomenicoDeviation: rr.DomenicoDeviation, Series: series,
 			},
 		})
+		last := &fc.Features[len(fc.Features)-1].Properties
+		if a := rr.AllowableSourceConcentration; a != nil {
+			last.AllowableSteady, last.AllowableWithinTimes = a.SteadyState, a.WithinTimes
+		}
+		if a := rr.DilutionAttenuationFactor; a != nil {
+			last.DAFSteady, last.DAFWithinTimes = a.SteadyState, a.WithinTimes
+		}
 	}
 	return fc
 }

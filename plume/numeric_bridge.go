@@ -30,6 +30,9 @@ func (m *model) runNumeric(ctx context.Context, pts []Point, taus []float64, bud
 	if m.kind == SourceKindInstantaneous {
 		return nil, "the finite-volume solver models a continuous source, not an instantaneous release", nil
 	}
+	if len(m.extra) > 0 {
+		return nil, "the finite-volume cross-check of several sources on one grid is not available yet; each source can be checked on its own", nil
+	}
 	idx, times, reason := m.numericTargets(pts, taus)
 	if reason != "" {
 		return nil, reason, nil

@@ -89,6 +89,11 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 		}
 	}
 
+	if len(m.extra) > 0 && c.Contributions {
+		m.contributions(res, pts, sp)
+	}
+	m.allowances(res, pts, sp)
+	res.Transects = m.screenTransects(c, sp)
 	m.addCaveats(res, pts, run, opt, md.units, md.uf)
 	res.fromCanonical(md.uf)
 	res.sanitize()
@@ -140,8 +145,8 @@ func (m *model) comparisonFloor() float64 {
 	if m.screening != nil {
 		return ComparisonLevelFraction * *m.screening
 	}
-	if m.c0 > 0 {
-		return ComparisonSourceFraction * m.c0
+	if c := m.referenceConcentration(); c > 0 && m.kind != SourceKindInstantaneous {
+		return ComparisonSourceFraction * c
 	}
 	return 1e-12
 }
