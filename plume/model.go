@@ -18,7 +18,8 @@ import (
 //
 // A Model is immutable after Prepare and safe for concurrent use.
 type Model struct {
-	sc    Scenario    // as given, request units
+	given Scenario    // as given (hashed as the input)
+	sc    Scenario    // as given, receptors given by lon/lat placed in the site frame; request units
 	units Units       // the request's units, defaults filled in
 	uf    unitFactors // request unit -> canonical
 	canon Scenario    // sc in canonical units
@@ -33,10 +34,12 @@ func Prepare(sc Scenario) (*Model, error) {
 	if err := Validate(sc); err != nil {
 		return nil, err
 	}
+	given := sc
+	sc = resolveLonLat(sc)
 	units := sc.Units.withDefaults()
 	uf, _ := units.factors()
 	c := toCanonical(sc)
-	md := &Model{sc: sc, units: units, uf: uf, canon: c, pts: make([]Point, len(c.Receptors))}
+	md := &Model{sc: sc, given: given, units: units, uf: uf, canon: c, pts: make([]Point, len(c.Receptors))}
 	md.m = derive(c)
 	md.frame = md.m.frame
 	for i, r := range c.Receptors {
@@ -62,7 +65,8 @@ func (md *Model) receptorPoint(r Receptor, i int) Point {
 	return p
 }
 
-// Scenario returns the scenario as given (request units).
+// Scenario returns the scenario in request units, receptors given by
+// lon/lat placed in the site frame.
 func (md *Model) Scenario() Scenario { return md.sc }
 
 // Canonical returns the scenario in canonical units (m, d, mg/L).

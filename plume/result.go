@@ -8,6 +8,8 @@ type Result struct {
 	Engine Engine `json:"engine"`
 	// Units of every number in the result (the request's, defaults filled in).
 	Units Units `json:"units"`
+	// The site frame's coordinate reference system, when the request named one.
+	CRS string `json:"crs,omitempty"`
 	// The receptors counted by outcome, and the verdict in one sentence.
 	Summary Summary `json:"summary"`
 	// Derived transport parameters and where each came from.
@@ -157,6 +159,9 @@ type DispersionValues struct {
 type ReceptorResult struct {
 	// Receptor identifier from the request (or "R<index+1>").
 	ID string `json:"id"`
+	// Site coordinates, L (as given, or projected from lon and lat).
+	X float64 `json:"x"`
+	Y float64 `json:"y"`
 	// Distance along flow from the centre of the source's downgradient face, L.
 	PlumeX float64 `json:"plume_x"`
 	// Transverse offset, positive to the left of the flow direction, L.

@@ -22,6 +22,11 @@ type Scenario struct {
 	// With several sources, report each source's contribution at each
 	// receptor (receptors[].contributions).
 	Contributions bool `json:"contributions,omitempty"`
+	// Coordinate reference system of the site frame, "EPSG:NNNN": a
+	// projected CRS whose linear unit matches units.length (metre: m; US
+	// survey or international foot: ft). With it GeoJSON outputs are in WGS
+	// 84 longitude/latitude and receptors may be given as lon, lat.
+	CRS string `json:"crs,omitempty"`
 	// Receptors (wells, parcels, stream points) in site coordinates; at least one.
 	Receptors []Receptor `json:"receptors"`
 	// Times at which to report concentrations, T, each >= 0 and finite, on
@@ -178,10 +183,13 @@ type Transect struct {
 type Receptor struct {
 	// Identifier echoed in the response; default "R<index+1>".
 	ID string `json:"id,omitempty"`
-	// Site x (east), L, required.
+	// Site x (east), L; required unless lon and lat are given.
 	X *float64 `json:"x"`
-	// Site y (north), L, required.
+	// Site y (north), L; required unless lon and lat are given.
 	Y *float64 `json:"y"`
+	// WGS 84 longitude and latitude, degrees, instead of x and y (with crs).
+	Lon *float64 `json:"lon,omitempty"`
+	Lat *float64 `json:"lat,omitempty"`
 	// Depth below the water table, L, >= 0; default 0. Ignored when a screen is given.
 	Z *float64 `json:"z"`
 	// Depth of the top of the well screen below the water table, L, >= 0.

@@ -42,7 +42,8 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 	}
 
 	res := &Result{
-		Engine:    Engine{Version: opt.EngineVersion, InputSHA256: InputSHA256(md.sc)},
+		Engine:    Engine{Version: opt.EngineVersion, InputSHA256: InputSHA256(md.given)},
+		CRS:       md.sc.CRS,
 		Units:     md.units,
 		Derived:   m.derived,
 		Receptors: make([]ReceptorResult, len(pts)),
@@ -68,6 +69,8 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 			return nil, err
 		}
 		res.Receptors[i] = m.screenReceptor(ctx, p, sp)
+		r := md.sc.Receptors[i]
+		res.Receptors[i].X, res.Receptors[i].Y = *r.X, *r.Y
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
@@ -95,6 +98,7 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 	m.allowances(res, pts, sp)
 	res.Transects = m.screenTransects(c, sp)
 	m.addCaveats(res, pts, run, opt, md.units, md.uf)
+	crsCaveat(res, md.sc)
 	res.fromCanonical(md.uf)
 	res.sanitize()
 	res.summarize(res.Derived.ScreeningLevel)

@@ -32,6 +32,7 @@ func Validate(sc Scenario) error {
 	validateContaminant(&fe, sc)
 	validateSource(&fe, sc)
 	validateReceptors(&fe, sc.Receptors)
+	validateCRS(&fe, sc)
 	validateTransects(&fe, sc)
 	for i, t := range sc.Times {
 		if !Finite(t) || t < 0 {
@@ -309,11 +310,11 @@ func validateReceptors(fe *FieldErrors, rs []Receptor) {
 	seen := make(map[string]int, len(rs))
 	for i, r := range rs {
 		p := fmt.Sprintf("receptors[%d]", i)
-		if r.X == nil {
-			fe.Add(p+".x", "required: site x (east) of the receptor")
+		if r.X == nil && !r.hasLonLat() {
+			fe.Add(p+".x", "required: site x (east) of the receptor (or lon and lat with a crs)")
 		}
-		if r.Y == nil {
-			fe.Add(p+".y", "required: site y (north) of the receptor")
+		if r.Y == nil && !r.hasLonLat() {
+			fe.Add(p+".y", "required: site y (north) of the receptor (or lon and lat with a crs)")
 		}
 		fe.Check(p+".x", r.X, AnyFinite)
 		fe.Check(p+".y", r.Y, AnyFinite)
