@@ -249,7 +249,7 @@ func setup3D(p *Problem3D) (*grid3, marchPlan, error) {
 	}
 	plan := marchPlan{
 		times: p.Times, switchOff: p.History.switchOff(), dtMax: dtMax,
-		steadyZero: p.History.switchOff() < math.Inf(1) || p.History.Depletion > 0,
+		steadyZero: p.History.fades(),
 		cells:      float64(g.nx) * float64(g.np), workBudget: orDefault(p.WorkBudget, DefaultWorkBudget3D), field: "Problem3D",
 	}
 	_, hMax := gx.minMax()
