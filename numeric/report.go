@@ -35,4 +35,19 @@ type GridReport struct {
 	// no longer changes by then, see settle.go); 0 when every finite time
 	// was reached by time stepping.
 	SteadyFrom float64
+
+	// Several sources (Problem3D.Sources; all zero without them): XStart
+	// and YStart are the plume-frame coordinates of the first x and y
+	// faces, so the grid spans [XStart, XStart + XLength] along flow and,
+	// when FullWidth, [YStart, YStart + YLength] across (YLength is then
+	// the whole width; without FullWidth the grid is the half y >= 0
+	// mirrored about the plume axis, as for one source). Sources is the
+	// number of source fields and FieldCells the cells they hold together
+	// (each source's field covers the grid downstream of its face); the
+	// cell budget bounds FieldCells, and CellSteps is FieldCells times
+	// Steps.
+	XStart, YStart float64
+	FullWidth      bool
+	Sources        int
+	FieldCells     int
 }
