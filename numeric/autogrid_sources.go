@@ -64,6 +64,9 @@ func designSources(p *Problem3D, scale float64) sourceDesign {
 			}
 		}
 	}
+	for _, t := range p.Transects {
+		xrMax = math.Max(xrMax, t.X-sd.x0)
+	}
 	tl, steady := lastFinite(p.Times)
 	front := math.Inf(1)
 	if !steady {

@@ -37,6 +37,7 @@ type grid3 struct {
 	// axis, see sources3d.go) instead of the half y >= 0 mirrored about
 	// the axis.
 	fullY bool
+	tr    []Transect // transects, x relative to the field's face
 }
 
 func newGrid3(x, y, z Axis, v, dxc, dyc, dzc, r, mu, halfWidth, depth float64, hist History) *grid3 {

@@ -17,13 +17,15 @@ type multi3 struct {
 	// field i is; receptors upstream of a source's face are not in its
 	// field (it contributes nothing there).
 	recIdx [][]int
+	trIdx  [][]int   // the same for the transects
 	stored []float64 // per field: stored mass at the last storedMass
 	steady bool      // the fields hold the long-time limit
 	buf    []float64
+	nrec   int // receptors of the problem (the transects follow them in the output)
 }
 
 func newMulti3(p *Problem3D, lay layout3) *multi3 {
-	m := &multi3{stored: make([]float64, len(p.Sources))}
+	m := &multi3{stored: make([]float64, len(p.Sources)), nrec: len(p.Receptors)}
 	for _, s := range p.Sources {
 		k := lay.faceIndex(s.X)
 		shift := lay.x.Faces[k]
@@ -44,11 +46,22 @@ func newMulti3(p *Problem3D, lay layout3) *multi3 {
 			g.rec = append(g.rec, rc)
 			idx = append(idx, r)
 		}
+		var tIdx []int
+		for q, tr := range p.Transects {
+			x := (tr.X - lay.x0) - shift
+			if x < 0 {
+				continue
+			}
+			tr.X = x
+			g.tr = append(g.tr, tr)
+			tIdx = append(tIdx, q)
+		}
+		m.trIdx = append(m.trIdx, tIdx)
 		m.comps = append(m.comps, g)
 		m.strength = append(m.strength, s.Strength)
 		m.hist = append(m.hist, s.History)
 		m.recIdx = append(m.recIdx, idx)
-		m.buf = make([]float64, max(len(m.buf), len(idx)))
+		m.buf = make([]float64, max(len(m.buf), len(idx)+len(tIdx)))
 	}
 	return m
 }
@@ -105,10 +118,14 @@ func (m *multi3) sample(t float64, out []float64) {
 		if m.steady && m.hist[i].fades() {
 			continue // its long-time limit is 0
 		}
-		v := m.buf[:len(g.rec)]
+		v := m.buf[:len(g.rec)+len(g.tr)]
 		g.sample(t, v)
 		for k, r := range m.recIdx[i] {
 			out[r] += m.strength[i] * v[k]
+		}
+		nr := len(m.recIdx[i])
+		for k, q := range m.trIdx[i] {
+			out[m.nrec+q] += m.strength[i] * v[nr+k]
 		}
 	}
 }

@@ -58,6 +58,11 @@ type Problem3D struct {
 	// C/C_ref, the sum of every source's Strength times its own C/Cs. See
 	// sources3d.go.
 	Sources []SourceFace
+
+	// Transects, when given, ask for the advective mass discharge through
+	// rectangles of planes x = const at every output time (see
+	// discharge.go); the automatic grid reaches every transect.
+	Transects []Transect
 }
 
 // Grid3D is an explicit structured grid.
@@ -76,6 +81,11 @@ type Result3D struct {
 	// SteadyBudget is the budget (in rates) of the steady state when one
 	// was asked for and the source is constant; nil otherwise.
 	SteadyBudget *SteadyBudget
+	// Discharge is V times the integral of C/C0 (C/C_ref with Sources)
+	// over transect q at output time k, Discharge[q][k], L^3/T: times the
+	// effective porosity and the source concentration, the advective mass
+	// discharge (see discharge.go). Nil without Transects.
+	Discharge [][]float64
 }
 
 func (p *Problem3D) validate() error {
@@ -101,6 +111,13 @@ func (p *Problem3D) validate() error {
 		return err
 	}
 	if err := validateReceptors(pre+"Receptors", p.Receptors); err != nil {
+		return err
+	}
+	xEnd := math.Inf(1)
+	if p.Grid != nil && len(p.Grid.X.Faces) > 0 {
+		xEnd = p.Grid.X.Faces[len(p.Grid.X.Faces)-1]
+	}
+	if err := validateTransects(pre+"Transects", p.Transects, 0, xEnd); err != nil {
 		return err
 	}
 	if err := p.validateSettings(); err != nil {
@@ -221,10 +238,11 @@ func run3D(ctx context.Context, p Problem3D) (*Result3D, *grid3, error) {
 		return nil, nil, err
 	}
 	var marchedMass float64
-	vals, st, err := march(ctx, g, len(p.Receptors), plan, &marchedMass)
+	vals, st, err := march(ctx, g, len(p.Receptors)+len(p.Transects), plan, &marchedMass)
 	if err != nil {
 		return nil, nil, err
 	}
+	vals, disch := splitDischarge(vals, len(p.Receptors))
 	rep := report3(g, p.V, p.Dx)
 	rep.Steps = st.steps
 	rep.CellSteps = float64(rep.Cells) * float64(st.steps)
@@ -233,7 +251,7 @@ func run3D(ctx context.Context, p Problem3D) (*Result3D, *grid3, error) {
 		rep.TimeStep = plan.dtMax
 		rep.Courant = p.V * plan.dtMax / (p.R * rep.DXMin)
 	}
-	out := &Result3D{C: vals, Grid: rep, Budget: g.acc.result(marchedMass, 2)}
+	out := &Result3D{C: vals, Grid: rep, Budget: g.acc.result(marchedMass, 2), Discharge: disch}
 	if st.steady != nil {
 		b := st.steady.budget
 		out.SteadyBudget = &b
@@ -267,7 +285,7 @@ func setup3D(p *Problem3D) (*grid3, marchPlan, error) {
 		}
 	}
 	g := newGrid3(gx, gy, gz, p.V, p.Dx, p.Dy, p.Dz, p.R, p.Mu, 0.5*p.Width, p.Depth, p.History)
-	g.rec = p.Receptors
+	g.rec, g.tr = p.Receptors, p.Transects
 	courant := orDefault(p.Courant, 1)
 	dtMax := g.maxStep(courant)
 	if p.Grid == nil {

@@ -22,6 +22,9 @@ func (g *grid3) sample(t float64, out []float64) {
 	for r, rc := range g.rec {
 		out[r] = clamp01(g.valueAt(rc, cb, prof))
 	}
+	for q, tr := range g.tr {
+		out[len(g.rec)+q] = g.discharge(tr, cb)
+	}
 }
 
 // valueAt interpolates (geometrically where positive, see mix): in x between cell centres (between the

@@ -59,6 +59,10 @@ import (
 // source must then be on the axis) or below 0 (the whole width, covering
 // every source and receptor); Z.Faces start at 0.
 
+// MaxStrength is the largest SourceFace.Strength accepted, so that sums
+// over many sources stay far from overflow.
+const MaxStrength = 1e6
+
 // SourceFace is one source of a Problem3D with several sources. Lengths
 // in L, plume frame.
 type SourceFace struct {
@@ -66,7 +70,7 @@ type SourceFace struct {
 	Y        float64 // centre of the face across flow
 	Width    float64 // across flow, > 0
 	Depth    float64 // below the water table, > 0
-	Strength float64 // source concentration relative to the reference concentration of the outputs, > 0
+	Strength float64 // source concentration relative to the reference concentration of the outputs, in (0, MaxStrength]
 	History  History // the source's own history (default: continuous, constant)
 }
 
@@ -101,6 +105,9 @@ func (p *Problem3D) validateSources() error {
 				return invalid(f+"."+c.n, "must be finite%s, got %g", map[bool]string{true: " and > 0"}[c.positive], c.v)
 			}
 		}
+		if s.Strength > MaxStrength {
+			return invalid(f+".Strength", "must be at most %g (take the largest source concentration as the reference), got %g", float64(MaxStrength), s.Strength)
+		}
 		if err := s.History.validate(f + ".History"); err != nil {
 			return err
 		}
@@ -112,6 +119,13 @@ func (p *Problem3D) validateSources() error {
 		x0, face = p.Grid.X.Faces[0], "the grid"
 	}
 	if err := validateReceptorsFrom(pre+"Receptors", p.Receptors, x0, face); err != nil {
+		return err
+	}
+	xEnd := math.Inf(1)
+	if p.Grid != nil && len(p.Grid.X.Faces) > 0 {
+		xEnd = p.Grid.X.Faces[len(p.Grid.X.Faces)-1]
+	}
+	if err := validateTransects(pre+"Transects", p.Transects, x0, xEnd); err != nil {
 		return err
 	}
 	if err := p.validateSettings(); err != nil {
@@ -294,10 +308,11 @@ func runSources(ctx context.Context, p Problem3D) (*Result3D, error) {
 	m := newMulti3(&p, lay)
 	plan := m.plan(&p, lay)
 	var marched float64
-	vals, st, err := march(ctx, m, len(p.Receptors), plan, &marched)
+	vals, st, err := march(ctx, m, len(p.Receptors)+len(p.Transects), plan, &marched)
 	if err != nil {
 		return nil, err
 	}
+	vals, disch := splitDischarge(vals, len(p.Receptors))
 	rep := report3(m.comps[0], p.V, p.Dx)
 	rep.NX, rep.XLength = lay.x.N(), lay.x.Length()
 	rep.DXMin, rep.DXMax = lay.x.minMax()
@@ -313,7 +328,7 @@ func runSources(ctx context.Context, p Problem3D) (*Result3D, error) {
 		rep.TimeStep = plan.dtMax
 		rep.Courant = p.V * plan.dtMax / (p.R * rep.DXMin)
 	}
-	out := &Result3D{C: vals, Grid: rep, Budget: m.budget()}
+	out := &Result3D{C: vals, Grid: rep, Budget: m.budget(), Discharge: disch}
 	if st.steady != nil {
 		b := st.steady.budget
 		out.SteadyBudget = &b

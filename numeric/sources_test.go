@@ -226,7 +226,7 @@ func TestSourcesExact(t *testing.T) {
 		},
 		Receptors: []Receptor{{X: 20}, {X: 25, Y: 6, Top: 1, Bottom: 1}, {X: 30, Y: 3, Top: 0, Bottom: 3},
 			{X: 8, Y: -4, Top: 1, Bottom: 1}, {X: 40, Y: 0, Top: 2, Bottom: 2}},
-		Times: []float64{30, 60, math.Inf(1)}, Refine: 0.7}
+		Times: []float64{30, 60, math.Inf(1)}, Refine: 0.5}
 	res, err := Screen3D(context.Background(), p)
 	if err != nil {
 		t.Fatal(err)
@@ -281,6 +281,7 @@ func TestSourcesInvalid(t *testing.T) {
 		{"zero width", func(p *Problem3D) { p.Sources[1].Width = 0 }, "Problem3D.Sources[1].Width", ErrInvalid},
 		{"negative depth", func(p *Problem3D) { p.Sources[0].Depth = -1 }, "Problem3D.Sources[0].Depth", ErrInvalid},
 		{"zero strength", func(p *Problem3D) { p.Sources[1].Strength = 0 }, "Problem3D.Sources[1].Strength", ErrInvalid},
+		{"huge strength", func(p *Problem3D) { p.Sources[0].Strength = 1e300 }, "Problem3D.Sources[0].Strength", ErrInvalid},
 		{"bad history", func(p *Problem3D) { p.Sources[1].History.Exponent = -1 }, "Problem3D.Sources[1].History.Exponent", ErrInvalid},
 		{"receptor upgradient of every face", func(p *Problem3D) { p.Receptors = append(p.Receptors, Receptor{X: -1}) }, "Problem3D.Receptors[1].X = -1", ErrInvalid},
 		{"NaN dispersion", func(p *Problem3D) { p.Dy = nan }, "Problem3D.Dy", ErrInvalid},
