@@ -6,7 +6,7 @@ type GridReport struct {
 	NX, NY, NZ int     // cells along x (flow), y (transverse, half domain y >= 0), z (depth)
 	Cells      int     // NX*NY*NZ
 	XLength    float64 // domain extent along x from the inlet face
-	YLength    float64 // domain extent along y from the plume axis (half width)
+	YLength    float64 // domain extent along y from the plume axis (half width; the whole width when FullWidth)
 	ZLength    float64 // domain extent along z from the water table
 	DXMin      float64 // smallest and largest cell sizes along each axis
 	DXMax      float64

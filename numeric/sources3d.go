@@ -31,7 +31,11 @@ import (
 // round-off), and a source downstream of another must not absorb or
 // reflect the plume that passes its face (the half-space problem of the
 // closed form). So a run with several sources gives the sum of the
-// single-source runs on the same grid to round-off (bit for bit per source).
+// single-source runs on the same grid, bit for bit per source, whenever
+// they take the same time steps (the switch-off of every source is a break
+// of the common stepping, so the single run of a source that stops at
+// another time than the others steps a little differently, a difference
+// of the order of the splitting error, not of round-off).
 //
 // Grid. The x axis starts at the most upstream source face and has a face
 // at every source face; the automatic design (designSources) is the one of
