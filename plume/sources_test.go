@@ -192,3 +192,25 @@ func TestSeveralSourcesAndTransectsBadInput(t *testing.T) {
 		})
 	}
 }
+
+// The numeric cross-check carries both sources on one grid and agrees with
+// the superposed closed forms within its tolerance (issue 14).
+func TestSeveralSourcesNumeric(t *testing.T) {
+	if testing.Short() {
+		t.Skip("a 3D finite-volume run")
+	}
+	sc := twoSources()
+	sc.Receptors = sc.Receptors[:2]
+	sc.Times = []float64{3650}
+	sc.Methods = []string{MethodExact, MethodNumeric}
+	res := screenOK(t, sc)
+	if res.Numeric == nil {
+		t.Fatalf("numeric not run: %+v", res.Caveats)
+	}
+	for _, rr := range res.Receptors {
+		a := rr.NumericAgreement
+		if a == nil || !a.WithinTolerance {
+			t.Errorf("%s: agreement %+v", rr.ID, a)
+		}
+	}
+}
