@@ -107,6 +107,15 @@
 // (input checks), history.go and powerlaw.go (source histories), budget.go
 // (mass budget), report.go.
 //
+// Decay chains (ScreenChain1D, ScreenChain3D): several species with their
+// own retardation factors and decay rates, a parent forming its daughter
+// with a mass yield, each transported by the steps above and coupled by an
+// exact reaction step in place of the decay step (see chain.go); every
+// species' budget, and the chain's, closes to round-off counting the mass
+// passed down the chain (SpeciesBudget.Produced). Measured orders against
+// the closed forms of the chain (three grids, dt ~ dx^2): 2.0-2.5 in 1D,
+// 2.0 in 3D. The steady state of a chain is not solved directly.
+//
 // The package imports nothing of the project; it depends on the standard
 // library and gonum only.
 package numeric
