@@ -116,6 +116,7 @@ type kernel3D struct {
 	y, halfW        float64 // |y| and the source half-width
 	top, bot, depth float64 // receptor depth interval and source depth
 	ky, kz          float64 // sigma to transverse-argument ratios; 0: the factor is 1
+	fy, fz          stripFactor
 	s2              float64 // sigma*^2
 	u0              float64 // shift of the weight
 	ua, ub          float64 // u at tau = t and at tau = t - Duration (or -Inf, +Inf)
@@ -144,6 +145,8 @@ func newKernel3D(pt Point, t float64, p Params, s Source, h History, flux bool) 
 	if !math.IsInf(s.Depth, 1) {
 		k.kz = 1 / (x * math.Sqrt(p.Dz/p.Dx))
 	}
+	k.fy = newStripFactor(k.y, k.y, k.halfW, k.ky)
+	k.fz = newStripFactor(top, bot, s.Depth, k.kz)
 
 	// Decay and depletion: the depletion is folded into an effective decay
 	// rate Mu - g >= 0 and a factor exp(-g t) where g <= Mu. Otherwise
@@ -190,20 +193,18 @@ func (k *kernel3D) sigma(u float64) float64 {
 
 func (k *kernel3D) uOf(sig float64) float64 { return sig - k.s2/sig }
 
-// eval is the integrand at u.
-func (k *kernel3D) eval(u float64) float64 {
-	sig, rho := k.shape(u)
-	v := math.Exp(-(u-k.u0)*(u+k.u0)) * rho
-	if k.ky != 0 {
-		v *= strip(k.y, k.halfW, sig*k.ky)
-	}
-	if k.kz != 0 {
-		v *= stripAverage(k.top, k.bot, k.depth, sig*k.kz)
-	}
+// eval is the integrand at u = u0 + v. The offset v from the shift u0 is
+// the variable of integration so that the exponent of the weight,
+// -(u-u0)(u+u0) = -v (v + 2 u0), keeps its relative accuracy when u0 is
+// large (early times, far receptors).
+func (k *kernel3D) eval(v float64) float64 {
+	sig, rho := k.shape(k.u0 + v)
+	f := math.Exp(-v*(v+2*k.u0)) * rho
+	f *= k.fy.at(sig) * k.fz.at(sig)
 	if k.inside {
-		v = k.weighted(v, sig)
+		f = k.weighted(f, sig)
 	}
-	return v
+	return f
 }
 
 // weighted multiplies v by the part of the integrand kept inside for the
@@ -234,23 +235,27 @@ func (k *kernel3D) shape(u float64) (sig, rho float64) {
 	return sig, sig * sig / (sig*sig + k.s2)
 }
 
-// bound is a rigorous upper bound of the integral over [a, b]: the weight
-// at the point of [a, b] nearest the peak, rho at b (it rises with u), the
-// transverse factors bounded over the range of sigma, and the inside
-// weights by 1 (the flux ratio by 2 beta / sigma^2).
+// bound is a rigorous upper bound of the integral over the offsets [a, b]
+// (u in [u0+a, u0+b]): the weight at the point nearest the peak u = 0, rho
+// at the upper end (it rises with u), the transverse factors bounded over
+// the range of sigma, and the inside weights by 1 (the flux ratio by
+// 2 beta / sigma^2).
 func (k *kernel3D) bound(a, b float64) float64 {
-	m := 0.0
-	if a > 0 {
+	m := 0.0 // offset of the point of [a, b] nearest u = 0
+	switch {
+	case k.u0+a > 0:
 		m = a
-	} else if b < 0 {
+	case k.u0+b < 0:
 		m = b
+	default:
+		m = -k.u0
 	}
-	sa, _ := k.shape(a)
-	sb, rb := k.shape(b)
-	e := math.Exp(-(m - k.u0) * (m + k.u0))
+	sa, _ := k.shape(k.u0 + a)
+	sb, rb := k.shape(k.u0 + b)
+	e := math.Exp(-m * (m + 2*k.u0))
 	v := e * rb * (b - a)
 	if k.flux {
-		v *= 2 * k.beta / (sa * sa) / rb * sb * sb / (sb*sb + k.s2)
+		v *= 2 * k.beta / (sa * sa)
 		v = math.Min(v, 2*(b-a)*e)
 	}
 	if k.ky != 0 {
@@ -264,14 +269,25 @@ func (k *kernel3D) bound(a, b float64) float64 {
 
 // integral integrates the kernel to relative accuracy rel.
 func (k *kernel3D) integral(rel float64) float64 {
+	if q, ok := k.fast(rel); ok {
+		return q
+	}
 	return k.rigorous(rel)
 }
 
 // rigorous integrates by adaptive Gauss-Legendre bisection on the panels
 // of layout, skipping those whose bounds are negligible.
 func (k *kernel3D) rigorous(rel float64) float64 {
+	return k.rigorousBudget(rel, maxPanelsPerIntegral)
+}
+
+// rigorousBudget is rigorous with the number of bisections allowed given.
+func (k *kernel3D) rigorousBudget(rel float64, budget int) float64 {
 	var brk [66]float64
 	pts := k.layout(brk[:0])
+	for i := range pts {
+		pts[i] -= k.u0
+	}
 	var panels [66]panel
 	np := 0
 	for i := 1; i < len(pts); i++ {
@@ -282,13 +298,14 @@ func (k *kernel3D) rigorous(rel float64) float64 {
 		panels[np] = panel{a: a, b: b, bound: k.bound(a, b)}
 		np++
 	}
-	return integratePanels(k.eval, panels[:np], rel)
+	return integratePanelsBudget(k.eval, panels[:np], rel, budget)
 }
 
 // layout returns the sorted panel ends in u: the limits (or, for an
 // infinite one, a point 40 widths beyond the peak), points around the peak
 // of the weight on the scale of its width, where rho steps if it does so
-// sharply, and where each transverse factor changes.
+// sharply, where each transverse factor changes, and ladders towards the
+// finite limits.
 func (k *kernel3D) layout(pts []float64) []float64 {
 	add := func(u float64) {
 		if u > k.ua && u < k.ub && len(pts) < cap(pts)-2 {
@@ -327,6 +344,14 @@ func (k *kernel3D) layout(pts []float64) []float64 {
 	edges(k.top, k.depth, k.kz)
 	if k.bot != k.top {
 		edges(k.bot, k.depth, k.kz)
+	}
+	// A geometric ladder towards each finite limit: the integrand can fall
+	// away from a limit on any scale (a receptor just outside the source's
+	// spread at early times falls like exp(-(a sigma)^2) with a large), and
+	// a panel whose nodes all lie beyond that fall sees nothing.
+	for j, d := 0, w/4; j < 8; j, d = j+1, d/4 {
+		add(k.ua + d)
+		add(k.ub - d)
 	}
 	lo, hi := k.ua, k.ub
 	if math.IsInf(lo, -1) {
