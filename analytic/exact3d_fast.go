@@ -9,6 +9,8 @@ import "math"
 // agrees with the one before it. It declines, and the adaptive path
 // (kernel3D.rigorous) takes over, where it cannot show that its value is
 // accurate:
+//   - a tolerance finer than exactRelTol is asked (the thresholds below are
+//     set for that one);
 //   - the weights of decay, depletion or flux are inside the integral;
 //   - the integrand outside the window may matter (its rigorous bound,
 //     kernel3D.bound, exceeds a small share of the tolerance);
@@ -141,7 +143,7 @@ func (k *kernel3D) nodePair(n *fastNodes, i int, c, ec, h, lam float64) {
 // fast returns the integral by the fixed nested rule, and false where it
 // declines (see above).
 func (k *kernel3D) fast(rel float64) (float64, bool) {
-	if k.inside {
+	if k.inside || rel < exactRelTol {
 		return 0, false
 	}
 	lo, hi, lam := k.fastWindow()
