@@ -813,6 +813,182 @@ def gen_3d():
 
 
 # ---------------------------------------------------------------------------
+# 3D extremes: Peclet 1e-2 and 1e6, tiny values, screens, histories
+# ---------------------------------------------------------------------------
+
+def ierfc_mp(u):
+    """integral_u^inf erfc = exp(-u^2)/sqrt(pi) - u erfc(u), u >= 0, at 40
+    digits more than the working precision (the two terms cancel)."""
+    with mp.workdps(mp.mp.dps + 40):
+        u = mp.mpf(u)
+        v = mp.exp(-u * u) / mp.sqrt(mp.pi) - u * mp.erfc(u)
+    return +v
+
+
+def strip_avg(z1, z2, Z, Dp, tau):
+    """Mean over z in [z1, z2] of strip_factor(z, Z, Dp, tau) (z1 == z2: the
+    point), from the antiderivative |s| + ierfc(|s|) of erf(s) with the
+    linear parts written exactly for the position of the screen against Z
+    (a closed form, not the Go code's: the Go code also switches to a
+    Gauss rule for short screens)."""
+    if z1 == z2:
+        return strip_factor(z1, Z, Dp, tau)
+    if mp.isinf(Z):
+        return mp.mpf(1)
+    c = 1 / (2 * mp.sqrt(Dp * tau))
+    if z1 >= Z:
+        lin = mp.mpf(0)
+    elif z2 <= Z:
+        lin = 2 * (z2 - z1)
+    else:
+        lin = 2 * (Z - z1)
+    corr = (ierfc_mp(c * (z2 + Z)) - ierfc_mp(c * (z1 + Z))
+            - ierfc_mp(c * abs(z2 - Z)) + ierfc_mp(c * abs(z1 - Z)))
+    return (c * lin + corr) / (2 * c * (z2 - z1))
+
+
+def exact3d_x(x, y, z1, z2, t, V, Dx, Dy, Dz, R, Mu, W, Z, Dur, g, method='tanh-sinh'):
+    """The exact 3D value for a screen [z1, z2] and a source C0 exp(-g s)
+    active for 0 <= s <= Dur: the point-source kernel times the transverse
+    factors (the vertical one averaged over the screen), integrated over the
+    ages max(0, t - Dur) <= tau <= t with the weight exp(-g (t - tau))."""
+    Vp, Dxp, Dyp, Dzp = V / R, Dx / R, Dy / R, Dz / R
+    tr = x / Vp
+    sig = tr * mp.sqrt(2 * Dxp / (Vp * x))
+    t0 = t - Dur if (not mp.isinf(Dur) and not mp.isinf(t) and t > Dur) else mp.mpf(0)
+    ylo = max(abs(y) - W / 2, 0) if not mp.isinf(W) else 0
+    zlo = max(z1 - Z, 0) if not mp.isinf(Z) else 0
+    E = lambda tau: (-Mu * tau - (x - Vp * tau) ** 2 / (4 * Dxp * tau)
+                     - ylo ** 2 / (4 * Dyp * tau) - zlo ** 2 / (4 * Dzp * tau) - g * (t - tau))
+    pts = time_breakpoints(t, tr, sig, Mu + g, log_slope_at_end(E, t))[1:-1]
+    for dist, Dp in ((ylo, Dyp), (zlo, Dzp), (abs(y) + W / 2, Dyp), (z1 + Z, Dzp), (z2 + Z, Dzp),
+                     (abs(z2 - Z), Dzp)):
+        if dist > 0 and not mp.isinf(dist):
+            for k in (0.25, 1, 4):
+                pts.append(k * dist ** 2 / (4 * Dp))
+    if t0 > 0:
+        d = mp.diff(E, t0)
+        scale = min(1 / abs(d), (t - t0) / 4) if d != 0 else (t - t0) / 4
+        pts += [t0 + scale * mp.mpf(4) ** j for j in range(-6, 30)]
+    pts = [t0] + sorted(set(p for p in pts if t0 < p < t)) + [t]
+    f = lambda tau: (kernel_1d_first(x, tau, Vp, Dxp, Mu) * strip_factor(y, W / 2, Dyp, tau)
+                     * strip_avg(z1, z2, Z, Dzp, tau) * (mp.exp(-g * (t - tau)) if g else 1))
+    return integrate(f, pts, method=method)
+
+
+def dom_long(x, t, V, Dx, R, Mu):
+    ax = Dx / V
+    q = mp.sqrt(1 + 4 * Mu * ax * R / V)
+    e = mp.mpf(2) if mp.isinf(t) else mp.erfc((x - (V / R) * t * q) / (2 * mp.sqrt(ax * (V / R) * t)))
+    return mp.exp(x / (2 * ax) * (1 - q)) * e / 2
+
+
+def domenico_x(x, y, z1, z2, t, V, Dx, Dy, Dz, R, Mu, W, Z, Dur, g):
+    """DomenicoAt's definition: the longitudinal factor of the depleting
+    source (g <= Mu: exp(-g t) L(t; Mu - g); g > Mu: exp(-g max(t - Rx/V,
+    0)) L(t; Mu)), minus exp(-g Dur) times the same at t - Dur after the
+    source stops; times the transverse factors at the travel distance, the
+    vertical one averaged over the screen."""
+    def dep(tt):
+        if tt <= 0:
+            return mp.mpf(0)
+        if g == 0:
+            return dom_long(x, tt, V, Dx, R, Mu)
+        if mp.isinf(tt):
+            return mp.mpf(0)
+        if g <= Mu:
+            return mp.exp(-g * tt) * dom_long(x, tt, V, Dx, R, Mu - g)
+        return mp.exp(-g * max(tt - R * x / V, 0)) * dom_long(x, tt, V, Dx, R, Mu)
+    L = dep(t)
+    if not mp.isinf(Dur) and not mp.isinf(t) and t > Dur:
+        L -= mp.exp(-g * Dur) * dep(t - Dur)
+    ay, az = Dy / V, Dz / V
+    return L * strip_factor(y, W / 2, ay * x, 1) * strip_avg(z1, z2, Z, az * x, 1)
+
+
+def gen_3d_extremes():
+    t0 = time.time()
+    cases = []
+    names = ["x", "y", "top", "bottom", "t", "V", "Dx", "Dy", "Dz", "R", "Mu", "Width", "Depth",
+             "duration", "depletion"]
+
+    def add(label, args):
+        args = [float(a) for a in args]
+        with mp.workdps(DPS):
+            ma = [mp.mpf(a) for a in args]
+            v1 = exact3d_x(*ma)
+            v2 = exact3d_x(*ma, method='gauss-legendre')
+        agree = relerr(v1, v2) if v2 != 0 else mp.mpf(0)
+        with mp.workdps(2 * DPS):
+            dv = domenico_x(*[mp.mpf(a) for a in args])
+            dcond = condition(lambda *a: domenico_x(*a), args, range(15)) if dv > TINY_KEEP else mp.mpf(0)
+        if v1 < TINY_KEEP:
+            print("dropped (below 1e-300)", label, file=sys.stderr)
+            return
+        row = {k: fnum(a) for k, a in zip(names, args)}
+        row.update({"label": label, "exact": dstr(v1), "exact_quadrature_agreement": mp.nstr(agree, 3),
+                    "domenico": dstr(dv), "domenico_cond": dstr(dcond)})
+        if agree > AGREE:
+            print("QUAD DISAGREE", label, v1, v2, file=sys.stderr)
+        cases.append(row)
+        print(len(cases), label, mp.nstr(v1, 6), "%.0fs" % (time.time() - t0), file=sys.stderr, flush=True)
+
+    inf = INF
+    W, Z = 15.0, 3.0
+    # Peclet 1e-2 at the receptor (x V/Dx): 0.1 m from the source, alpha_L 10 m.
+    V, aL, aT, aV = 0.3, 10.0, 1.0, 0.1
+    for R, Mu in ((1.0, 0.0), (2.0, 1e-3)):
+        x = 0.1
+        tr = R * x / V
+        for f in (0.1, 1.0, 10.0, inf):
+            for y, z1, z2, pl in ((0, 1, 1, "centreline"), (5, 2, 2, "inside"), (12, 1, 1, "beside"),
+                                  (0, 6, 6, "below"), (0, 0, 3, "screen 0-3 m"), (0, 2, 6, "screen 2-6 m")):
+                add("Pe=0.01 %s t=%s R=%g Mu=%g" % (pl, "steady" if math.isinf(f) else "%g*tr" % f, R, Mu),
+                    [x, y, z1, z2, f * tr, V, aL * V, aT * V, aV * V, R, Mu, W, Z, inf, 0])
+    # Peclet 1e6: alpha_L 0.3 mm at 300 m; times around the travel time.
+    V, aL, aT, aV = 0.3, 3e-4, 3e-5, 3e-6
+    for R, Mu in ((1.0, 0.0), (1.5, 1e-4)):
+        x = 300.0
+        tr = R * x / V
+        for f in (0.999, 1.0, 1.001, 2.0, inf):
+            for y, z1, z2, pl in ((0, 1, 1, "centreline"), (7, 2.9, 2.9, "inside near corner"),
+                                  (7.6, 1, 1, "just beside"), (0, 1, 4, "screen 1-4 m")):
+                add("Pe=1e6 %s t=%s R=%g Mu=%g" % (pl, "steady" if math.isinf(f) else "%g*tr" % f, R, Mu),
+                    [x, y, z1, z2, f * tr, V, aL * V, aT * V, aV * V, R, Mu, W, Z, inf, 0])
+    # Tiny values: the early tail, far beside, far below (moderate Peclet).
+    V, aL, aT, aV = 0.1, 10.0, 1.0, 0.1
+    R, Mu = 1.4, math.log(2) / 720
+    for x, y, z1, z2, t, pl in ((300.0, 0, 1, 1, 600.0, "early tail"), (300.0, 0, 1, 1, 350.0, "early tail"),
+                                 (50.0, 60, 1, 1, inf, "60 m beside"), (50.0, 100, 1, 1, inf, "100 m beside"),
+                                 (30.0, 0, 25, 25, inf, "25 m below"), (30.0, 0, 20, 40, 3650.0, "screen 20-40 m"),
+                                 (1500.0, 0, 1, 1, inf, "1500 m downgradient"),
+                                 (100.0, 40, 12, 12, 3650.0, "beside and below")):
+        add("tiny %s x=%g t=%s" % (pl, x, t), [x, y, z1, z2, t, V, aL * V, aT * V, aV * V, R, Mu, W, Z, inf, 0])
+    # Screens and histories at the benchmark's parameters.
+    for x, y, z1, z2 in ((50.0, 0, 0, 3), (50.0, 0, 2, 5), (50.0, 4, 5, 10), (210.0, 6, 1, 20), (30.0, 5, 1, 1)):
+        for t, Dur, g, hl in ((3650.0, 1825.0, 0, "5 y source"), (9000.0, 1825.0, 0, "long after a 5 y source"),
+                              (30000.0, 1825.0, 0, "very long after"), (3650.0, inf, math.log(2) / 3000, "depleting"),
+                              (3650.0, inf, 0.01, "depleting fast"), (7300.0, 1825.0, 0.01, "depleting, stopped")):
+            add("history %s x=%g y=%g z=[%g,%g] t=%g" % (hl, x, y, z1, z2, t),
+                [x, y, z1, z2, t, V, aL * V, aT * V, aV * V, R, Mu, W, Z, Dur, g])
+    doc = header("Exact3DAt and DomenicoAt at the extremes: Peclet numbers 1e-2 and 1e6 at the receptor, "
+                 "values far below the source, well screens, receptors inside and below the source, "
+                 "finite-duration and depleting sources")
+    doc["exact_formula"] = ("int over ages max(0, t - duration) .. t of x/(2 sqrt(pi Dx' tau^3)) exp(-Mu tau - "
+                            "(x - V' tau)^2/(4 Dx' tau)) Fy(tau) <Fz(tau)> exp(-depletion (t - tau)) dtau; primes: "
+                            "divided by R; <Fz> the mean of Fz over [top, bottom] from the antiderivative of erf")
+    doc["domenico_formula"] = ("longitudinal factor of the depleting source (depletion g <= Mu: exp(-g t) L(t; Mu-g); "
+                               "g > Mu: exp(-g max(t - R x/V, 0)) L(t; Mu)) minus exp(-g duration) times the same at "
+                               "t - duration; L = 1/2 exp(x/(2 ax)(1-q)) erfc((x - V t q/R)/(2 sqrt(ax V t/R))); "
+                               "times the transverse factors at the travel distance (vertical one averaged)")
+    doc["sources"] = ["exact: time integral of the point-source kernel (e.g. Wexler 1992, USGS TWRI 3-B7)",
+                      "Domenico (1987), J. Hydrology 91, 49-58"]
+    doc["cases"] = cases
+    write("analytic_3d_extremes.json", doc)
+    print("3d extremes", len(cases), "%.0fs" % (time.time() - t0), file=sys.stderr)
+
+
+# ---------------------------------------------------------------------------
 # Puffs
 # ---------------------------------------------------------------------------
 
@@ -886,3 +1062,5 @@ if __name__ == "__main__":
         gen_3d()
     if what in ("1dhist", "all"):
         gen_1d_history()
+    if what in ("3dx", "all"):
+        gen_3d_extremes()
