@@ -24,17 +24,21 @@ import "math"
 // exp(-A - u^2) times the bounded factor sigma^2/(sigma^2 + sigma*^2),
 // where A = 2(sigma*^2 - beta) is the steady 1D attenuation by decay. The
 // sharp kernel of high Peclet numbers becomes a unit-width Gaussian in u.
-// A fixed rule (see exact3DFast) takes the cases whose integrand it can
-// certify; the others go to adaptive Gauss-Legendre bisection on panels in
-// u refined where the transverse factors change (exact3DRigorous), which
-// reaches the tolerance at every Peclet number. Exact3D(x, 0, 0, t, p,
-// Source{+Inf, +Inf}) equals OgataBanks(x, t, p).
+// A fixed nested rule on one window around the weight's peak
+// (kernel3D.fast, exact3d_fast.go) takes the cases whose value it can
+// vouch for, typically with 31 evaluations of the integrand; the others go
+// to adaptive Gauss-Legendre bisection on panels in u refined where the
+// transverse factors change and towards the limits (kernel3D.rigorous),
+// which reaches the tolerance at every Peclet number. The value depends
+// only on the inputs of the one call. Exact3D(x, 0, 0, t, p,
+// Source{+Inf, +Inf}) equals OgataBanks(x, t, p) to that accuracy.
 func Exact3D(x, y, z, t float64, p Params, s Source) float64 {
 	return Exact3DAt(Point{X: x, Y: y, Top: z, Bottom: z}, t, p, s, History{})
 }
 
-// exactRelTol is the relative accuracy asked of the adaptive quadrature;
-// its error estimates are conservative, so the achieved accuracy is better.
+// exactRelTol is the relative accuracy asked of the exact 3D integral:
+// of the adaptive quadrature, whose error estimates are conservative, and
+// of the fast path, whose thresholds are set for it (fastAgreeSmooth).
 const exactRelTol = 1e-7
 
 // Exact3DAt is Exact3D for a receptor depth interval (the value is averaged
