@@ -54,6 +54,15 @@ func OgataBanksAt(x, t float64, p Params, inlet Inlet, h History) float64 {
 			return clamp01(c)
 		}
 	}
+	if inlet == ThirdType && x == 0 {
+		// The flux-pulse kernel is written relative to the first-type one,
+		// which vanishes at the inlet. There the resident concentration of
+		// the flux inlet is integral_0^inf exp(-s) C1(s D/V, t) ds, C1 the
+		// first-type solution for the same history (the transform under
+		// which V C - D dC/dx at x = 0 equals V C1(0, t); see fluxIntegral).
+		c1 := func(xx float64) float64 { return OgataBanksAt(xx, t, p, FirstType, h) }
+		return clamp01(fluxIntegral(0, t, p, c1, false, 10*historyRelTol))
+	}
 	inf := math.Inf(1)
 	return clamp01(exact3DKernel(Point{X: x}, t, p, Source{Width: inf, Depth: inf}, h, historyRelTol, inlet == ThirdType))
 }
