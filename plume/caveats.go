@@ -40,6 +40,8 @@ const (
 	CaveatNameNotRecognized = "contaminant_name_not_recognized"
 	// The steady state exceeds the level, but no requested time does.
 	CaveatExceedsAfterTimes = "exceedance_after_requested_times"
+	// How transect mass discharges and stream concentrations are computed.
+	CaveatTransectAssumptions = "transect_discharge_assumptions"
 )
 
 // ScreeningCaution is the message of the general caution on every result.

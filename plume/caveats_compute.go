@@ -57,14 +57,21 @@ func (m *model) modelCaveats(res *Result, pts []Point, run methods, fm fmtr) {
 			"The seepage velocity %s is outside the range usually met in aquifers (%s to %s, common practice); check the units and inputs.",
 			fm.velocity(m.v), fm.velocity(PlausibleVelocityMin), fm.velocity(PlausibleVelocityMax))
 	}
-	if m.solubility != nil && m.kind != SourceKindInstantaneous && m.c0 > *m.solubility {
-		res.caveat(CaveatAboveSolubility, SeverityWarning, "",
-			"The source concentration %s is above the aqueous solubility %s: a separate (non-aqueous) phase is likely, and the source may last much longer than a dissolved-only model assumes.",
-			fm.conc(m.c0), fm.conc(*m.solubility))
+	for i := range m.sourceCount() {
+		s := m.source(i)
+		if m.solubility != nil && s.kind != SourceKindInstantaneous && s.c0 > *m.solubility {
+			res.caveat(CaveatAboveSolubility, SeverityWarning, "",
+				"The source concentration %s%s is above the aqueous solubility %s: a separate (non-aqueous) phase is likely, and the source may last much longer than a dissolved-only model assumes.",
+				fm.conc(s.c0), sourceLabel(s), fm.conc(*m.solubility))
+		}
 	}
 	if m.screening == nil {
 		res.caveat(CaveatNoScreeningLevel, SeverityWarning, "",
 			"No screening level was given or found in the reference table, so nothing was compared: exceeds_screening_level is null for every receptor. Give contaminant.screening_level (for example the drinking-water limit that applies).")
+	}
+	if len(res.Transects) > 0 {
+		res.caveat(CaveatTransectAssumptions, SeverityNote, "",
+			"Transect mass discharges are advective only (the Darcy flux n_e v across the line times the concentration, integrated over the line and its depth interval; dispersive flux is not counted). A stream concentration assumes all of the discharge enters the stream and mixes fully in the given stream flow, with no dilution by the stream's own groundwater inflow beyond that flow.")
 	}
 	if msg := nameMessage(res.Derived.ReferenceCompound, m.name); msg != "" {
 		res.caveat(CaveatNameNotRecognized, SeverityWarning, "", "%s", msg)
@@ -249,4 +256,12 @@ func nameMessage(matched, name string) string {
 		return fmt.Sprintf("contaminant.name %q is not in the reference table; did you mean %q? Nothing was taken from the table (no default Koc, screening level or solubility): correct the name to use the table's values, or give them all.", name, s)
 	}
 	return ""
+}
+
+// sourceLabel names one of several sources in a message ("" for a lone one).
+func sourceLabel(s *sourceParams) string {
+	if s.id == "" {
+		return ""
+	}
+	return fmt.Sprintf(" of source %q", s.id)
 }

@@ -13,6 +13,20 @@ type Scenario struct {
 	Contaminant Contaminant `json:"contaminant"`
 	// Source geometry, strength and history, in site coordinates.
 	Source Source `json:"source"`
+	// Several sources instead of Source (3D planar sources sharing the
+	// aquifer and the flow direction); results are their superposition.
+	Sources []Source `json:"sources,omitempty"`
+	// Transects (a creek reach, a property line) through which the
+	// advective mass discharge is reported.
+	Transects []Transect `json:"transects,omitempty"`
+	// With several sources, report each source's contribution at each
+	// receptor (receptors[].contributions).
+	Contributions bool `json:"contributions,omitempty"`
+	// Coordinate reference system of the site frame, "EPSG:NNNN": a
+	// projected CRS whose linear unit matches units.length (metre: m; US
+	// survey or international foot: ft). With it GeoJSON outputs are in WGS
+	// 84 longitude/latitude and receptors may be given as lon, lat.
+	CRS string `json:"crs,omitempty"`
 	// Receptors (wells, parcels, stream points) in site coordinates; at least one.
 	Receptors []Receptor `json:"receptors"`
 	// Times at which to report concentrations, T, each >= 0 and finite, on
@@ -39,6 +53,10 @@ type Units struct {
 	// over time: "m/d", "ft/d", "m/s", "cm/s", "m/yr", "ft/yr" or "gpd/ft2"
 	// (US gallons per day per square foot). Default: length/time.
 	Conductivity string `json:"conductivity,omitempty"`
+	// Unit of mass discharge in responses: "g/d" with times in days,
+	// "kg/yr" with times in years. Set by the engine; a request may leave it
+	// out or give that same value.
+	MassDischarge string `json:"mass_discharge,omitempty"`
 }
 
 // Aquifer holds the hydraulic and sorption properties of the saturated zone.
@@ -112,6 +130,8 @@ type Contaminant struct {
 // Depth is a vertical rectangle (3D methods); with neither it is a 1D column
 // (Ogata-Banks) whose inlet type is Inlet.
 type Source struct {
+	// Identifier of the source in a list of several (sources[]); default "S<index+1>".
+	ID string `json:"id,omitempty"`
 	// Site x (east) of the centre of the source's downgradient face, L; default 0.
 	X *float64 `json:"x"`
 	// Site y (north) of the centre of the source's downgradient face, L; default 0.
@@ -139,15 +159,37 @@ type Source struct {
 	Inlet string `json:"inlet,omitempty"`
 }
 
+// Transect is a vertical rectangle standing on a line in the site frame
+// (a creek reach, a property boundary) through which the advective mass
+// discharge is reported.
+type Transect struct {
+	// Identifier echoed in the response; default "T<index+1>".
+	ID string `json:"id,omitempty"`
+	// Site coordinates of the line's ends, L.
+	From [2]float64 `json:"from"`
+	To   [2]float64 `json:"to"`
+	// Depth interval below the water table, L; top default 0, bottom required.
+	Top    *float64 `json:"top"`
+	Bottom *float64 `json:"bottom"`
+	// Flow of the stream that receives the discharge, L^3/T; with it the
+	// fully mixed stream concentration is reported.
+	StreamFlow *float64 `json:"stream_flow"`
+	// Surface-water screening level of the stream concentration, C.
+	ScreeningLevel *float64 `json:"screening_level"`
+}
+
 // Receptor is a point of interest in site coordinates: a point at depth Z or
 // a well screen from ScreenTop to ScreenBottom (depth-averaged).
 type Receptor struct {
 	// Identifier echoed in the response; default "R<index+1>".
 	ID string `json:"id,omitempty"`
-	// Site x (east), L, required.
+	// Site x (east), L; required unless lon and lat are given.
 	X *float64 `json:"x"`
-	// Site y (north), L, required.
+	// Site y (north), L; required unless lon and lat are given.
 	Y *float64 `json:"y"`
+	// WGS 84 longitude and latitude, degrees, instead of x and y (with crs).
+	Lon *float64 `json:"lon,omitempty"`
+	Lat *float64 `json:"lat,omitempty"`
 	// Depth below the water table, L, >= 0; default 0. Ignored when a screen is given.
 	Z *float64 `json:"z"`
 	// Depth of the top of the well screen below the water table, L, >= 0.
@@ -177,3 +219,11 @@ const (
 	InletConcentration = "concentration"
 	InletFlux          = "flux"
 )
+
+// PrimarySource is the scenario's source, or the first of several.
+func (sc Scenario) PrimarySource() Source {
+	if len(sc.Sources) > 0 {
+		return sc.Sources[0]
+	}
+	return sc.Source
+}

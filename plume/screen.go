@@ -42,7 +42,8 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 	}
 
 	res := &Result{
-		Engine:    Engine{Version: opt.EngineVersion, InputSHA256: InputSHA256(md.sc)},
+		Engine:    Engine{Version: opt.EngineVersion, InputSHA256: InputSHA256(md.given)},
+		CRS:       md.sc.CRS,
 		Units:     md.units,
 		Derived:   m.derived,
 		Receptors: make([]ReceptorResult, len(pts)),
@@ -68,6 +69,8 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 			return nil, err
 		}
 		res.Receptors[i] = m.screenReceptor(ctx, p, sp)
+		r := md.sc.Receptors[i]
+		res.Receptors[i].X, res.Receptors[i].Y = *r.X, *r.Y
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
@@ -89,7 +92,13 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 		}
 	}
 
+	if len(m.extra) > 0 && c.Contributions {
+		m.contributions(res, pts, sp)
+	}
+	m.allowances(res, pts, sp)
+	res.Transects = m.screenTransects(c, sp)
 	m.addCaveats(res, pts, run, opt, md.units, md.uf)
+	crsCaveat(res, md.sc)
 	res.fromCanonical(md.uf)
 	res.sanitize()
 	res.summarize(res.Derived.ScreeningLevel)
@@ -140,8 +149,8 @@ func (m *model) comparisonFloor() float64 {
 	if m.screening != nil {
 		return ComparisonLevelFraction * *m.screening
 	}
-	if m.c0 > 0 {
-		return ComparisonSourceFraction * m.c0
+	if c := m.referenceConcentration(); c > 0 && m.kind != SourceKindInstantaneous {
+		return ComparisonSourceFraction * c
 	}
 	return 1e-12
 }

@@ -174,6 +174,7 @@ func newMap(md *plume.Model, res *plume.Result, mo MapOptions, view string, mt M
 		Derived:   res.Derived,
 		Caveats:   res.Caveats,
 		Frame:     md.SiteFrame(),
+		CRS:       sc.CRS,
 		Receptors: make([]MapPoint, len(res.Receptors)),
 	}
 	if mo.DepthBottom != nil && view == ViewPlan {
