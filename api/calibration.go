@@ -17,6 +17,7 @@ type calibrationBody struct {
 	Observations []fit.Observation     `json:"observations"`
 	Fit          []string              `json:"fit"`
 	Bounds       map[string][2]float64 `json:"bounds"`
+	Compound     string                `json:"compound"`
 }
 
 // calibrations is POST /v1/calibrations: fit the chosen parameters to the
@@ -41,8 +42,8 @@ func (s *server) calibrations(c echo.Context) error {
 		res *fit.CalibrationResult
 		p   *Problem
 	}
-	a, p := compute(ctx, s, renameOutside("observations", "fit", "bounds"), func(ctx context.Context) (answer, error) {
-		res, err := fit.Calibrate(ctx, fit.CalibrationRequest{Scenario: sc, Observations: cb.Observations, Fit: cb.Fit, Bounds: cb.Bounds})
+	a, p := compute(ctx, s, renameOutside("observations", "fit", "bounds", "compound"), func(ctx context.Context) (answer, error) {
+		res, err := fit.Calibrate(ctx, fit.CalibrationRequest{Scenario: sc, Observations: cb.Observations, Fit: cb.Fit, Bounds: cb.Bounds, Compound: cb.Compound})
 		if err != nil {
 			return answer{}, err
 		}

@@ -16,6 +16,7 @@ type uncertaintyBody struct {
 	Realizations *int     `json:"realizations"`
 	Seed         *uint64  `json:"seed"`
 	Methods      []string `json:"methods"`
+	Compound     string   `json:"compound"`
 }
 
 // uncertainty is POST /v1/uncertainty: the scenario's distribution objects
@@ -52,7 +53,7 @@ func (s *server) uncertainty(c echo.Context) error {
 	if len(dt.notNumbers) > 0 {
 		return s.problemFromError(ctx, dt.notNumbers.Err(), scenarioField)
 	}
-	req := uncertainty.UncertaintyRequest{Template: sc, Parameters: dt.params, Methods: ub.Methods}
+	req := uncertainty.UncertaintyRequest{Template: sc, Parameters: dt.params, Methods: ub.Methods, Compound: ub.Compound}
 	if len(req.Methods) == 0 {
 		// The scenario's own closed forms, else exact (numeric only when asked
 		// for at the top level).
@@ -74,7 +75,7 @@ func (s *server) uncertainty(c echo.Context) error {
 	if err := uncertainty.CheckWorkload(req, s.cfg.MaxEvaluations); err != nil {
 		return s.problemFromError(ctx, err, nil)
 	}
-	res, p := compute(ctx, s, renameOutside("realizations", "seed", "methods"), func(ctx context.Context) (*uncertainty.UncertaintyResult, error) {
+	res, p := compute(ctx, s, renameOutside("realizations", "seed", "methods", "compound"), func(ctx context.Context) (*uncertainty.UncertaintyResult, error) {
 		return uncertainty.RunUncertainty(ctx, req, s.engineOptions())
 	})
 	if p != nil {

@@ -39,6 +39,9 @@ type CalibrationRequest struct {
 	// Optional bounds per fitted path, [low, high], 0 < low < high, in the
 	// field's unit; default [start/1000, start*1000].
 	Bounds map[string][2]float64
+	// The compound observed, for a scenario of several (contaminants[]);
+	// "" for a scenario of one. See plume.Model.Focus.
+	Compound string
 }
 
 // CalibrationResult is a fit, in the request's units.
@@ -218,6 +221,9 @@ type fitProblem struct {
 func newFitProblem(req CalibrationRequest, params []plume.Param) (*fitProblem, error) {
 	sc := req.Scenario
 	base, err := plume.Prepare(sc)
+	if err == nil {
+		base, err = base.Focus(req.Compound)
+	}
 	if err != nil {
 		return nil, err
 	}
@@ -349,6 +355,9 @@ func (pb *fitProblem) residuals(p []float64, r, model []float64) bool {
 		}
 	}
 	md, err := plume.Prepare(s)
+	if err == nil {
+		md, err = md.Focus(pb.req.Compound)
+	}
 	if err != nil {
 		return false
 	}
