@@ -24,6 +24,8 @@ type Problem struct {
 	Instance string `json:"instance,omitempty"`
 	// Every bad field, by JSON path (or query parameter name).
 	Errors []FieldProblem `json:"errors,omitempty"`
+	// Seconds of the Retry-After header; "" for none.
+	retryAfter string
 }
 
 // FieldProblem names one bad field and what is wrong with it.
@@ -43,28 +45,43 @@ func (p *Problem) Error() string {
 	return b.String()
 }
 
-// Problem types: a stable slug per class, a title and a status.
+// Problem types: a stable slug per class, a title, a status and, for a
+// 503, the Retry-After in seconds.
 type problemKind struct {
-	slug   string
-	title  string
-	status int
+	slug       string
+	title      string
+	status     int
+	retryAfter string
 }
 
 var (
-	kindMalformed   = problemKind{"malformed-request", "Malformed request", http.StatusBadRequest}
-	kindInvalid     = problemKind{"invalid-input", "Input out of range", http.StatusUnprocessableEntity}
-	kindTooLarge    = problemKind{"too-large", "Request over the limits", http.StatusRequestEntityTooLarge}
-	kindTimeout     = problemKind{"deadline-exceeded", "Computation deadline exceeded", http.StatusServiceUnavailable}
-	kindNotFound    = problemKind{"not-found", "No such resource", http.StatusNotFound}
-	kindMethod      = problemKind{"method-not-allowed", "Method not allowed", http.StatusMethodNotAllowed}
-	kindMediaType   = problemKind{"unsupported-media-type", "Unsupported media type", http.StatusUnsupportedMediaType}
-	kindNotAccept   = problemKind{"not-acceptable", "No acceptable representation", http.StatusNotAcceptable}
-	kindInternal    = problemKind{"internal-error", "Internal error", http.StatusInternalServerError}
+	kindMalformed = problemKind{"malformed-request", "Malformed request", http.StatusBadRequest, ""}
+	kindInvalid   = problemKind{"invalid-input", "Input out of range", http.StatusUnprocessableEntity, ""}
+	kindTooLarge  = problemKind{"too-large", "Request over the limits", http.StatusRequestEntityTooLarge, ""}
+	kindTimeout   = problemKind{"deadline-exceeded", "Computation deadline exceeded", http.StatusServiceUnavailable, "60"}
+	kindNotFound  = problemKind{"not-found", "No such resource", http.StatusNotFound, ""}
+	kindMethod    = problemKind{"method-not-allowed", "Method not allowed", http.StatusMethodNotAllowed, ""}
+	kindMediaType = problemKind{"unsupported-media-type", "Unsupported media type", http.StatusUnsupportedMediaType, ""}
+	kindNotAccept = problemKind{"not-acceptable", "No acceptable representation", http.StatusNotAcceptable, ""}
+	kindInternal  = problemKind{"internal-error", "Internal error", http.StatusInternalServerError, ""}
+	// The request's body did not arrive within the body timeout.
+	kindBodyTimeout = problemKind{"body-timeout", "Request body timeout", http.StatusRequestTimeout, ""}
+	// The request line and headers are over the header limit.
+	kindHeaderTooLarge = problemKind{"header-too-large", "Request header fields too large", http.StatusRequestHeaderFieldsTooLarge, ""}
+	// The server is shutting down: the computation was cancelled.
+	kindShuttingDown = problemKind{"shutting-down", "Server shutting down", http.StatusServiceUnavailable, "1"}
+	// The client closed the connection first (499, a common convention for
+	// logs; nobody receives it).
+	kindClientGone  = problemKind{"client-closed-request", "Client closed the request", statusClientClosed, ""}
 	problemTypeBase = "/problems/"
 )
 
+// statusClientClosed is the status logged and counted for a request whose
+// client went away before its answer (common practice: 499).
+const statusClientClosed = 499
+
 func newProblem(k problemKind, detail string, errs ...FieldProblem) *Problem {
-	return &Problem{Type: problemTypeBase + k.slug, Title: k.title, Status: k.status, Detail: detail, Errors: errs}
+	return &Problem{Type: problemTypeBase + k.slug, Title: k.title, Status: k.status, Detail: detail, Errors: errs, retryAfter: k.retryAfter}
 }
 
 // writeProblem sends p as application/problem+json.
@@ -76,8 +93,11 @@ func writeProblem(c echo.Context, p *Problem) error {
 	if err != nil { // cannot happen: only strings and ints
 		body = []byte(`{"type":"/problems/internal-error","title":"Internal error","status":500,"detail":"could not encode the problem"}`)
 	}
-	if p.Status == http.StatusServiceUnavailable {
-		c.Response().Header().Set("Retry-After", "60")
+	switch {
+	case p.retryAfter != "":
+		c.Response().Header().Set("Retry-After", p.retryAfter)
+	case p.Status == http.StatusServiceUnavailable:
+		c.Response().Header().Set("Retry-After", kindTimeout.retryAfter)
 	}
 	return c.Blob(p.Status, "application/problem+json", body)
 }

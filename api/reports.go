@@ -6,7 +6,6 @@ import (
 	_ "embed"
 	"fmt"
 	"html/template"
-	"net/http"
 	"strconv"
 	"strings"
 
@@ -66,8 +65,7 @@ func (s *server) reports(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	c.Response().Header().Set("Content-Security-Policy", "default-src 'none'; style-src 'unsafe-inline'; img-src data:")
-	return c.Blob(http.StatusOK, "text/html; charset=utf-8", page)
+	return s.send(c, &reply{contentType: "text/html; charset=utf-8", body: page, header: [][2]string{{headerCSP, contentPolicy}}})
 }
 
 // reportView is what the page template shows.
