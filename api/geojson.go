@@ -1,12 +1,6 @@
 package api
 
-import (
-	"net/http"
-
-	"github.com/labstack/echo/v4"
-
-	"downgradient/plume"
-)
+import "downgradient/plume"
 
 // featureCollection is an RFC 7946 FeatureCollection of receptor points.
 // Coordinates are in the site frame and the request's length unit (by prior
@@ -86,8 +80,4 @@ func buildGeoJSON(sc plume.Scenario, res *plume.Result) featureCollection {
 		})
 	}
 	return fc
-}
-
-func writeGeoJSON(c echo.Context, sc plume.Scenario, res *plume.Result) error {
-	return writeJSON(c, http.StatusOK, mimeGeoJSON, buildGeoJSON(sc, res))
 }
