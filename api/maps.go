@@ -31,6 +31,9 @@ func (s *server) plumeMaps(c echo.Context) error {
 	if p := decodeBody(body, &mb, true); p != nil {
 		return p
 	}
+	if p := mb.Scenario.checkDescription(); p != nil {
+		return p.under("scenario")
+	}
 	ctx := c.Request().Context()
 	if err := plume.CheckWorkload(mb.Scenario.Scenario, s.cfg.MaxEvaluations); err != nil {
 		return s.problemFromError(ctx, err, func(f string) string { return "scenario." + f })

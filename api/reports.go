@@ -38,8 +38,8 @@ var reportTemplate = template.Must(template.New("report").Funcs(template.FuncMap
 // reports is POST /v1/reports: one self-contained HTML summary of a scenario.
 func (s *server) reports(c echo.Context) error {
 	body, _ := c.Get(ctxBody).([]byte)
-	var sb scenarioBody
-	if p := decodeBody(body, &sb, true); p != nil {
+	sb, p := decodeScenarioBody(body)
+	if p != nil {
 		return p
 	}
 	sc := sb.Scenario

@@ -78,9 +78,31 @@ type scenarioBody struct {
 
 // decodeScenario decodes a body that has passed schema validation.
 func decodeScenario(body []byte) (plume.Scenario, *Problem) {
-	var sb scenarioBody
-	p := decodeBody(body, &sb, true)
+	sb, p := decodeScenarioBody(body)
 	return sb.Scenario, p
+}
+
+// decodeScenarioBody decodes a scenario body with its description.
+func decodeScenarioBody(body []byte) (scenarioBody, *Problem) {
+	var sb scenarioBody
+	if p := decodeBody(body, &sb, true); p != nil {
+		return sb, p
+	}
+	return sb, sb.checkDescription()
+}
+
+// checkDescription refuses a description with control characters (tabs
+// and line breaks allowed): the report prints it.
+func (sb scenarioBody) checkDescription() *Problem {
+	if sb.Description == nil {
+		return nil
+	}
+	var fe plume.FieldErrors
+	fe.CheckText("description", *sb.Description, true)
+	if len(fe) == 0 {
+		return nil
+	}
+	return newProblem(kindInvalid, "the description holds control characters", FieldProblem{Field: fe[0].Field, Message: fe[0].Message})
 }
 
 // decodeBody is the one body decoder: it decodes a body that has passed
