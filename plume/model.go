@@ -37,7 +37,8 @@ type PrepareOptions struct {
 }
 
 // Prepare validates sc (every bad field at once, as an *Error of kind
-// KindInvalid) and derives its model.
+// KindInvalid), derives its model and checks that every converted and
+// derived value is finite (checkFinite).
 func Prepare(sc Scenario, o PrepareOptions) (*Model, error) {
 	if err := Validate(sc); err != nil {
 		return nil, err
@@ -57,6 +58,9 @@ func Prepare(sc Scenario, o PrepareOptions) (*Model, error) {
 	md.m = derive(c, maxX)
 	for i := range md.pts {
 		md.m.classify(&md.pts[i])
+	}
+	if err := md.checkFinite(); err != nil {
+		return nil, err
 	}
 	return md, nil
 }
