@@ -18,7 +18,9 @@ import (
 	"net/http"
 	"os"
 	"os/signal"
+	"path/filepath"
 	"runtime/debug"
+	"strings"
 	"sync"
 	"syscall"
 	"time"
@@ -28,7 +30,10 @@ import (
 
 // version is the engine version reported in /healthz and engine.version; set
 // it at build time with -ldflags "-X main.version=1.2.3". Without that, the
-// module version or VCS revision of the build is used.
+// module version or VCS revision the Go build information holds is used,
+// and failing that (go run with -buildvcs=false) the commit the working
+// directory's git checkout is at, so that every answer can be traced to a
+// commit.
 var version = ""
 
 func engineVersion() string {
@@ -39,13 +44,78 @@ func engineVersion() string {
 		if v := bi.Main.Version; v != "" && v != "(devel)" {
 			return v
 		}
+		rev, dirty := "", ""
 		for _, s := range bi.Settings {
-			if s.Key == "vcs.revision" && len(s.Value) >= 12 {
-				return "dev+" + s.Value[:12]
+			switch {
+			case s.Key == "vcs.revision" && len(s.Value) >= 12:
+				rev = s.Value[:12]
+			case s.Key == "vcs.modified" && s.Value == "true":
+				dirty = "+dirty"
+			}
+		}
+		if rev != "" {
+			return "dev+" + rev + dirty
+		}
+	}
+	if rev := gitHead("."); rev != "" {
+		return "dev+" + rev + "(checkout)"
+	}
+	return "dev"
+}
+
+// gitHead returns the first 12 hex digits of the commit the git checkout in
+// dir is at, reading .git/HEAD and the ref it names (loose or packed);
+// "" when there is none. In a linked worktree .git is a file naming the
+// worktree's git directory, whose HEAD names a ref of the common one.
+func gitHead(dir string) string {
+	gitDir := filepath.Join(dir, ".git")
+	dirs := []string{gitDir}
+	if b, err := os.ReadFile(gitDir); err == nil { // a file: "gitdir: <path>"
+		wt, ok := strings.CutPrefix(strings.TrimSpace(string(b)), "gitdir: ")
+		if !ok {
+			return ""
+		}
+		if !filepath.IsAbs(wt) {
+			wt = filepath.Join(dir, wt)
+		}
+		dirs = []string{wt}
+		if c, err := os.ReadFile(filepath.Join(wt, "commondir")); err == nil {
+			common := strings.TrimSpace(string(c))
+			if !filepath.IsAbs(common) {
+				common = filepath.Join(wt, common)
+			}
+			dirs = append(dirs, common)
+		}
+	}
+	head, err := os.ReadFile(filepath.Join(dirs[0], "HEAD"))
+	if err != nil {
+		return ""
+	}
+	h := strings.TrimSpace(string(head))
+	if ref, ok := strings.CutPrefix(h, "ref: "); ok {
+		h = resolveRef(dirs, ref)
+	}
+	if len(h) < 12 || strings.Trim(h, "0123456789abcdef") != "" {
+		return ""
+	}
+	return h[:12]
+}
+
+// resolveRef finds ref, loose or packed, in the first of dirs that has it.
+func resolveRef(dirs []string, ref string) string {
+	for _, d := range dirs {
+		if b, err := os.ReadFile(filepath.Join(d, filepath.FromSlash(ref))); err == nil {
+			return strings.TrimSpace(string(b))
+		}
+		if packed, err := os.ReadFile(filepath.Join(d, "packed-refs")); err == nil {
+			for _, line := range strings.Split(string(packed), "\n") {
+				if sha, name, ok := strings.Cut(line, " "); ok && name == ref {
+					return sha
+				}
 			}
 		}
 	}
-	return "dev"
+	return ""
 }
 
 func main() {

@@ -10,6 +10,7 @@ import (
 	"net"
 	"net/http"
 	"os"
+	"path/filepath"
 	"strings"
 	"syscall"
 	"testing"
@@ -260,5 +261,61 @@ func TestShutdownAnswersStalledBody(t *testing.T) {
 	resp.Body.Close()
 	if resp.StatusCode != http.StatusServiceUnavailable || resp.Header.Get("Retry-After") == "" {
 		t.Errorf("stalled request: status %d, Retry-After %q", resp.StatusCode, resp.Header.Get("Retry-After"))
+	}
+}
+
+// The engine version identifies the commit even when the Go build holds no
+// VCS information (go run with -buildvcs=false): gitHead reads the
+// checkout's HEAD, a loose ref or a packed ref.
+func TestGitHead(t *testing.T) {
+	const sha = "0123456789abcdef0123456789abcdef01234567"
+	for _, tc := range []struct {
+		name  string
+		files map[string]string
+		want  string
+	}{
+		{"detached", map[string]string{"HEAD": sha + "\n"}, sha[:12]},
+		{"loose ref", map[string]string{"HEAD": "ref: refs/heads/main\n", "refs/heads/main": sha + "\n"}, sha[:12]},
+		{"packed ref", map[string]string{"HEAD": "ref: refs/heads/main\n", "packed-refs": "# pack-refs\n" + sha + " refs/heads/main\n"}, sha[:12]},
+		{"not a sha", map[string]string{"HEAD": "garbage\n"}, ""},
+		{"no checkout", nil, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := t.TempDir()
+			for name, body := range tc.files {
+				p := dir + "/.git/" + name
+				if err := os.MkdirAll(p[:strings.LastIndex(p, "/")], 0o755); err != nil {
+					t.Fatal(err)
+				}
+				if err := os.WriteFile(p, []byte(body), 0o644); err != nil {
+					t.Fatal(err)
+				}
+			}
+			if got := gitHead(dir); got != tc.want {
+				t.Errorf("gitHead = %q, want %q", got, tc.want)
+			}
+		})
+	}
+	// A linked worktree: .git is a file naming the worktree's git
+	// directory, whose HEAD names a ref of the common directory.
+	repo, wt := t.TempDir(), t.TempDir()
+	for name, body := range map[string]string{"worktrees/wt/HEAD": "ref: refs/heads/wt\n", "worktrees/wt/commondir": "../..\n",
+		"refs/heads/wt": sha + "\n"} {
+		p := filepath.Join(repo, name)
+		if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(p, []byte(body), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := os.WriteFile(filepath.Join(wt, ".git"), []byte("gitdir: "+filepath.Join(repo, "worktrees", "wt")+"\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if got := gitHead(wt); got != sha[:12] {
+		t.Errorf("linked worktree: gitHead = %q, want %q", got, sha[:12])
+	}
+	if v := engineVersion(); v == "dev" {
+		t.Errorf("engine version %q does not identify the build", v)
 	}
 }

@@ -35,6 +35,7 @@ const (
 	fixedBytes    = 16 << 10 // engine, units, derived parameters, general caveats, grid report
 	receptorBytes = 2500     // one receptor's fixed members, steady state, peak and caveats (JSON)
 	summaryBytes  = 150 + 9*numBytes
+	csvCodeBytes  = 300 // the caveat codes of a CSV row
 )
 
 // shape counts what a screening-like answer holds.
@@ -79,8 +80,10 @@ func screeningSize(sc plume.Scenario, format outputFormat) float64 {
 	if format == formatCSV {
 		// One row per receptor, time (and steady) and method: the id (quoted
 		// and escaped), x and y as given, z, plume_x, plume_y, the time,
-		// the method, the value and the flag.
-		perRow := float64(4*numBytes + 10 + 6 + 10)
+		// the method, the value, the status, the level, the flag, six
+		// source bounds, the caveat codes, the engine version and the
+		// input hash.
+		perRow := float64(11*(numBytes+1) + 10 + 24 + 6 + csvCodeBytes + 64 + 64 + 10)
 		rowsPerReceptor := (t + 1) * m
 		return fixedBytes + rowsPerReceptor*(2*ids+3*r+float64(sh.xyBytes)+perRow*r) + m*r*tb
 	}
@@ -88,7 +91,9 @@ func screeningSize(sc plume.Scenario, format outputFormat) float64 {
 	// {"time": t} plus one "method": value per method.
 	size := fixedBytes + r*receptorBytes + 8*ids + r*(t*(12+(12+numBytes)*m)+tb)
 	if format == formatGeoJSON {
-		size += r * (600 + 2*numBytes) // geometry and the flattened properties
+		// Geometry, site and flattened properties, and one attribute per
+		// method and time (and steady) named with the time and the units.
+		size += r*(1000+4*numBytes) + r*(t+1)*m*(40+numBytes) + r*m*tb
 	}
 	return size
 }

@@ -20,12 +20,19 @@ import (
 const (
 	paramTime   = "time"
 	paramMethod = "method"
+	paramFormat = "format"
 	steadyTime  = "steady"
 )
 
+// kindNotModelled is the problem of a receptor the model does not cover.
+var kindNotModelled = problemKind{"receptor-not-modelled", "Receptor not modelled", http.StatusUnprocessableEntity}
+
 // concentration is GET /v1/concentration: one receptor, one time (or the
 // steady state), one method, from query parameters named by the scenario's
-// dotted JSON paths; the answer is the bare number as text/plain.
+// dotted JSON paths; the answer is the bare number as text/plain (or, with
+// format=json, the value with its caveats), with the receptor's status,
+// the comparison with the screening level and the caveat codes in headers.
+// A receptor the model does not cover is a 422, never a number.
 func (s *server) concentration(c echo.Context) error {
 	q := c.QueryParams()
 	params := s.routes[http.MethodGet+" /v1/concentration"].Operation.Parameters
@@ -41,6 +48,12 @@ func (s *server) concentration(c echo.Context) error {
 		return newProblem(kindInternal, "the engine returned no receptor")
 	}
 	rr := res.Receptors[0]
+	if rr.Status == plume.StatusUpgradient {
+		return newProblem(kindNotModelled, fmt.Sprintf(
+			"the receptor lies upgradient of the source (%g %s along the flow from the source's downgradient face): the model covers only the downgradient side, so there is no value to return",
+			rr.PlumeX, res.Units.Length),
+			FieldProblem{Field: "receptor.x", Message: "upgradient of the source: not modelled (move the receptor downgradient, or check source.x, source.y and source.flow_azimuth_deg)"})
+	}
 	var v *float64
 	if steady {
 		v = plume.MethodValue(method, rr.SteadyState.Exact, rr.SteadyState.Domenico, rr.SteadyState.Numeric)
@@ -55,7 +68,71 @@ func (s *server) concentration(c echo.Context) error {
 	if math.IsNaN(*v) || math.IsInf(*v, 0) {
 		return newProblem(kindInternal, "the result could not be encoded")
 	}
+	setValueHeaders(c.Response().Header(), res, rr, *v)
+	if q.Get(paramFormat) == "json" {
+		cv := concentrationValue{Value: *v, Method: method, Status: rr.Status, ScreeningLevel: res.Derived.ScreeningLevel,
+			Units: res.Units, Engine: res.Engine, Caveats: receptorCaveats(res, rr.ID)}
+		cv.Time = steadyTime
+		if !steady {
+			cv.Time = rr.Series[0].Time
+		}
+		if l := res.Derived.ScreeningLevel; l != nil {
+			cv.Exceeds = new(*v >= *l && *v > 0)
+		}
+		return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, cv)
+	}
 	return c.String(http.StatusOK, formatNumber(*v))
+}
+
+// concentrationValue is the format=json answer of GET /v1/concentration.
+type concentrationValue struct {
+	Value          float64        `json:"value"`
+	Time           any            `json:"time"`
+	Method         string         `json:"method"`
+	Status         plume.Status   `json:"status"`
+	Exceeds        *bool          `json:"exceeds_screening_level"`
+	ScreeningLevel *float64       `json:"screening_level"`
+	Units          plume.Units    `json:"units"`
+	Engine         plume.Engine   `json:"engine"`
+	Caveats        []plume.Caveat `json:"caveats"`
+}
+
+// receptorCaveats are the caveats of res that apply to one receptor.
+func receptorCaveats(res *plume.Result, id string) []plume.Caveat {
+	out := []plume.Caveat{}
+	for _, cv := range res.Caveats {
+		if cv.ReceptorID == "" || cv.ReceptorID == id {
+			out = append(out, cv)
+		}
+	}
+	return out
+}
+
+// setValueHeaders puts what must travel with a single value into headers:
+// the receptor's status, the comparison with the screening level, the
+// caveat codes, the general caution and the engine version and input hash.
+func setValueHeaders(h http.Header, res *plume.Result, rr plume.ReceptorResult, v float64) {
+	h.Set("X-Receptor-Status", string(rr.Status))
+	exceeds := "none"
+	if l := res.Derived.ScreeningLevel; l != nil {
+		exceeds = comparison(rr.Status, l, v)
+		h.Set("X-Screening-Level", formatNumber(*l))
+	}
+	h.Set("X-Exceeds-Screening-Level", exceeds)
+	h.Set("X-Caveat-Codes", strings.Join(res.CaveatCodes(rr.ID), ";"))
+	h.Set("X-Screening-Caution", plume.ScreeningCaution)
+	h.Set("X-Engine-Version", headerSafe(res.Engine.Version))
+	h.Set("X-Input-SHA256", res.Engine.InputSHA256)
+}
+
+// headerSafe keeps only printable ASCII in a header value.
+func headerSafe(s string) string {
+	return strings.Map(func(r rune) rune {
+		if r < 0x20 || r > 0x7e {
+			return -1
+		}
+		return r
+	}, s)
 }
 
 // queryFieldName maps plume's JSON paths back to the query parameter names:
@@ -120,6 +197,8 @@ func scenarioFromQuery(q url.Values, params openapi3.Parameters) (sc plume.Scena
 			continue
 		case paramMethod:
 			method = raw
+			continue
+		case paramFormat:
 			continue
 		}
 		v, p := queryValue(name, raw, schema)

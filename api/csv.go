@@ -25,7 +25,11 @@ func unitToken(u string) string {
 func csvHeader(u plume.Units) []string {
 	L, T, C := unitToken(u.Length), unitToken(u.Time), unitToken(u.Concentration)
 	return []string{"receptor_id", "x_" + L, "y_" + L, "z_" + L, "plume_x_" + L, "plume_y_" + L,
-		"time_" + T, "method", "concentration_" + C, "above_screening_level"}
+		"time_" + T, "method", "concentration_" + C, "status", "screening_level_" + C, "above_screening_level",
+		"allowable_source_concentration_steady_" + C, "allowable_source_concentration_within_times_" + C,
+		"dilution_attenuation_factor_steady", "dilution_attenuation_factor_within_times",
+		"allowable_scale_factor_steady", "allowable_scale_factor_within_times",
+		"caveat_codes", "engine_version", "input_sha256"}
 }
 
 // formatNumber writes a finite number in the shortest form that reads back exactly.
@@ -42,7 +46,11 @@ func csvSafe(s string) string {
 
 // encodeCSV writes the long-format table: one row per receptor, time and
 // method, then the steady-state rows with time "steady". Site coordinates x
-// and y are the request's; the rest comes from the result.
+// and y are the request's; the rest comes from the result. Each row carries
+// what it needs to be read alone: the receptor's status, the screening
+// level, the comparison (empty when nothing was compared), the caveat codes
+// that apply, and the engine version and input hash (as columns, so that
+// every RFC 4180 parser reads the file).
 func encodeCSV(sc plume.Scenario, res *plume.Result) ([]byte, bool) {
 	var buf bytes.Buffer
 	w := csv.NewWriter(&buf)
@@ -61,20 +69,25 @@ func encodeCSV(sc plume.Scenario, res *plume.Result) ([]byte, bool) {
 		}
 		return num(*p)
 	}
-	above := func(c float64) string {
-		if res.Derived.ScreeningLevel == nil {
-			return ""
-		}
-		return strconv.FormatBool(c >= *res.Derived.ScreeningLevel)
-	}
+	level := res.Derived.ScreeningLevel
 	for i, rr := range res.Receptors {
 		var x, y *float64
 		if i < len(sc.Receptors) {
 			x, y = sc.Receptors[i].X, sc.Receptors[i].Y
 		}
 		prefix := []string{csvSafe(rr.ID), optNum(x), optNum(y), num(rr.Z), num(rr.PlumeX), num(rr.PlumeY)}
+		codes := strings.Join(res.CaveatCodes(rr.ID), ";")
+		allow := func(a *plume.Allowance) []string {
+			if a == nil {
+				return []string{"", ""}
+			}
+			return []string{optNum(a.SteadyState), optNum(a.WithinTimes)}
+		}
+		bounds := append(append(allow(rr.AllowableSourceConcentration), allow(rr.DilutionAttenuationFactor)...), allow(rr.AllowableScaleFactor)...)
 		row := func(t, method string, c float64) {
-			rec := append(append([]string(nil), prefix...), t, method, num(c), above(c))
+			rec := append(append([]string(nil), prefix...), t, method, num(c), string(rr.Status), optNum(level),
+				comparison(rr.Status, level, c))
+			rec = append(append(rec, bounds...), codes, csvSafe(res.Engine.Version), res.Engine.InputSHA256)
 			_ = w.Write(rec)
 		}
 		for _, sp := range rr.Series {
@@ -93,4 +106,14 @@ func encodeCSV(sc plume.Scenario, res *plume.Result) ([]byte, bool) {
 	}
 	w.Flush()
 	return buf.Bytes(), finite
+}
+
+// comparison is a value's comparison with the screening level as text:
+// "true" or "false", or "" when nothing is compared (no level known, or
+// the receptor is not modelled).
+func comparison(status plume.Status, level *float64, c float64) string {
+	if level == nil || status == plume.StatusUpgradient {
+		return ""
+	}
+	return strconv.FormatBool(c >= *level && c > 0)
 }

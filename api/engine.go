@@ -114,6 +114,9 @@ func (s *server) problemFromError(ctx context.Context, err error, rename func(st
 	if !ok {
 		k = kindInternal
 	}
+	if k == kindInvalid {
+		k = invalidKind(fps)
+	}
 	return newProblem(k, detail, fps...)
 }
 

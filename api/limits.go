@@ -25,7 +25,7 @@ func DefaultMaxHeavy() int { return max(2, runtime.GOMAXPROCS(0)) }
 
 // kindBusy is the problem of a request refused because every computation
 // slot is taken and the waiting line is full (or the wait too long).
-var kindBusy = problemKind{"server-busy", "Server busy", http.StatusServiceUnavailable, "1"}
+var kindBusy = problemKind{"server-busy", "Server busy", http.StatusServiceUnavailable}
 
 // limiter bounds the computing requests: at most cap(slots) run at once and
 // at most maxWaiting wait, each for at most wait. A request takes its slot

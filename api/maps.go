@@ -7,6 +7,7 @@ import (
 	"fmt"
 
 	"github.com/labstack/echo/v4"
+	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
 
 	"downgradient/plume"
@@ -69,7 +70,7 @@ func (s *server) encodeMap(ctx context.Context, format string, mp *maps.Map, hin
 	case "csv":
 		return s.capBytes(&reply{contentType: mimeCSV + "; charset=utf-8", body: gridCSV(mp)}, mapReduce...)
 	}
-	return s.encodeJSON(outlineCollection(mp), mimeGeoJSON, hint, mapReduce...)
+	return s.encodeJSON(newOutlineCollection(mp), mimeGeoJSON, hint, mapReduce...)
 }
 
 // negotiateMap picks geojson (default; also for application/json), grid or
@@ -124,28 +125,73 @@ func infoOf(mp *maps.Map) gridInfo {
 }
 
 // outlineCollection is the GeoJSON answer: one MultiPolygon feature per
-// level, with the map's context as foreign members.
-func outlineCollection(mp *maps.Map) *geojson.FeatureCollectionOf[outlineProps] {
-	fc := &geojson.FeatureCollectionOf[outlineProps]{Type: "FeatureCollection"}
+// level, type and features first (a GIS reader looks for them at the start
+// of the document), the map's context after them as foreign members. A
+// plan view of a scenario with a crs is in WGS 84 longitude/latitude.
+type outlineCollection struct {
+	Type              string                             `json:"type"`
+	Features          []*geojson.FeatureOf[outlineProps] `json:"features"`
+	CoordinateFrame   string                             `json:"coordinate_frame"`
+	Engine            plume.Engine                       `json:"engine"`
+	Units             plume.Units                        `json:"units"`
+	View              string                             `json:"view"`
+	Time              maps.MapTime                       `json:"time"`
+	Depth             float64                            `json:"depth"`
+	DepthBottom       *float64                           `json:"depth_bottom"`
+	Method            string                             `json:"method"`
+	Levels            []float64                          `json:"levels"`
+	Grid              gridInfo                           `json:"grid"`
+	SteadyPlumeLength *maps.PlumeLength                  `json:"steady_plume_length"`
+	Derived           plume.Derived                      `json:"derived"`
+	Caveats           []plume.Caveat                     `json:"caveats"`
+}
+
+func newOutlineCollection(mp *maps.Map) *outlineCollection {
+	fc := &outlineCollection{Type: "FeatureCollection", Features: []*geojson.FeatureOf[outlineProps]{},
+		Engine: mp.Engine, Units: mp.Units, View: mp.View, Time: mp.Time, Depth: mp.Depth, DepthBottom: mp.DepthBottom,
+		Method: mp.Method, Levels: mp.Levels, Grid: infoOf(mp), SteadyPlumeLength: mp.SteadyPlumeLength,
+		Derived: mp.Derived, Caveats: mp.Caveats}
+	project := outlineFrame(mp, &fc.CoordinateFrame)
 	for i, o := range mp.Outlines {
 		fc.Features = append(fc.Features, &geojson.FeatureOf[outlineProps]{
 			Type:     "Feature",
 			ID:       fmt.Sprintf("level-%d", i+1),
-			Geometry: o.Geometry,
+			Geometry: project(o.Geometry),
 			Properties: outlineProps{Level: o.Level, Area: o.Area, Length: o.Length, Width: o.Width,
 				Perimeter: o.Perimeter, Reach: o.Reach, Polygons: len(o.Geometry)},
 		})
 	}
-	if fc.Features == nil {
-		fc.Features = []*geojson.FeatureOf[outlineProps]{}
-	}
-	fc.ExtraMembers = geojson.Properties{
-		"engine": mp.Engine, "units": mp.Units, "view": mp.View, "time": mp.Time,
-		"depth": mp.Depth, "depth_bottom": mp.DepthBottom, "method": mp.Method, "levels": mp.Levels,
-		"grid": infoOf(mp), "steady_plume_length": mp.SteadyPlumeLength,
-		"derived": mp.Derived, "caveats": mp.Caveats,
-	}
 	return fc
+}
+
+// outlineFrame returns the map from a map's outline coordinates to the
+// GeoJSON ones: WGS 84 longitude/latitude for a plan view with a crs, else
+// the map's own frame; frame says which.
+func outlineFrame(mp *maps.Map, frame *string) func(orb.MultiPolygon) orb.MultiPolygon {
+	same := func(g orb.MultiPolygon) orb.MultiPolygon { return g }
+	if mp.View == maps.ViewSection {
+		*frame = "vertical section: x is plume_x (along the flow from the source face) and y is depth below the water table, in " + mp.Units.Length
+		return same
+	}
+	toLonLat := geoFrame(mp.CRS, mp.Units, frame)
+	if mp.CRS == "" {
+		return same
+	}
+	return func(g orb.MultiPolygon) orb.MultiPolygon {
+		out := make(orb.MultiPolygon, len(g))
+		for i, poly := range g {
+			out[i] = make(orb.Polygon, len(poly))
+			for j, ring := range poly {
+				out[i][j] = make(orb.Ring, len(ring))
+				for k, pt := range ring {
+					if p := toLonLat(pt[0], pt[1]); p != nil {
+						out[i][j][k] = orb.Point{p.Coordinates[0], p.Coordinates[1]}
+					}
+				}
+			}
+		}
+		return out
+	}
 }
 
 // gridDoc is the ?format=grid answer.

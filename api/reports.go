@@ -110,7 +110,7 @@ type reportResult struct {
 	ID, PlumeX, PlumeY, Depth                  string
 	SteadyExact, SteadyDomenico, SteadyNumeric string
 	Peak, PeakTime, FirstExceedance            string
-	Exceeds, HasLevel                          bool
+	Exceeds, HasLevel, NotModelled             bool
 	DomenicoDeviation                          string
 }
 
@@ -268,7 +268,8 @@ func resultRows(res *plume.Result) []reportResult {
 		r := reportResult{ID: rr.ID, PlumeX: fmtReportNumber(rr.PlumeX), PlumeY: fmtReportNumber(rr.PlumeY), Depth: fmtReportNumber(rr.Z),
 			SteadyExact: optNum(rr.SteadyState.Exact), SteadyDomenico: optNum(rr.SteadyState.Domenico), SteadyNumeric: optNum(rr.SteadyState.Numeric),
 			Peak: fmtReportNumber(rr.Peak.Concentration), PeakTime: "steady state", FirstExceedance: optNum(rr.FirstExceedanceTime),
-			Exceeds: rr.ExceedsScreeningLevel, HasLevel: res.Derived.ScreeningLevel != nil, DomenicoDeviation: "—"}
+			Exceeds: rr.ExceedsScreeningLevel != nil && *rr.ExceedsScreeningLevel, HasLevel: res.Derived.ScreeningLevel != nil,
+			NotModelled: rr.Status == plume.StatusUpgradient, DomenicoDeviation: "—"}
 		if rr.Peak.Time != nil {
 			r.PeakTime = fmtReportNumber(*rr.Peak.Time)
 		}

@@ -2,6 +2,7 @@ package api
 
 import (
 	"bytes"
+	"downgradient/plume"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -74,7 +75,14 @@ func (s *server) validator(next echo.HandlerFunc) echo.HandlerFunc {
 		}
 		extra := queryIssues(c.QueryParams(), route.Operation.Parameters)
 		if err != nil || len(extra) > 0 {
-			return problemFromValidation(err, extra...)
+			p := problemFromValidation(err, extra...)
+			if p.Status == http.StatusUnprocessableEntity {
+				// Every bad field at once: add what the domain's own rules
+				// find in the same body (duplicates of a field dropped).
+				body, _ := c.Get(ctxBody).([]byte)
+				p = mergeDomainIssues(p, domainIssues(c.Path(), body))
+			}
+			return p
 		}
 		return next(c)
 	}
@@ -269,6 +277,70 @@ func collectIssues(err error, name string, out *[]issue) {
 		}
 		*out = append(*out, issue{name, err.Error(), kindInvalid})
 	}
+}
+
+// domainIssues decodes a body as best it can (a field of the wrong type is
+// left out) and returns what the domain's validation finds in it, named by
+// the body's JSON paths; nil for a route without a scenario body.
+func domainIssues(route string, body []byte) plume.FieldErrors {
+	var sc plume.Scenario
+	prefix := ""
+	switch route {
+	case "/v1/screenings", "/v1/reports", "/v1/plots":
+		_ = json.Unmarshal(body, &sc)
+	case "/v1/plume-maps", "/v1/uncertainty", "/v1/attenuation", "/v1/calibrations":
+		var env struct {
+			Scenario map[string]any `json:"scenario"`
+		}
+		if json.Unmarshal(body, &env) != nil || env.Scenario == nil {
+			return nil
+		}
+		extractUncertain(env.Scenario) // distribution objects stand at their medians
+		b, err := json.Marshal(env.Scenario)
+		if err != nil {
+			return nil
+		}
+		_ = json.Unmarshal(b, &sc)
+		prefix = "scenario."
+	default:
+		return nil
+	}
+	return plume.FieldsOf(plume.Validate(sc)).Prefixed(prefix)
+}
+
+// mergeDomainIssues adds the domain's findings to a 422 problem of the
+// schema check, one entry per field, and retitles it when every entry is a
+// missing field.
+func mergeDomainIssues(p *Problem, fe plume.FieldErrors) *Problem {
+	named := map[string]bool{}
+	for _, e := range p.Errors {
+		named[e.Field] = true
+	}
+	errs := append([]FieldProblem(nil), p.Errors...)
+	for _, e := range fe {
+		if !named[e.Field] {
+			named[e.Field] = true
+			errs = append(errs, FieldProblem{Field: e.Field, Message: e.Message})
+		}
+	}
+	out := newProblem(invalidKind(errs), fmt.Sprintf("%d field(s) failed validation", len(errs)), errs...)
+	out.Instance = p.Instance
+	return out
+}
+
+// invalidKind is kindMissing when every bad field is a missing one (their
+// messages start with "required", by convention of the schema check and
+// the domain), else kindInvalid.
+func invalidKind(errs []FieldProblem) problemKind {
+	for _, e := range errs {
+		if !strings.HasPrefix(e.Message, "required") {
+			return kindInvalid
+		}
+	}
+	if len(errs) == 0 {
+		return kindInvalid
+	}
+	return kindMissing
 }
 
 var quotedProperty = regexp.MustCompile(`property "([^"]+)"`)

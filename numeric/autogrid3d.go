@@ -5,17 +5,33 @@ import (
 	"math"
 )
 
+// design3 is a grid design of Problem3D, counted but not built.
 type design3 struct {
-	x, y, z Axis
-	pe      float64 // grid Peclet number along flow at the coarsest x cell
+	x, y, z gradedAxis
 }
 
-func (d design3) cells() float64 {
-	if d.x.oversize > 0 || d.y.oversize > 0 || d.z.oversize > 0 {
-		// Never fits a budget, whatever the budget: the axis was not built.
-		return math.Max(float64(d.x.N())*float64(d.y.N())*float64(d.z.N()), math.MaxInt64)
+// cells is the number of cells, in float64 (exact in magnitude however
+// large the design).
+func (d *design3) cells() float64 { return d.x.cells * d.y.cells * d.z.cells }
+
+// build places the faces of the three axes; only for a design that fits
+// the budget.
+func (d *design3) build() (x, y, z Axis) { return d.x.build(), d.y.build(), d.z.build() }
+
+// peclet is the grid Peclet number V dx/Dx along flow at the coarsest x
+// cell (at the mean x cell when the x axis has more than limit cells and
+// is not built).
+func (d *design3) peclet(p *Problem3D, limit float64) float64 {
+	return p.V * d.x.maxWidth(limit) / p.Dx
+}
+
+// fmtCount formats a cell count: the integer when it is moderate, else three
+// significant digits.
+func fmtCount(n float64) string {
+	if n <= 1e9 {
+		return fmt.Sprintf("%.0f", n)
 	}
-	return float64(d.x.N()) * float64(d.y.N()) * float64(d.z.N())
+	return fmt.Sprintf("%.3g", n)
 }
 
 // Growth rates of the graded axes: a cell is at most this fraction larger
@@ -64,6 +80,7 @@ func designGrid3(p *Problem3D, scale float64) design3 {
 			xrMin = math.Min(xrMin, r.X)
 		}
 	}
+	xrMax = math.Max(xrMax, transectX(p.Transects))
 	tl, steady := lastFinite(p.Times)
 	front := math.Inf(1)
 	if !steady {
@@ -101,14 +118,11 @@ func designGrid3(p *Problem3D, scale float64) design3 {
 	hzMax := math.Max(hz0, 0.5*sig(p.Dz, xEnd))
 	lz := math.Max(zs+5*sig(p.Dz, xEnd), zrMax+hzMax*scale)
 
-	d := design3{
-		x: gradedAxis(lx, nil, []refinePoint{{0, hx0}}, hxMax, growthX, scale),
-		y: gradedAxis(ly, []float64{b}, []refinePoint{{b, hy0}}, hyMax, growthYZ, scale),
-		z: gradedAxis(lz, []float64{zs}, []refinePoint{{zs, hz0}}, hzMax, growthYZ, scale),
+	return design3{
+		x: newGradedAxis(lx, nil, []refinePoint{{0, hx0}}, hxMax, growthX, scale),
+		y: newGradedAxis(ly, []float64{b}, []refinePoint{{b, hy0}}, hyMax, growthYZ, scale),
+		z: newGradedAxis(lz, []float64{zs}, []refinePoint{{zs, hz0}}, hzMax, growthYZ, scale),
 	}
-	_, dxMax := d.x.minMax()
-	d.pe = p.V * dxMax / p.Dx
-	return d
 }
 
 // defaultResolution divides every spacing of designGrid3 in Screen3D (on
@@ -116,33 +130,42 @@ func designGrid3(p *Problem3D, scale float64) design3 {
 // 5 % (measured worst 4.2 %, against 5.2 % without it) rather than at the edge of it.
 const defaultResolution = 1.15
 
-// designFor designs the grid and checks it against the budget. When it does
-// not fit, it searches the coarsening that would and says so.
-func designFor(p *Problem3D, budget int) (design3, error) {
+// designFor designs the grid, counts it and builds it when it fits the
+// budget. When it does not, it searches (by counting only, so the search
+// costs microseconds whatever the inputs) the coarsening that would fit and
+// says so in a BudgetError.
+func designFor(p *Problem3D, budget int) (x, y, z Axis, err error) {
 	refine := orDefault(p.Refine, 1) * defaultResolution
 	d := designGrid3(p, 1/refine)
 	need := d.cells()
 	if need <= float64(budget) {
-		return d, nil
+		x, y, z = d.build()
+		return x, y, z, nil
 	}
 	// Coarsen all spacings by a common factor until the grid fits.
 	lo, hi := 1/refine, 1/refine
-	for k := 0; k < 60; k++ {
+	found := false
+	for k := 0; k < 60 && !found; k++ {
 		hi *= 2
-		if designGrid3(p, hi).cells() <= float64(budget) {
-			break
-		}
+		c := designGrid3(p, hi)
+		found = c.cells() <= float64(budget)
 	}
-	var fit design3
+	if !found {
+		c := designGrid3(p, hi)
+		return x, y, z, cellBudgetError("Problem3D.CellBudget", need, budget, "need %.3g cells (%s x %s x %s) for grid Peclet <= %.3g but the budget is %d, and even all spacings %.3g times coarser need %s cells; reduce the extent of the domain (%.4g along flow: the farthest receptor, the latest time)",
+			need, fmtCount(d.x.cells), fmtCount(d.y.cells), fmtCount(d.z.cells), d.peclet(p, float64(budget)), budget, hi*refine, fmtCount(c.cells()), d.x.length())
+	}
 	for k := 0; k < 40; k++ {
 		mid := math.Sqrt(lo * hi)
-		if designGrid3(p, mid).cells() <= float64(budget) {
+		if c := designGrid3(p, mid); c.cells() <= float64(budget) {
 			hi = mid
 		} else {
 			lo = mid
 		}
 	}
-	fit = designGrid3(p, hi)
-	return design3{}, fmt.Errorf("%w: Problem3D.CellBudget: need %.3g cells (%d x %d x %d) for grid Peclet <= %.3g but the budget is %d; a budget of %d fits grid Peclet <= %.3g (all spacings %.3g times coarser, %d x %d x %d cells), which is less accurate; raise CellBudget to at least %.0f or loosen PecletMax/Refine",
-		ErrBudget, need, d.x.N(), d.y.N(), d.z.N(), d.pe, budget, budget, fit.pe, hi*refine, fit.x.N(), fit.y.N(), fit.z.N(), need)
+	fit := designGrid3(p, hi)
+	b := float64(budget)
+	return x, y, z, cellBudgetError("Problem3D.CellBudget", need, budget, "need %.3g cells (%s x %s x %s) for grid Peclet <= %.3g but the budget is %d; a budget of %d fits grid Peclet <= %.3g (all spacings %.3g times coarser, %s x %s x %s cells), which is less accurate; raise CellBudget to at least %s or loosen PecletMax/Refine",
+		need, fmtCount(d.x.cells), fmtCount(d.y.cells), fmtCount(d.z.cells), d.peclet(p, b), budget, budget, fit.peclet(p, b), hi*refine,
+		fmtCount(fit.x.cells), fmtCount(fit.y.cells), fmtCount(fit.z.cells), fmtCount(need))
 }

@@ -219,3 +219,76 @@ func (m *column) valueAt(x, t float64) float64 {
 	}
 	return mix(c0, m.c[0], x/m.centers[0])
 }
+
+// newColumn discretizes the column problem p on axis: storage R times the
+// cell volume (Simpson's rule on A(x)), face conductances A D / h, the inlet
+// conductance and the two dispersion matrices. It also returns the largest
+// grid Peclet number. A(x) is checked to be finite and > 0 at every face and
+// centre.
+func newColumn(p *Problem1D, axis Axis) (*column, float64, error) {
+	area := p.Area
+	if area == nil {
+		area = func(float64) float64 { return 1 }
+	}
+	n := axis.N()
+	a0 := area(0)
+	if !(a0 > 0) || math.IsInf(a0, 0) {
+		return nil, 0, invalid("Problem1D.Area", "A(0) must be finite and > 0, got %g", a0)
+	}
+	q := p.V * a0
+	dispAt := func(af float64) float64 { return p.Dm + (p.Dx-p.Dm)*a0/af }
+	centers := axis.centers()
+	stor := make([]float64, n)
+	cond := make([]float64, max(n-1, 0))
+	pe := 0.0
+	for i := 0; i < n; i++ {
+		xl, xr := axis.Faces[i], axis.Faces[i+1]
+		al, ac, ar := area(xl), area(centers[i]), area(xr)
+		for _, v := range [...]float64{al, ac, ar} {
+			if !(v > 0) || math.IsInf(v, 0) {
+				return nil, 0, invalid("Problem1D.Area", "A(x) must be finite and > 0 on [0, %g], got %g near x = %g", axis.Length(), v, centers[i])
+			}
+		}
+		// Simpson's rule for the cell volume.
+		stor[i] = p.R * (xr - xl) * (al + 4*ac + ar) / 6
+		if i < n-1 {
+			h := centers[i+1] - centers[i]
+			cond[i] = ar * dispAt(ar) / h
+			pe = math.Max(pe, (q/ar)*h/dispAt(ar))
+		}
+	}
+	pe = math.Max(pe, p.V*axis.Width(0)/p.Dx)
+	gIn := a0 * p.Dx / (0.5 * axis.Width(0))
+	gFirst := gIn
+	if p.Inlet == InletFlux {
+		gIn = gIn * q / (gIn + q)
+		gFirst = 0
+	}
+	m := &column{
+		n: n, centers: centers, stor: stor, half1mc: make([]float64, n), q: q,
+		disp: newDispersionMatrix(stor, cond, gFirst), inv: invert(stor), gIn: gIn, mu: p.Mu,
+		c: make([]float64, n), rhs: make([]float64, n), hist: p.History,
+		inletFirst: p.Inlet == InletConcentration, rec: p.Receptors,
+	}
+	m.dispCN = newDispersionMatrix(stor, cond, gFirst)
+	m.dispCN.fixedTheta = 0.5
+	return m, pe, nil
+}
+
+// invert is the element-wise reciprocal of s.
+func invert(s []float64) []float64 {
+	v := make([]float64, len(s))
+	for i, x := range s {
+		v[i] = 1 / x
+	}
+	return v
+}
+
+// minSlice is the smallest element of s (+Inf when empty).
+func minSlice(s []float64) float64 {
+	v := math.Inf(1)
+	for _, x := range s {
+		v = math.Min(v, x)
+	}
+	return v
+}

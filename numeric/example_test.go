@@ -48,5 +48,5 @@ func ExampleScreen1D() {
 	}
 	fmt.Printf("C/C0 = %.3f on %d cells\n", res.C[0][0], res.Grid.Cells)
 	// Output:
-	// C/C0 = 0.560 on 52 cells
+	// C/C0 = 0.560 on 53 cells
 }

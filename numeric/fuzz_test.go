@@ -12,10 +12,12 @@ import (
 // tiny included) to the input checks of Screen3D and Screen1D, with a small
 // cell budget and a short deadline so each input runs in milliseconds. It
 // fails when the solver panics, returns an error that is none of its
-// documented kinds (ErrInvalid, ErrBudget, ErrNotConverged, the context's
-// error), accepts a non-finite parameter, or returns a concentration that
-// is not finite or lies outside [0, 1] relative to the source (by more than
-// 1e-6: the scheme is bounded, see tvd.go). Seeds are below and in
+// documented kinds (ErrInvalid, ErrBudget (wrapped by every BudgetError,
+// the work budget's included), ErrNotConverged, the context's error),
+// outlives its deadline by more than 2 s, accepts a non-finite parameter,
+// or returns a concentration that is not finite or lies outside [0, 1]
+// relative to the source (by more than 1e-6: the scheme is bounded, see
+// tvd.go). Seeds are below and in
 // testdata/fuzz/FuzzSolverInputs; run longer with
 //
 //	go test ./numeric -run XXX -fuzz FuzzSolverInputs -fuzztime 5m
@@ -31,8 +33,19 @@ func FuzzSolverInputs(f *testing.F) {
 		if steady {
 			times = append(times, math.Inf(1))
 		}
-		ctx, cancel := context.WithTimeout(context.Background(), 200*time.Millisecond)
+		const deadline = 200 * time.Millisecond
+		ctx, cancel := context.WithTimeout(context.Background(), deadline)
 		defer cancel()
+		start := time.Now()
+		// Every loop that can run long checks the context or is bounded by
+		// a budget counted first, so no input may outlive the deadline by
+		// much (the margin allows for a loaded machine and the race
+		// detector).
+		defer func() {
+			if took := time.Since(start); took > deadline+2*time.Second {
+				t.Errorf("took %v against a deadline of %v", took, deadline)
+			}
+		}()
 		hist := History{Duration: dur, Depletion: dep}
 		var c [][]float64
 		var err error
@@ -79,15 +92,17 @@ func FuzzSolverInputs(f *testing.F) {
 // TestRegressionGradedAxisUnbounded is the crasher FuzzSolverInputs found
 // (seed 5 of the target): Screen3D with a fast, barely dispersive flow, a
 // 1 mm source and a receptor 1e9 m away. designGrid3 builds each graded
-// axis face by face (gradedAxis in grid.go) before designFor compares the
+// axis face by face (gradedAxis, now in graded.go) before designFor compares the
 // cell count with CellBudget, so the axis grows without bound: the process
 // runs out of memory within seconds, and the context is not checked during
 // the design. The same input reaches the solver through POST /v1/screenings
 // (seepage_velocity 1e6, dispersivities 1e-9, width and depth 1e-3,
 // receptor x 1e9, methods ["numeric"]): one request exhausts the server's
-// memory. Fixed: gradedAxis now counts the cells of each segment,
-// sum(ceil(phi)), before appending faces, and reports an axis beyond
-// maxAxisCells by count without building it.
+// memory. Fixed: a graded axis is counted in float64 (sum of ceil(phi)
+// over its segments) before it is built, and the grid is built only when
+// the count fits the budget (graded.go, designFor). The same input with the
+// receptor at 4e9 m, which still took 4.7 s in the budget search, is
+// TestDeadlineGridDesign.
 func TestRegressionGradedAxisUnbounded(t *testing.T) {
 	ctx, cancel := context.WithTimeout(context.Background(), time.Second)
 	defer cancel()

@@ -10,17 +10,7 @@ import (
 // Faces are strictly ascending; cell i spans [Faces[i], Faces[i+1]].
 type Axis struct {
 	Faces []float64
-	// oversize is the cell count of an automatic axis that was too long to
-	// build (more than maxAxisCells cells); Faces is then nil and the axis
-	// can only be counted, never solved on; oversizeLength is its length.
-	oversize       int
-	oversizeLength float64
 }
-
-// maxAxisCells bounds the cells of one automatically designed axis. An axis
-// needing more is reported by count without building its faces, so a design
-// far beyond any cell budget costs no memory.
-const maxAxisCells = 1 << 22
 
 // UniformAxis divides [0, length] into n equal cells.
 func UniformAxis(length float64, n int) Axis {
@@ -33,12 +23,7 @@ func UniformAxis(length float64, n int) Axis {
 }
 
 // N is the number of cells.
-func (a Axis) N() int {
-	if a.oversize > 0 {
-		return a.oversize
-	}
-	return len(a.Faces) - 1
-}
+func (a Axis) N() int { return len(a.Faces) - 1 }
 
 // Width of cell i, L.
 func (a Axis) Width(i int) float64 { return a.Faces[i+1] - a.Faces[i] }
@@ -67,11 +52,6 @@ func (a Axis) centers() []float64 {
 
 // minMax returns the smallest and largest cell width.
 func (a Axis) minMax() (lo, hi float64) {
-	if a.oversize > 0 {
-		// Not built: the mean width stands for both.
-		w := a.oversizeLength / float64(a.oversize)
-		return w, w
-	}
 	lo, hi = math.Inf(1), 0
 	for i := 0; i+1 < len(a.Faces); i++ {
 		w := a.Width(i)
@@ -120,81 +100,4 @@ func locate(centers []float64, p float64) (int, float64) {
 	}
 	i--
 	return i, (p - centers[i]) / (centers[i+1] - centers[i])
-}
-
-// refinePoint asks for cell size h at position at.
-type refinePoint struct{ at, h float64 }
-
-// gradedAxis builds faces on [0, hi] whose cell sizes follow
-// h(x) = scale * min(hmax, min_p (p.h + growth |x - p.at|)) (so a smaller
-// scale refines the whole axis uniformly, as a convergence study needs; the
-// ratio of neighbouring cells is about 1 + scale*growth), with every break point
-// inside (0, hi) a face. Cells are placed by equidistributing the integral of
-// 1/h over each segment between break points, so sizes vary smoothly.
-func gradedAxis(hi float64, breaks []float64, pts []refinePoint, hmax, growth, scale float64) Axis {
-	size := func(x float64) float64 {
-		h := hmax
-		for _, p := range pts {
-			h = math.Min(h, p.h+growth*math.Abs(x-p.at))
-		}
-		return scale * h
-	}
-	bs := []float64{0}
-	sorted := append([]float64(nil), breaks...)
-	sort.Float64s(sorted)
-	for _, b := range sorted {
-		if b > bs[len(bs)-1]*(1+1e-12) && b < hi*(1-1e-9) {
-			bs = append(bs, b)
-		}
-	}
-	bs = append(bs, hi)
-	// First count the cells (the integral of 1/size over each segment,
-	// rounded up), so that an axis beyond maxAxisCells is never built.
-	const samples = 512
-	total := 0.0
-	for s := 0; s+1 < len(bs); s++ {
-		a, b := bs[s], bs[s+1]
-		var phi float64
-		prev := 1 / size(a)
-		for k := 1; k <= samples; k++ {
-			x := a + (b-a)*float64(k)/samples
-			cur := 1 / size(x)
-			phi += 0.5 * (prev + cur) * (b - a) / samples
-			prev = cur
-		}
-		total += math.Max(math.Ceil(phi-1e-9), 1)
-	}
-	if !(total <= maxAxisCells) {
-		return Axis{oversize: int(math.Min(total, math.MaxInt32)), oversizeLength: hi}
-	}
-	faces := []float64{0}
-	xs := make([]float64, samples+1)
-	phi := make([]float64, samples+1)
-	for s := 0; s+1 < len(bs); s++ {
-		a, b := bs[s], bs[s+1]
-		prev := 1 / size(a)
-		xs[0], phi[0] = a, 0
-		for k := 1; k <= samples; k++ {
-			x := a + (b-a)*float64(k)/samples
-			cur := 1 / size(x)
-			xs[k] = x
-			phi[k] = phi[k-1] + 0.5*(prev+cur)*(x-xs[k-1])
-			prev = cur
-		}
-		n := int(math.Ceil(phi[samples] - 1e-9))
-		if n < 1 {
-			n = 1
-		}
-		k := 0
-		for m := 1; m < n; m++ {
-			target := phi[samples] * float64(m) / float64(n)
-			for phi[k+1] < target {
-				k++
-			}
-			w := (target - phi[k]) / (phi[k+1] - phi[k])
-			faces = append(faces, xs[k]+w*(xs[k+1]-xs[k]))
-		}
-		faces = append(faces, b)
-	}
-	return Axis{Faces: faces}
 }

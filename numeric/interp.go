@@ -34,3 +34,10 @@ func logMean(a, b float64) float64 {
 	}
 	return 0.5 * (a + b)
 }
+
+// clamp01 removes round-off excursions (of order 1e-16) outside the range
+// that the schemes guarantee in exact arithmetic: no negative values, no
+// value above the source.
+func clamp01(v float64) float64 {
+	return math.Min(1, math.Max(0, v))
+}

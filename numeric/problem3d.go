@@ -38,14 +38,31 @@ type Problem3D struct {
 	// below SteadyTolerance.
 	Times []float64
 
-	CellBudget int     // largest number of cells allowed; 0: DefaultCellBudget3D
+	CellBudget int // largest number of cells allowed; 0: DefaultCellBudget3D
+	// WorkBudget is the largest work allowed, cells times time steps
+	// (GridReport.CellSteps), in (0, 1e15]; 0: DefaultWorkBudget3D.
+	WorkBudget float64
 	Courant    float64 // largest V dt/(R dx), in (0, 1]; 0: 1
 	PecletMax  float64 // largest grid Peclet number V dx/Dx along flow, in (0, 100]; 0: 2
 	Refine     float64 // divides every automatic spacing (convergence studies), in (0, 1000]; 0: 1
 
 	// Grid, when X has faces, is used as given instead of the automatic
-	// design (all three axes start at 0; Y covers the half domain y >= 0).
+	// design (all three axes start at 0; Y covers the half domain y >= 0;
+	// with Sources see sources3d.go).
 	Grid *Grid3D
+
+	// Sources, when not empty, gives several source faces on one grid
+	// instead of the one source of Width, Depth and History (which must
+	// then be zero): each with its own position in the plume frame, size,
+	// strength and history, all in the aquifer above; the values are then
+	// C/C_ref, the sum of every source's Strength times its own C/Cs. See
+	// sources3d.go.
+	Sources []SourceFace
+
+	// Transects, when given, ask for the advective mass discharge through
+	// rectangles of planes x = const at every output time (see
+	// discharge.go); the automatic grid reaches every transect.
+	Transects []Transect
 }
 
 // Grid3D is an explicit structured grid.
@@ -64,10 +81,18 @@ type Result3D struct {
 	// SteadyBudget is the budget (in rates) of the steady state when one
 	// was asked for and the source is constant; nil otherwise.
 	SteadyBudget *SteadyBudget
+	// Discharge is V times the integral of C/C0 (C/C_ref with Sources)
+	// over transect q at output time k, Discharge[q][k], L^3/T: times the
+	// effective porosity and the source concentration, the advective mass
+	// discharge (see discharge.go). Nil without Transects.
+	Discharge [][]float64
 }
 
 func (p *Problem3D) validate() error {
 	const pre = "Problem3D."
+	if len(p.Sources) > 0 {
+		return p.validateSources()
+	}
 	for _, f := range []struct {
 		name string
 		v    float64
@@ -85,46 +110,17 @@ func (p *Problem3D) validate() error {
 	if err := p.History.validate(pre + "History"); err != nil {
 		return err
 	}
-	if len(p.Receptors) == 0 {
-		return invalid(pre+"Receptors", "need at least one receptor")
-	}
-	var up []string
-	for i, r := range p.Receptors {
-		f := fmt.Sprintf("%sReceptors[%d]", pre, i)
-		for _, c := range []struct {
-			n string
-			v float64
-		}{{"X", r.X}, {"Y", r.Y}, {"Top", r.Top}, {"Bottom", r.Bottom}} {
-			if math.IsNaN(c.v) || math.IsInf(c.v, 0) {
-				return invalid(f+"."+c.n, "must be finite, got %g", c.v)
-			}
-		}
-		if r.X < 0 {
-			up = append(up, fmt.Sprintf("%s.X = %g", f, r.X))
-		}
-		if !(r.Top >= 0) {
-			return invalid(f+".Top", "must be >= 0 (depth below the water table), got %g", r.Top)
-		}
-		if !(r.Bottom >= r.Top) {
-			return invalid(f+".Bottom", "must be >= Top = %g, got %g", r.Top, r.Bottom)
-		}
-	}
-	if len(up) > 0 {
-		return invalid(pre+"Receptors", "upgradient of the source face (x < 0), outside the modelled aquifer: %v", up)
-	}
-	if err := validateTimes(pre+"Times", p.Times); err != nil {
+	if err := validateReceptors(pre+"Receptors", p.Receptors); err != nil {
 		return err
 	}
-	if p.CellBudget < 0 {
-		return invalid(pre+"CellBudget", "must be 0 (default %d) or > 0, got %d", DefaultCellBudget3D, p.CellBudget)
+	xEnd := math.Inf(1)
+	if p.Grid != nil && len(p.Grid.X.Faces) > 0 {
+		xEnd = p.Grid.X.Faces[len(p.Grid.X.Faces)-1]
 	}
-	if err := checkOptional(pre+"Courant", p.Courant, 0, 1); err != nil {
+	if err := validateTransects(pre+"Transects", p.Transects, 0, xEnd); err != nil {
 		return err
 	}
-	if err := checkOptional(pre+"PecletMax", p.PecletMax, 0, 100); err != nil {
-		return err
-	}
-	if err := checkOptional(pre+"Refine", p.Refine, 0, 1000); err != nil {
+	if err := p.validateSettings(); err != nil {
 		return err
 	}
 	if p.Grid != nil {
@@ -146,6 +142,68 @@ func (p *Problem3D) validate() error {
 	return nil
 }
 
+// validateSettings checks the output times and the optional settings
+// (budgets, Courant, PecletMax, Refine).
+func (p *Problem3D) validateSettings() error {
+	const pre = "Problem3D."
+	if err := validateTimes(pre+"Times", p.Times); err != nil {
+		return err
+	}
+	if p.CellBudget < 0 {
+		return invalid(pre+"CellBudget", "must be 0 (default %d) or > 0, got %d", DefaultCellBudget3D, p.CellBudget)
+	}
+	if err := checkOptional(pre+"WorkBudget", p.WorkBudget, 0, maxWorkBudget); err != nil {
+		return err
+	}
+	if err := checkOptional(pre+"Courant", p.Courant, 0, 1); err != nil {
+		return err
+	}
+	if err := checkOptional(pre+"PecletMax", p.PecletMax, 0, 100); err != nil {
+		return err
+	}
+	return checkOptional(pre+"Refine", p.Refine, 0, 1000)
+}
+
+// validateReceptors checks that there is at least one receptor, that every
+// coordinate is finite, that no receptor lies upgradient of the source face
+// (all of them are named) and that every screen has 0 <= Top <= Bottom.
+func validateReceptors(field string, rs []Receptor) error {
+	return validateReceptorsFrom(field, rs, 0, "the source face")
+}
+
+// validateReceptorsFrom is validateReceptors with the face at x = x0 (what
+// names it) as the upgradient limit.
+func validateReceptorsFrom(field string, rs []Receptor, x0 float64, face string) error {
+	if len(rs) == 0 {
+		return invalid(field, "need at least one receptor")
+	}
+	var up []string
+	for i, r := range rs {
+		f := fmt.Sprintf("%s[%d]", field, i)
+		for _, c := range []struct {
+			n string
+			v float64
+		}{{"X", r.X}, {"Y", r.Y}, {"Top", r.Top}, {"Bottom", r.Bottom}} {
+			if math.IsNaN(c.v) || math.IsInf(c.v, 0) {
+				return invalid(f+"."+c.n, "must be finite, got %g", c.v)
+			}
+		}
+		if r.X < x0 {
+			up = append(up, fmt.Sprintf("%s.X = %g", f, r.X))
+		}
+		if !(r.Top >= 0) {
+			return invalid(f+".Top", "must be >= 0 (depth below the water table), got %g", r.Top)
+		}
+		if !(r.Bottom >= r.Top) {
+			return invalid(f+".Bottom", "must be >= Top = %g, got %g", r.Top, r.Bottom)
+		}
+	}
+	if len(up) > 0 {
+		return invalid(field, "upgradient of %s (x < %g), outside the modelled aquifer: %v", face, x0, up)
+	}
+	return nil
+}
+
 func maxOf(rs []Receptor, f func(Receptor) float64) float64 {
 	m := 0.0
 	for _, r := range rs {
@@ -158,18 +216,56 @@ func maxOf(rs []Receptor, f func(Receptor) float64) float64 {
 // receptors at the output times, the grid report and the mass budget (for
 // the whole plume, both halves). The grid is designed automatically (see
 // designGrid3) unless p.Grid is given; when it needs more cells than
-// p.CellBudget, the error (wrapping ErrBudget) says what the budget would
-// fit. The context is checked every few time steps; when it ends the error
-// wraps ctx.Err().
+// p.CellBudget, the error (a BudgetError wrapping ErrBudget) says what the
+// budget would fit. The work of the time stepping is counted before the
+// first step and checked against WorkBudget; output times at which the
+// field has reached its long-time limit are answered with it directly (see
+// settle.go). The context is checked during the time stepping (at least
+// every step on grids of 32768 cells or more) and every steady-state
+// iteration; when it ends the error wraps ctx.Err().
 func Screen3D(ctx context.Context, p Problem3D) (*Result3D, error) {
+	if len(p.Sources) > 0 {
+		return runSources(ctx, p)
+	}
 	res, _, err := run3D(ctx, p)
 	return res, err
 }
 
 // run3D is Screen3D that also returns the final discretized state (tests).
 func run3D(ctx context.Context, p Problem3D) (*Result3D, *grid3, error) {
-	if err := p.validate(); err != nil {
+	g, plan, err := setup3D(&p)
+	if err != nil {
 		return nil, nil, err
+	}
+	var marchedMass float64
+	vals, st, err := march(ctx, g, len(p.Receptors)+len(p.Transects), plan, &marchedMass)
+	if err != nil {
+		return nil, nil, err
+	}
+	vals, disch := splitDischarge(vals, len(p.Receptors))
+	rep := report3(g, p.V, p.Dx)
+	rep.Steps = st.steps
+	rep.CellSteps = float64(rep.Cells) * float64(st.steps)
+	rep.SteadyFrom = st.settled
+	if st.steps > 0 {
+		rep.TimeStep = plan.dtMax
+		rep.Courant = p.V * plan.dtMax / (p.R * rep.DXMin)
+	}
+	out := &Result3D{C: vals, Grid: rep, Budget: g.acc.result(marchedMass, 2), Discharge: disch}
+	if st.steady != nil {
+		b := st.steady.budget
+		out.SteadyBudget = &b
+		out.Grid.SteadyIterations, out.Grid.SteadyResidual = st.steady.iterations, st.steady.residual
+	}
+	return out, g, nil
+}
+
+// setup3D validates p, designs the grid (or checks the given one) against
+// the cell budget, and returns the discretized problem and the plan of its
+// time stepping.
+func setup3D(p *Problem3D) (*grid3, marchPlan, error) {
+	if err := p.validate(); err != nil {
+		return nil, marchPlan{}, err
 	}
 	budget := p.CellBudget
 	if budget == 0 {
@@ -179,47 +275,34 @@ func run3D(ctx context.Context, p Problem3D) (*Result3D, *grid3, error) {
 	if p.Grid != nil {
 		gx, gy, gz = p.Grid.X, p.Grid.Y, p.Grid.Z
 		if n := float64(gx.N()) * float64(gy.N()) * float64(gz.N()); n > float64(budget) {
-			return nil, nil, fmt.Errorf("%w: Problem3D.CellBudget: the given grid has %.4g cells but the budget is %d", ErrBudget, n, budget)
+			return nil, marchPlan{}, cellBudgetError("Problem3D.CellBudget", n, budget, "the given grid has %.4g cells but the budget is %d", n, budget)
 		}
 	} else {
-		d, err := designFor(&p, budget)
+		var err error
+		gx, gy, gz, err = designFor(p, budget)
 		if err != nil {
-			return nil, nil, err
+			return nil, marchPlan{}, err
 		}
-		gx, gy, gz = d.x, d.y, d.z
 	}
 	g := newGrid3(gx, gy, gz, p.V, p.Dx, p.Dy, p.Dz, p.R, p.Mu, 0.5*p.Width, p.Depth, p.History)
-	g.rec = p.Receptors
+	g.rec, g.tr = p.Receptors, p.Transects
 	courant := orDefault(p.Courant, 1)
 	dtMax := g.maxStep(courant)
 	if p.Grid == nil {
 		// At most a halving, so that a receptor very close to the source
 		// cannot multiply the work.
-		dtMax = math.Max(math.Min(dtMax, nearStep(&p)), 0.5*dtMax)
+		dtMax = math.Max(math.Min(dtMax, nearStep(p)), 0.5*dtMax)
 	}
 	plan := marchPlan{
 		times: p.Times, switchOff: p.History.switchOff(), dtMax: dtMax,
-		steadyZero: p.History.switchOff() < math.Inf(1) || p.History.Depletion > 0,
+		steadyZero: p.History.fades(),
+		cells:      float64(g.nx) * float64(g.np), workBudget: orDefault(p.WorkBudget, DefaultWorkBudget3D), field: "Problem3D",
 	}
-	var marchedMass float64
-	vals, st, err := march(ctx, g, len(p.Receptors), plan, &marchedMass)
-	if err != nil {
-		return nil, nil, err
-	}
-	rep := report3(g, p.V, p.Dx)
-	rep.Steps = st.steps
-	rep.CellSteps = float64(rep.Cells) * float64(st.steps)
-	if st.steps > 0 {
-		rep.TimeStep = dtMax
-		rep.Courant = p.V * dtMax / (p.R * rep.DXMin)
-	}
-	out := &Result3D{C: vals, Grid: rep, Budget: g.acc.result(marchedMass, 2)}
-	if st.steady != nil {
-		b := st.steady.budget
-		out.SteadyBudget = &b
-		out.Grid.SteadyIterations, out.Grid.SteadyResidual = st.steady.iterations, st.steady.residual
-	}
-	return out, g, nil
+	_, hMax := gx.minMax()
+	dEff := p.Dx + 0.5*p.V*hMax
+	acr := []across{{gy.Length(), p.Dy}, {gz.Length(), p.Dz}}
+	plan.settled = settledFrom(p.History, func(k float64) float64 { return settleTime(p.V, dEff, p.R, p.Mu, gx.Length(), acr, k) })
+	return g, plan, nil
 }
 
 func report3(g *grid3, v, dx float64) GridReport {

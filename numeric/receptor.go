@@ -15,19 +15,15 @@ type Receptor struct {
 
 type receptor3 = Receptor
 
-// clamp01 removes round-off excursions (of order 1e-16) outside the range
-// that the schemes guarantee in exact arithmetic: no negative values, no
-// value above the source.
-func clamp01(v float64) float64 {
-	return math.Min(1, math.Max(0, v))
-}
-
 // sample writes the receptor values at time t.
 func (g *grid3) sample(t float64, out []float64) {
 	cb := g.hist.value(t)
 	prof := make([]float64, g.nz)
 	for r, rc := range g.rec {
 		out[r] = clamp01(g.valueAt(rc, cb, prof))
+	}
+	for q, tr := range g.tr {
+		out[len(g.rec)+q] = g.discharge(tr, cb)
 	}
 }
 
@@ -38,7 +34,11 @@ func (g *grid3) sample(t float64, out []float64) {
 // no-flux), then averages over the depth interval.
 func (g *grid3) valueAt(rc Receptor, cb float64, prof []float64) float64 {
 	ix, wx := locate(g.xc, rc.X)
-	iy, wy := locate(g.yc, math.Abs(rc.Y))
+	yq := math.Abs(rc.Y)
+	if g.fullY {
+		yq = rc.Y
+	}
+	iy, wy := locate(g.yc, yq)
 	if iy < 0 {
 		iy, wy = 0, 0
 	}

@@ -87,10 +87,8 @@ func (g *grid3) solveSteady(ctx context.Context) (steadyStats, error) {
 			st.budget = g.steadyBudget(cb)
 			return st, nil
 		}
-		if it%8 == 0 {
-			if err := ctx.Err(); err != nil {
-				return st, fmt.Errorf("numeric: steady-state iteration stopped after %d iterations: %w", it-1, err)
-			}
+		if err := ctx.Err(); err != nil {
+			return st, fmt.Errorf("numeric: steady-state iteration stopped after %d iterations: %w", it-1, err)
 		}
 		f := &fs[(it-1)%steadyCycle]
 		tau := taus[(it-1)%steadyCycle]
@@ -253,6 +251,6 @@ func (g *grid3) steadyBudget(cb float64) SteadyBudget {
 	b.InletAdvective, b.InletDispersive, b.Outflow = adv.sum, disp.sum, out.sum
 	b.Stored = stored
 	b.Decayed = g.mu * stored
-	b.close(2)
+	b.close(g.mirror())
 	return b
 }

@@ -42,6 +42,10 @@ func TestInvalidInput(t *testing.T) {
 		{"NaN time", func(p *Problem3D) { p.Times = []float64{nan} }, "Problem3D.Times[0]", ErrInvalid},
 		{"Courant above 1", func(p *Problem3D) { p.Courant = 1.5 }, "Problem3D.Courant", ErrInvalid},
 		{"negative budget", func(p *Problem3D) { p.CellBudget = -3 }, "Problem3D.CellBudget", ErrInvalid},
+		{"negative work budget", func(p *Problem3D) { p.WorkBudget = -1 }, "Problem3D.WorkBudget", ErrInvalid},
+		{"NaN work budget", func(p *Problem3D) { p.WorkBudget = nan }, "Problem3D.WorkBudget", ErrInvalid},
+		{"infinite work budget", func(p *Problem3D) { p.WorkBudget = inf }, "Problem3D.WorkBudget", ErrInvalid},
+		{"work budget exceeded", func(p *Problem3D) { p.WorkBudget = 1000 }, "Problem3D.WorkBudget", ErrWorkBudget},
 		{"zero cells", func(p *Problem3D) {
 			p.Grid = &Grid3D{X: Axis{Faces: []float64{0}}, Y: UniformAxis(10, 5), Z: UniformAxis(5, 5)}
 		}, "Problem3D.Grid.X", ErrInvalid},
@@ -87,6 +91,8 @@ func TestInvalidInput(t *testing.T) {
 		{"zero cells", func(p *Problem1D) { p.Grid = Axis{Faces: []float64{0}} }, "Problem1D.Grid", ErrInvalid},
 		{"PecletMax zero-range", func(p *Problem1D) { p.PecletMax = -2 }, "Problem1D.PecletMax", ErrInvalid},
 		{"budget exceeded", func(p *Problem1D) { p.CellBudget = 10 }, "Problem1D.CellBudget", ErrBudget},
+		{"work budget above 1e15", func(p *Problem1D) { p.WorkBudget = 2e15 }, "Problem1D.WorkBudget", ErrInvalid},
+		{"work budget exceeded", func(p *Problem1D) { p.WorkBudget = 10 }, "Problem1D.WorkBudget", ErrWorkBudget},
 	}
 	for _, tc := range cases1 {
 		t.Run(tc.name, func(t *testing.T) {

@@ -36,6 +36,12 @@ const (
 	CaveatReferenceValues = "reference_table_values_used"
 	// Source width and depth are not used by an instantaneous release.
 	CaveatGeometryIgnored = "source_geometry_ignored"
+	// The compound name is not in the reference table but close to an entry.
+	CaveatNameNotRecognized = "contaminant_name_not_recognized"
+	// The steady state exceeds the level, but no requested time does.
+	CaveatExceedsAfterTimes = "exceedance_after_requested_times"
+	// How transect mass discharges and stream concentrations are computed.
+	CaveatTransectAssumptions = "transect_discharge_assumptions"
 )
 
 // ScreeningCaution is the message of the general caution on every result.
@@ -46,4 +52,18 @@ const ScreeningCaution = "This is a screening estimate computed from idealized m
 
 func (r *Result) caveat(code, severity, receptor, format string, args ...any) {
 	r.Caveats = append(r.Caveats, Caveat{Code: code, Severity: severity, Message: fmt.Sprintf(format, args...), ReceptorID: receptor})
+}
+
+// CaveatCodes returns the codes of the caveats that apply to a receptor:
+// the result-wide ones and the receptor's own, in order, each once.
+func (r *Result) CaveatCodes(receptorID string) []string {
+	seen := map[string]bool{}
+	var codes []string
+	for _, c := range r.Caveats {
+		if (c.ReceptorID == "" || c.ReceptorID == receptorID) && !seen[c.Code] {
+			seen[c.Code] = true
+			codes = append(codes, c.Code)
+		}
+	}
+	return codes
 }

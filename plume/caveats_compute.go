@@ -13,6 +13,7 @@ type fmtr struct {
 }
 
 func (x fmtr) length(m float64) string { return fmt.Sprintf("%.4g %s", m/x.f.L, x.u.Length) }
+func (x fmtr) timeOf(d float64) string { return fmt.Sprintf("%.4g %s", d/x.f.T, x.u.Time) }
 func (x fmtr) conc(c float64) string   { return fmt.Sprintf("%.4g %s", c/x.f.C, x.u.Concentration) }
 func (x fmtr) rate(r float64) string   { return fmt.Sprintf("%.4g per %s", r*x.f.T, x.u.Time) }
 func (x fmtr) velocity(v float64) string {
@@ -49,26 +50,31 @@ func (m *model) modelCaveats(res *Result, pts []Point, run methods, fm fmtr) {
 			fm.rate(m.lambda))
 	}
 	if res.Derived.DispersivityEstimated {
-		msg := fmt.Sprintf("Dispersivities not given were estimated (%s) for a travel distance of %s: alpha_L = %s, alpha_T = %s, alpha_V = %s. Field dispersivities scatter by an order of magnitude around such relations.",
-			DispersivityRelation, fm.length(derefOr(m.travel, 0)), fm.length(m.alpha[0]), fm.length(m.alpha[1]), fm.length(m.alpha[2]))
-		if m.travel != nil && m.travelRaw < MinTravelDistance {
-			msg += fmt.Sprintf(" The farthest receptor is less than %s downgradient, so the relation was evaluated at %s.", fm.length(MinTravelDistance), fm.length(MinTravelDistance))
-		}
-		res.caveat(CaveatDispersivityEstimated, SeverityCaution, "", "%s", msg)
+		res.caveat(CaveatDispersivityEstimated, SeverityCaution, "", "%s", m.dispersivityMessage(fm))
 	}
 	if m.v < PlausibleVelocityMin || m.v > PlausibleVelocityMax {
 		res.caveat(CaveatImplausibleVelocity, SeverityCaution, "",
 			"The seepage velocity %s is outside the range usually met in aquifers (%s to %s, common practice); check the units and inputs.",
 			fm.velocity(m.v), fm.velocity(PlausibleVelocityMin), fm.velocity(PlausibleVelocityMax))
 	}
-	if m.solubility != nil && m.kind != SourceKindInstantaneous && m.c0 > *m.solubility {
-		res.caveat(CaveatAboveSolubility, SeverityWarning, "",
-			"The source concentration %s is above the aqueous solubility %s: a separate (non-aqueous) phase is likely, and the source may last much longer than a dissolved-only model assumes.",
-			fm.conc(m.c0), fm.conc(*m.solubility))
+	for i := range m.sourceCount() {
+		s := m.source(i)
+		if m.solubility != nil && s.kind != SourceKindInstantaneous && s.c0 > *m.solubility {
+			res.caveat(CaveatAboveSolubility, SeverityWarning, "",
+				"The source concentration %s%s is above the aqueous solubility %s: a separate (non-aqueous) phase is likely, and the source may last much longer than a dissolved-only model assumes.",
+				fm.conc(s.c0), sourceLabel(s), fm.conc(*m.solubility))
+		}
 	}
 	if m.screening == nil {
-		res.caveat(CaveatNoScreeningLevel, SeverityNote, "",
-			"No screening level was given or found in the reference table, so no exceedance is reported.")
+		res.caveat(CaveatNoScreeningLevel, SeverityWarning, "",
+			"No screening level was given or found in the reference table, so nothing was compared: exceeds_screening_level is null for every receptor. Give contaminant.screening_level (for example the drinking-water limit that applies).")
+	}
+	if len(res.Transects) > 0 {
+		res.caveat(CaveatTransectAssumptions, SeverityNote, "",
+			"Transect mass discharges are advective only (the Darcy flux n_e v across the line times the concentration, integrated over the line and its depth interval; dispersive flux is not counted). A stream concentration assumes all of the discharge enters the stream and mixes fully in the given stream flow, with no dilution by the stream's own groundwater inflow beyond that flow.")
+	}
+	if msg := nameMessage(res.Derived.ReferenceCompound, m.name); msg != "" {
+		res.caveat(CaveatNameNotRecognized, SeverityWarning, "", "%s", msg)
 	}
 	if len(res.Derived.FromReferenceTable) > 0 {
 		res.caveat(CaveatReferenceValues, SeverityNote, "",
@@ -100,13 +106,14 @@ func (m *model) receptorCaveats(res *Result, rr *ReceptorResult, p Point, opt Op
 	switch {
 	case p.upgradient():
 		res.caveat(CaveatReceptorUpgradient, SeverityWarning, p.ID,
-			"The receptor is upgradient of the source (%s along the flow from the source's downgradient face): the model covers only the downgradient side, and values are reported as 0.",
+			"The receptor is upgradient of the source (%s along the flow from the source's downgradient face): the model covers only the downgradient side. Its values are reported as 0 but are not a model result (status not_modelled_upgradient; nothing is compared with the screening level).",
 			fm.length(p.X))
 	case p.inside():
 		res.caveat(CaveatReceptorInsideSource, SeverityWarning, p.ID,
 			"The receptor lies within the source zone (%s along the flow from the source's downgradient face; the zone is taken as the source footprint reaching one source width upgradient of that face): values reported are the source concentration.",
 			fm.length(p.X))
 	}
+	m.lateExceedance(res, rr, p, fm)
 	if rr.DomenicoDeviation != nil && *rr.DomenicoDeviation > opt.DomenicoTolerance {
 		res.caveat(CaveatDomenicoDeviation, SeverityWarning, p.ID,
 			"The Domenico approximation differs from the exact solution by up to %.3g %% here (tolerance %.3g %%); use the exact value. The approximation is known to fail where the longitudinal dispersivity is large relative to the distance.",
@@ -119,7 +126,8 @@ func (m *model) receptorCaveats(res *Result, rr *ReceptorResult, p Point, opt Op
 			srcDepth = m.relDepth
 			dist = math.Hypot(p.X, p.Y)
 		}
-		reach := srcDepth + 3*math.Sqrt(2*m.alpha[2]*math.Max(dist, m.alpha[0]))
+		alpha := m.aquiferFor(p).alpha
+		reach := srcDepth + 3*math.Sqrt(2*alpha[2]*math.Max(dist, alpha[0]))
 		switch {
 		case p.Top > reach:
 			res.caveat(CaveatBelowPlumeReach, SeverityCaution, p.ID,
@@ -133,11 +141,23 @@ func (m *model) receptorCaveats(res *Result, rr *ReceptorResult, p Point, opt Op
 	}
 }
 
-func derefOr(p *float64, d float64) float64 {
-	if p == nil {
-		return d
+// dispersivityMessage explains an estimated dispersivity and its basis.
+func (m *model) dispersivityMessage(fm fmtr) string {
+	const scatter = " Field dispersivities scatter by an order of magnitude around such relations."
+	switch m.basis {
+	case BasisReceptorDistance:
+		return fmt.Sprintf("Dispersivities not given were estimated (%s) for each receptor at its own travel distance from the source (at least %s; see receptors[].dispersivity), so that no receptor's answer depends on which other receptors were sent. Give aquifer.dispersivity, or aquifer.dispersivity_scale for one plume-scale estimate, to use one value everywhere.%s",
+			DispersivityRelation, fm.length(MinTravelDistance), scatter)
+	case BasisScale:
+		msg := fmt.Sprintf("Dispersivities not given were estimated (%s) at the plume scale aquifer.dispersivity_scale = %s: alpha_L = %s, alpha_T = %s, alpha_V = %s.%s",
+			DispersivityRelation, fm.length(m.travelRaw), fm.length(m.alpha[0]), fm.length(m.alpha[1]), fm.length(m.alpha[2]), scatter)
+		if m.travelRaw < MinTravelDistance {
+			msg += fmt.Sprintf(" The scale is below %s, so the relation was evaluated at %s.", fm.length(MinTravelDistance), fm.length(MinTravelDistance))
+		}
+		return msg
 	}
-	return *p
+	return fmt.Sprintf("The longitudinal dispersivity was given (%s); the transverse and vertical dispersivities not given were taken as alpha_L/10 and alpha_L/100 (common practice): alpha_T = %s, alpha_V = %s.%s",
+		fm.length(m.alpha[0]), fm.length(m.alpha[1]), fm.length(m.alpha[2]), scatter)
 }
 
 // attachNumeric stores the numeric values and their agreement with the exact
@@ -159,7 +179,7 @@ func (m *model) attachNumeric(res *Result, nr *numericRun, pts []Point, times, t
 				ev := m.closedForm(true, pts[i], taus[j])
 				e = &ev
 			}
-			if math.Max(*e, v) >= floor && *e > 0 {
+			if math.Max(*e, v) >= floor {
 				d := math.Abs(v-*e) / math.Max(*e, floor)
 				if !compared || d > ag.MaxRelativeDifference {
 					ag.MaxRelativeDifference, ag.Time, ag.AtSteadyState = d, times[j], false
@@ -175,7 +195,7 @@ func (m *model) attachNumeric(res *Result, nr *numericRun, pts []Point, times, t
 				ev := m.closedForm(true, pts[i], math.Inf(1))
 				e = &ev
 			}
-			if math.Max(*e, v) >= floor && *e > 0 {
+			if math.Max(*e, v) >= floor {
 				d := math.Abs(v-*e) / math.Max(*e, floor)
 				ag.SteadyStateRelativeDifference = Ptr(d)
 				if !compared || d > ag.MaxRelativeDifference {
@@ -203,4 +223,45 @@ func (ag Agreement) where(timeUnit string) string {
 		return "at steady state"
 	}
 	return fmt.Sprintf("at time %g %s", ag.Time, timeUnit)
+}
+
+// lateExceedance warns when a receptor's steady state reaches the screening
+// level but no requested time does: the times may be too short, or in the
+// wrong unit (days given where years were meant).
+func (m *model) lateExceedance(res *Result, rr *ReceptorResult, p Point, fm fmtr) {
+	if m.screening == nil || len(rr.Series) == 0 || rr.FirstExceedanceTime == nil || p.Status != StatusModelled {
+		return
+	}
+	for _, sp := range rr.Series {
+		for _, v := range []*float64{sp.Exact, sp.Domenico, sp.Numeric} {
+			if v != nil && *v >= *m.screening {
+				return
+			}
+		}
+	}
+	last := rr.Series[len(rr.Series)-1].Time
+	res.caveat(CaveatExceedsAfterTimes, SeverityWarning, p.ID,
+		"The screening level is reached here at %s, after every requested time (the last is %g %s): the values at the requested times are all below the level, but the receptor exceeds later. Check that the times are long enough and in the unit intended (units.time is %q).",
+		fm.timeOf(*rr.FirstExceedanceTime), last, fm.u.Time, fm.u.Time)
+}
+
+// nameMessage explains a contaminant name the reference table does not
+// hold ("" when the table matched it or no name was given): a likely
+// misspelling names the entry meant.
+func nameMessage(matched, name string) string {
+	if matched != "" || name == "" {
+		return ""
+	}
+	if s, ok := SuggestContaminant(name); ok {
+		return fmt.Sprintf("contaminant.name %q is not in the reference table; did you mean %q? Nothing was taken from the table (no default Koc, screening level or solubility): correct the name to use the table's values, or give them all.", name, s)
+	}
+	return ""
+}
+
+// sourceLabel names one of several sources in a message ("" for a lone one).
+func sourceLabel(s *sourceParams) string {
+	if s.id == "" {
+		return ""
+	}
+	return fmt.Sprintf(" of source %q", s.id)
 }

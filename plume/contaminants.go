@@ -2,7 +2,10 @@ package plume
 
 import (
 	"slices"
+	"sort"
 	"strings"
+
+	"github.com/agnivade/levenshtein"
 )
 
 // Compound is one entry of the contaminant reference table served by
@@ -277,3 +280,34 @@ func (c Compound) ScreeningLevel() (DrinkingWaterLimit, bool) {
 // ConservativeHalfLife returns the long end of the half-life range, days:
 // the slowest decay of the range, which gives the longest plume.
 func (c Compound) ConservativeHalfLife() float64 { return c.HalfLife.High }
+
+// SuggestContaminant returns the table's name of the entry whose name,
+// title or alias is closest to name by edit distance (Levenshtein, on the
+// normalised names), when it is close enough to be a likely misspelling:
+// at most 2 edits, and at most a quarter of the name's length (our
+// choice). ok is false for an exact match or nothing close.
+func SuggestContaminant(name string) (suggestion string, ok bool) {
+	n := normalizeCompoundName(name)
+	if n == "" {
+		return "", false
+	}
+	if _, exact := compoundIndex[n]; exact {
+		return "", false
+	}
+	best, bestD := -1, 1<<30
+	keys := make([]string, 0, len(compoundIndex))
+	for k := range compoundIndex {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys) // ties go to the alphabetically first, whatever the map order
+	for _, k := range keys {
+		if d := levenshtein.ComputeDistance(n, k); d < bestD {
+			best, bestD = compoundIndex[k], d
+		}
+	}
+	limit := min(2, max(1, len([]rune(n))/4))
+	if best < 0 || bestD > limit {
+		return "", false
+	}
+	return compounds[best].Name, true
+}

@@ -1,6 +1,7 @@
 package plume
 
 import (
+	"fmt"
 	"math"
 )
 
@@ -67,29 +68,34 @@ func LongitudinalDispersivity(travelDistance float64) float64 {
 
 // model holds the derived parameters of a scenario in canonical units (m, d,
 // mg/L, kg), in three parts: the aquifer (shared by every compound and
-// source), the compound and the source. Several sources will be a slice of
-// sourceParams whose closed forms superpose, and several compounds a slice of
-// compoundParams (each its own retardation and decay, linked by yields);
-// closedFormOf already takes the three parts separately.
+// source), the compound and the sources (the first embedded, the further
+// ones in extra; their closed forms superpose). Several compounds will be a
+// slice of compoundParams (each its own retardation and decay, linked by
+// yields); closedFormOf already takes the three parts separately.
 type model struct {
 	aquiferParams
 	compoundParams
-	sourceParams
-	derived Derived // canonical units; converted by the caller
+	sourceParams                // the first source
+	extra        []sourceParams // further sources (sources[1:]), superposed
+	derived      Derived        // canonical units; converted by the caller
 }
 
 // aquiferParams are the flow and dispersion parameters.
 type aquiferParams struct {
-	v         float64    // seepage velocity, m/d
-	alpha     [3]float64 // dispersivities, m
-	disp      [3]float64 // dispersion coefficients, m^2/d
-	porosity  float64    // effective porosity (0 when not given and not needed)
-	travel    *float64   // travel distance used for estimates, m
-	travelRaw float64    // travel distance before the floor, m
+	v         float64      // seepage velocity, m/d
+	alpha     [3]float64   // dispersivities, m (model-wide; see basis)
+	disp      [3]float64   // dispersion coefficients, m^2/d (model-wide; see basis)
+	porosity  float64      // effective porosity (0 when not given and not needed)
+	given     Dispersivity // the dispersivities given, m
+	de        float64      // effective diffusion, m^2/d
+	basis     string       // BasisGiven, BasisScale or BasisReceptorDistance
+	travel    *float64     // scale used for a model-wide estimate, m
+	travelRaw float64      // the scale before the floor, m
 }
 
 // compoundParams are one compound's sorption, decay and levels.
 type compoundParams struct {
+	name       string   // as given
 	r          float64  // retardation
 	lambda     float64  // ln2 / half-life, 1/d
 	mu         float64  // decay rate in the retarded equation, 1/d
@@ -99,6 +105,9 @@ type compoundParams struct {
 
 // sourceParams are one source's geometry, strength and history.
 type sourceParams struct {
+	id         string  // sources[i].id, default "S<i+1>"; "" for a lone source
+	frame      Frame   // canonical site -> this source's plume frame
+	lag        float64 // start - the first source's start, d
 	kind       string
 	c0         float64 // source concentration, mg/L
 	massKg     float64 // instantaneous mass, kg
@@ -118,9 +127,9 @@ func (s *sourceParams) continuous() bool {
 }
 
 // derive computes the transport parameters of a validated canonical
-// scenario; maxPlumeX is the largest plume-frame x of the receptors, m.
-func derive(c Scenario, maxPlumeX float64) *model {
-	m := &model{sourceParams: sourceParams{duration: math.Inf(1), width: math.Inf(1), depth: math.Inf(1)}}
+// scenario. Nothing in it depends on the receptors.
+func derive(c Scenario) *model {
+	m := &model{}
 	d := &m.derived
 	d.Estimated = []string{}
 	d.FromReferenceTable = []string{}
@@ -129,11 +138,13 @@ func derive(c Scenario, maxPlumeX float64) *model {
 		d.ReferenceCompound = ref.Name
 	}
 	m.deriveFlow(c.Aquifer)
+	m.name = c.Contaminant.Name
 	m.deriveSorption(c.Aquifer, c.Contaminant, ref)
 	m.deriveDecay(c.Contaminant, ref)
 	m.deriveLevels(c.Contaminant, ref)
-	m.deriveDispersion(c.Aquifer, maxPlumeX)
-	m.deriveSource(c.Source)
+	m.deriveDispersion(c.Aquifer)
+	m.deriveSources(c)
+	m.deriveSourceReport()
 	return m
 }
 
@@ -211,88 +222,149 @@ func (m *model) deriveLevels(k Contaminant, ref referenceValues) {
 	d.Solubility = copyPtr(m.solubility)
 }
 
-// deriveDispersion sets the dispersivities (given ones win; a missing
-// alpha_L comes from the travel distance, missing alpha_T and alpha_V from
-// alpha_L) and the dispersion coefficients.
-func (m *model) deriveDispersion(a Aquifer, maxPlumeX float64) {
+// Bases of the dispersivities (Derived.DispersivityBasis).
+const (
+	// BasisGiven: the longitudinal dispersivity was given.
+	BasisGiven = "given"
+	// BasisScale: estimated at aquifer.dispersivity_scale for the whole model.
+	BasisScale = "dispersivity_scale"
+	// BasisReceptorDistance: estimated at each receptor's (and map node's)
+	// own travel distance from the source face.
+	BasisReceptorDistance = "receptor_distance"
+)
+
+// deriveDispersion sets the dispersivities and the dispersion coefficients:
+// given ones win; a missing alpha_L is estimated at the dispersivity scale
+// when one is given, else at each point's own travel distance (classify
+// then gives each point its own); missing alpha_T and alpha_V follow alpha_L.
+func (m *model) deriveDispersion(a Aquifer) {
 	d := &m.derived
-	var given Dispersivity
 	if a.Dispersivity != nil {
-		given = *a.Dispersivity
+		m.given = *a.Dispersivity
 	}
-	if given.Longitudinal != nil {
-		m.alpha[0] = *given.Longitudinal
-	} else {
-		m.travelRaw = math.Max(maxPlumeX, 0)
-		L := math.Max(m.travelRaw, MinTravelDistance)
-		m.travel = &L
-		m.alpha[0] = LongitudinalDispersivity(L)
+	if a.EffectiveDiffusion != nil {
+		m.de = *a.EffectiveDiffusion
+	}
+	switch {
+	case m.given.Longitudinal != nil:
+		m.basis = BasisGiven
+	case a.DispersivityScale != nil:
+		m.basis = BasisScale
+		m.travel = Ptr(*a.DispersivityScale)
+		m.travelRaw = *a.DispersivityScale
+	default:
+		m.basis = BasisReceptorDistance
+	}
+	if m.given.Longitudinal == nil {
 		d.Estimated = append(d.Estimated, "aquifer.dispersivity.longitudinal")
 	}
-	if given.Transverse != nil {
-		m.alpha[1] = *given.Transverse
-	} else {
-		m.alpha[1] = m.alpha[0] / 10
+	if m.given.Transverse == nil {
 		d.Estimated = append(d.Estimated, "aquifer.dispersivity.transverse")
 	}
-	if given.Vertical != nil {
-		m.alpha[2] = *given.Vertical
-	} else {
-		m.alpha[2] = m.alpha[0] / 100
+	if m.given.Vertical == nil {
 		d.Estimated = append(d.Estimated, "aquifer.dispersivity.vertical")
 	}
-	d.DispersivityEstimated = given.Longitudinal == nil || given.Transverse == nil || given.Vertical == nil
+	d.DispersivityBasis = m.basis
+	d.DispersivityEstimated = len(d.Estimated) > 0
 	if d.DispersivityEstimated {
 		d.DispersivityRelation = DispersivityRelation
-		d.TravelDistance = copyPtr(m.travel)
-	}
-	de := 0.0
-	if a.EffectiveDiffusion != nil {
-		de = *a.EffectiveDiffusion
-	}
-	for i := range m.disp {
-		m.disp[i] = m.alpha[i]*m.v + de
 	}
 	d.SeepageVelocity = m.v
 	d.Retardation = m.r
-	d.Dispersivity = DispersivityValues{m.alpha[0], m.alpha[1], m.alpha[2]}
-	d.Dispersion = DispersionValues{m.disp[0], m.disp[1], m.disp[2]}
+	if m.basis == BasisReceptorDistance {
+		return // each point its own (see pointAquifer)
+	}
+	travel := 0.0
+	if m.travel != nil {
+		travel = *m.travel
+	}
+	m.alpha, m.disp = m.dispersionAt(travel)
+	d.TravelDistance = copyPtr(m.travel)
+	d.Dispersivity = &DispersivityValues{m.alpha[0], m.alpha[1], m.alpha[2]}
+	d.Dispersion = &DispersionValues{m.disp[0], m.disp[1], m.disp[2]}
 }
 
-// deriveSource sets the source kind, strength, geometry and history.
-func (m *model) deriveSource(s Source) {
-	d := &m.derived
+// dispersionAt returns the dispersivities, m, and dispersion coefficients,
+// m^2/d, for a travel distance, m (used only for what was not given; raised
+// to MinTravelDistance).
+func (a *aquiferParams) dispersionAt(travel float64) (alpha, disp [3]float64) {
+	if a.given.Longitudinal != nil {
+		alpha[0] = *a.given.Longitudinal
+	} else {
+		alpha[0] = LongitudinalDispersivity(math.Max(travel, MinTravelDistance))
+	}
+	if a.given.Transverse != nil {
+		alpha[1] = *a.given.Transverse
+	} else {
+		alpha[1] = alpha[0] / 10
+	}
+	if a.given.Vertical != nil {
+		alpha[2] = *a.given.Vertical
+	} else {
+		alpha[2] = alpha[0] / 100
+	}
+	for i := range disp {
+		disp[i] = alpha[i]*a.v + a.de
+	}
+	return alpha, disp
+}
+
+// deriveSources sets the first source (source, or sources[0]) and the
+// further ones of a scenario with several.
+func (m *model) deriveSources(c Scenario) {
+	if len(c.Sources) == 0 {
+		m.sourceParams = newSourceParams(c.Source, "")
+	} else {
+		m.sourceParams = newSourceParams(c.Sources[0], "S1")
+		for i, src := range c.Sources[1:] {
+			sp := newSourceParams(src, fmt.Sprintf("S%d", i+2))
+			sp.lag = sp.start - m.start
+			m.extra = append(m.extra, sp)
+		}
+	}
+	m.derived.SourceKind = m.kind
+	if m.kind == SourceKind1D {
+		m.derived.Inlet = m.inlet
+	}
+}
+
+// newSourceParams derives one canonical source; defID names it when it
+// has no id of its own.
+func newSourceParams(s Source, defID string) sourceParams {
+	sp := sourceParams{id: s.ID, frame: frameOf(s), duration: math.Inf(1), width: math.Inf(1), depth: math.Inf(1)}
+	if sp.id == "" {
+		sp.id = defID
+	}
 	if s.Start != nil {
-		m.start = *s.Start
+		sp.start = *s.Start
 	}
 	switch {
 	case s.Mass != nil:
-		m.kind = SourceKindInstantaneous
-		m.massKg = *s.Mass
+		sp.kind = SourceKindInstantaneous
+		sp.massKg = *s.Mass
 		if s.ReleaseDepth != nil {
-			m.relDepth = *s.ReleaseDepth
+			sp.relDepth = *s.ReleaseDepth
 		}
-		m.geomUnused = s.Width != nil || s.Depth != nil
+		sp.geomUnused = s.Width != nil || s.Depth != nil
 	case s.Width != nil:
-		m.kind = SourceKind3D
-		m.c0 = *s.Concentration
-		m.width, m.depth = *s.Width, *s.Depth
+		sp.kind = SourceKind3D
+		sp.c0 = *s.Concentration
+		sp.width, sp.depth = *s.Width, *s.Depth
 	default:
-		m.kind = SourceKind1D
-		m.c0 = *s.Concentration
-		m.inlet = s.Inlet
-		if m.inlet == "" {
-			m.inlet = InletConcentration
+		sp.kind = SourceKind1D
+		sp.c0 = *s.Concentration
+		sp.inlet = s.Inlet
+		if sp.inlet == "" {
+			sp.inlet = InletConcentration
 		}
-		d.Inlet = m.inlet
 	}
 	if s.Duration != nil {
-		m.duration = *s.Duration
+		sp.duration = *s.Duration
 	}
 	if s.HalfLife != nil {
-		m.depletion = DecayRate(*s.HalfLife)
+		sp.depletion = DecayRate(*s.HalfLife)
 	}
-	d.SourceKind = m.kind
+	return sp
 }
 
 // Ptr returns a pointer to a copy of v.

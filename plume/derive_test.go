@@ -89,7 +89,7 @@ func TestDeriveModel(t *testing.T) {
 				t.Errorf("mu=%g", m.mu)
 			}
 		}},
-		{"estimated dispersivity", func(s *Scenario) { s.Aquifer.Dispersivity = nil }, 100, func(t *testing.T, m *model) {
+		{"estimated dispersivity", func(s *Scenario) { s.Aquifer.Dispersivity = nil; s.Aquifer.DispersivityScale = f(100) }, 100, func(t *testing.T, m *model) {
 			want := 4.42348441930551206717609724764 // Xu & Eckstein (1995) at 100 m, mpmath
 			if relErr(m.alpha[0], want) > 1e-14 || relErr(m.alpha[1], want/10) > 1e-14 || relErr(m.alpha[2], want/100) > 1e-14 {
 				t.Errorf("alpha %v", m.alpha)
@@ -139,7 +139,7 @@ func TestDeriveModel(t *testing.T) {
 			if err := Validate(s); err != nil {
 				t.Fatal(err)
 			}
-			tc.check(t, derive(s, tc.maxX))
+			tc.check(t, derive(s))
 		})
 	}
 }

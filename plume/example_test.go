@@ -33,7 +33,7 @@ func ExampleScreen() {
 	d, w := res.Derived, res.Receptors[0]
 	fmt.Printf("v = %.4f m/d, R = %.3f\n", d.SeepageVelocity, d.Retardation)
 	fmt.Printf("after 10 years: %.3f mg/L; steady state %.3f mg/L\n", *w.Series[0].Exact, *w.SteadyState.Exact)
-	fmt.Printf("exceeds 0.005 mg/L: %v, first after %.0f days\n", w.ExceedsScreeningLevel, *w.FirstExceedanceTime)
+	fmt.Printf("exceeds 0.005 mg/L: %v, first after %.0f days\n", *w.ExceedsScreeningLevel, *w.FirstExceedanceTime)
 	fmt.Println(res.Caveats[0].Code)
 	// Output:
 	// v = 0.1229 m/d, R = 1.375
@@ -56,7 +56,7 @@ func ExampleValidate() {
 	// Output:
 	// aquifer.effective_porosity: must be in (0, 1), got 1.3
 	// source.concentration: must be > 0, got -1
-	// receptors[0].x: required: site x (east) of the receptor
+	// receptors[0].x: required: site x (east) of the receptor (or lon and lat with a crs)
 }
 
 // Flow toward the north-east (azimuth 45): a point 10 m north-east of the

@@ -21,15 +21,24 @@ func (md *Model) checkFinite() error {
 			fe.Add(fmt.Sprintf("times[%d]", i), md.tooLarge(md.sc.Times[i], md.units.Time, "in days"))
 		}
 	}
-	for _, f := range []struct {
+	type timeField struct {
 		path         string
 		given, canon *float64
-	}{
-		{"source.start", md.sc.Source.Start, c.Source.Start},
-		{"source.duration", md.sc.Source.Duration, c.Source.Duration},
-		{"source.half_life", md.sc.Source.HalfLife, c.Source.HalfLife},
-		{"contaminant.half_life", md.sc.Contaminant.HalfLife, c.Contaminant.HalfLife},
-	} {
+	}
+	fields := []timeField{{"contaminant.half_life", md.sc.Contaminant.HalfLife, c.Contaminant.HalfLife}}
+	sources, canonSources, prefix := []Source{md.sc.Source}, []Source{c.Source}, func(int) string { return "source" }
+	if len(md.sc.Sources) > 0 {
+		sources, canonSources, prefix = md.sc.Sources, c.Sources, func(i int) string { return fmt.Sprintf("sources[%d]", i) }
+	}
+	for i, s := range sources {
+		if i >= len(canonSources) {
+			break
+		}
+		cs := canonSources[i]
+		fields = append(fields, timeField{prefix(i) + ".start", s.Start, cs.Start},
+			timeField{prefix(i) + ".duration", s.Duration, cs.Duration}, timeField{prefix(i) + ".half_life", s.HalfLife, cs.HalfLife})
+	}
+	for _, f := range fields {
 		if f.canon != nil && !Finite(*f.canon) {
 			fe.Add(f.path, md.tooLarge(*f.given, md.units.Time, "in days"))
 		}
@@ -67,8 +76,14 @@ func (md *Model) checkDerived(fe *FieldErrors) {
 	if !Finite(m.lambda) || !Finite(m.mu) {
 		fe.Add("contaminant.half_life", fmt.Sprintf(why, "decay rate ln 2 / half-life", m.lambda))
 	}
-	if !Finite(m.depletion) {
-		fe.Add("source.half_life", fmt.Sprintf(why, "depletion rate ln 2 / half-life", m.depletion))
+	for i := range m.sourceCount() {
+		if d := m.source(i).depletion; !Finite(d) {
+			path := "source.half_life"
+			if len(md.sc.Sources) > 0 {
+				path = fmt.Sprintf("sources[%d].half_life", i)
+			}
+			fe.Add(path, fmt.Sprintf(why, "depletion rate ln 2 / half-life", d))
+		}
 	}
 	names := [3]string{"longitudinal", "transverse", "vertical"}
 	for i, d := range m.disp {

@@ -15,16 +15,64 @@ import (
 // zone to be its footprint (|py| <= W/2, top <= source depth) from the
 // downgradient face back one source width upgradient (our convention, stated
 // in the caveat); for a 1D column every px <= 0 is the inlet.
+//
+// With several sources a place is inside the source zone when it is inside
+// any source's, modelled when it is downgradient of any source, and not
+// modelled only when it is upgradient of them all.
 func (m *model) classify(p *Point) {
-	p.Status = StatusModelled
-	if m.kind == SourceKindInstantaneous || p.X > 0 {
-		return
+	p.aq = nil
+	if m.basis == BasisReceptorDistance {
+		p.aq = m.pointAquifer(*p)
 	}
-	if m.kind == SourceKind1D || (math.Abs(p.Y) <= m.width/2 && p.Top <= m.depth && p.X >= -m.width) {
-		p.Status = StatusInsideSource
-	} else {
-		p.Status = StatusUpgradient
+	p.Status = m.sourceParams.status(*p)
+	for i := range m.extra {
+		switch st := m.extra[i].status(m.localPoint(*p, i+1)); {
+		case st == StatusInsideSource:
+			p.Status = st
+		case st == StatusModelled && p.Status == StatusUpgradient:
+			p.Status = st
+		}
 	}
+}
+
+// status classifies a place given in this source's own plume frame.
+func (s *sourceParams) status(p Point) Status {
+	if s.kind == SourceKindInstantaneous || p.X > 0 {
+		return StatusModelled
+	}
+	if s.kind == SourceKind1D || (math.Abs(p.Y) <= s.width/2 && p.Top <= s.depth && p.X >= -s.width) {
+		return StatusInsideSource
+	}
+	return StatusUpgradient
+}
+
+// source returns source i (0: the first).
+func (m *model) source(i int) *sourceParams {
+	if i == 0 {
+		return &m.sourceParams
+	}
+	return &m.extra[i-1]
+}
+
+// sourceCount is the number of sources.
+func (m *model) sourceCount() int { return 1 + len(m.extra) }
+
+// localPoint is p in the plume frame of source i, classified for that
+// source alone (with its own dispersion for BasisReceptorDistance).
+func (m *model) localPoint(p Point, i int) Point {
+	if i == 0 {
+		return p
+	}
+	s := &m.extra[i-1]
+	site := p.site
+	if !p.hasSite {
+		site[0], site[1] = m.frame.ToSite(p.X, p.Y)
+	}
+	q := p
+	q.X, q.Y = s.frame.ToPlume(site[0], site[1])
+	q.aq = nil
+	q.Status = s.status(q)
+	return q
 }
 
 // params are the closed forms' transport parameters of compound c in aquifer a.
@@ -32,7 +80,36 @@ func params(a *aquiferParams, c *compoundParams) analytic.Params {
 	return analytic.Params{V: a.v, Dx: a.disp[0], Dy: a.disp[1], Dz: a.disp[2], R: c.r, Mu: c.mu}
 }
 
-func (m *model) params() analytic.Params { return params(&m.aquiferParams, &m.compoundParams) }
+// travelDistance is a point's travel distance from the source, m: along
+// the flow from the source face, or from the release point of a spill.
+func (m *model) travelDistance(p Point) float64 {
+	if m.kind == SourceKindInstantaneous {
+		return math.Hypot(p.X, p.Y)
+	}
+	return math.Max(p.X, 0)
+}
+
+// pointAquifer is the aquifer with the dispersion estimated at p's own
+// travel distance (BasisReceptorDistance).
+func (m *model) pointAquifer(p Point) *aquiferParams {
+	a := m.aquiferParams
+	a.travelRaw = m.travelDistance(p)
+	a.travel = Ptr(math.Max(a.travelRaw, MinTravelDistance))
+	a.alpha, a.disp = a.dispersionAt(a.travelRaw)
+	return &a
+}
+
+// aquiferFor is the aquifer a point is evaluated in: its own for
+// BasisReceptorDistance, else the model's.
+func (m *model) aquiferFor(p Point) *aquiferParams {
+	switch {
+	case p.aq != nil:
+		return p.aq
+	case m.basis == BasisReceptorDistance:
+		return m.pointAquifer(p)
+	}
+	return &m.aquiferParams
+}
 
 func (s *sourceParams) history() analytic.History {
 	return analytic.History{Duration: s.duration, Depletion: s.depletion}
@@ -57,8 +134,30 @@ func (s *sourceParams) strength(tau float64) float64 {
 // receptor at elapsed time tau since the source started, d (+Inf for the
 // steady state), in mg/L. Domenico is not defined for an instantaneous
 // release (returns 0).
+//
+// With several sources the value is the sum of each source's, in source
+// order, each in its own plume frame and on its own clock (tau minus the
+// source's lag behind the first).
 func (m *model) closedForm(exact bool, p Point, tau float64) float64 {
-	return closedFormOf(&m.aquiferParams, &m.compoundParams, &m.sourceParams, exact, p, tau)
+	if len(m.extra) == 0 {
+		return closedFormOf(m.aquiferFor(p), &m.compoundParams, &m.sourceParams, exact, p, tau)
+	}
+	c := 0.0
+	for i := range m.sourceCount() {
+		c += m.contribution(exact, p, tau, i)
+	}
+	return c
+}
+
+// contribution is source i's part of the value at p and tau (the first
+// source's clock), mg/L.
+func (m *model) contribution(exact bool, p Point, tau float64, i int) float64 {
+	s := m.source(i)
+	q := m.localPoint(p, i)
+	if i == 0 {
+		q.Status = s.status(p)
+	}
+	return closedFormOf(m.aquiferFor(q), &m.compoundParams, s, exact, q, tau-s.lag)
 }
 
 // closedFormOf is closedForm for compound c released by source s in aquifer a.

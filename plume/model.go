@@ -2,7 +2,6 @@ package plume
 
 import (
 	"fmt"
-	"math"
 )
 
 // Model is a validated scenario prepared for evaluation: the request's units
@@ -19,7 +18,8 @@ import (
 //
 // A Model is immutable after Prepare and safe for concurrent use.
 type Model struct {
-	sc    Scenario    // as given, request units
+	given Scenario    // as given (hashed as the input)
+	sc    Scenario    // as given, receptors given by lon/lat placed in the site frame; request units
 	units Units       // the request's units, defaults filled in
 	uf    unitFactors // request unit -> canonical
 	canon Scenario    // sc in canonical units
@@ -28,35 +28,23 @@ type Model struct {
 	pts   []Point
 }
 
-// PrepareOptions tune Prepare; the zero value is usable.
-type PrepareOptions struct {
-	// TravelPlumeX are further plume-frame distances, m, that count toward
-	// the travel distance of an estimated dispersivity (observation wells,
-	// for example), besides the receptors'.
-	TravelPlumeX []float64
-}
-
 // Prepare validates sc (every bad field at once, as an *Error of kind
 // KindInvalid), derives its model and checks that every converted and
 // derived value is finite (checkFinite).
-func Prepare(sc Scenario, o PrepareOptions) (*Model, error) {
+func Prepare(sc Scenario) (*Model, error) {
 	if err := Validate(sc); err != nil {
 		return nil, err
 	}
+	given := sc
+	sc = resolveLonLat(sc)
 	units := sc.Units.withDefaults()
 	uf, _ := units.factors()
 	c := toCanonical(sc)
-	md := &Model{sc: sc, units: units, uf: uf, canon: c, frame: frameOf(c.Source), pts: make([]Point, len(c.Receptors))}
-	maxX := math.Inf(-1)
+	md := &Model{sc: sc, given: given, units: units, uf: uf, canon: c, pts: make([]Point, len(c.Receptors))}
+	md.m = derive(c)
+	md.frame = md.m.frame
 	for i, r := range c.Receptors {
 		md.pts[i] = md.receptorPoint(r, i)
-		maxX = math.Max(maxX, md.pts[i].X)
-	}
-	for _, x := range o.TravelPlumeX {
-		maxX = math.Max(maxX, x)
-	}
-	md.m = derive(c, maxX)
-	for i := range md.pts {
 		md.m.classify(&md.pts[i])
 	}
 	if err := md.checkFinite(); err != nil {
@@ -67,7 +55,7 @@ func Prepare(sc Scenario, o PrepareOptions) (*Model, error) {
 
 // receptorPoint places a canonical receptor in the plume frame (not yet classified).
 func (md *Model) receptorPoint(r Receptor, i int) Point {
-	p := Point{ID: r.ID}
+	p := Point{ID: r.ID, site: [2]float64{*r.X, *r.Y}, hasSite: true}
 	if p.ID == "" {
 		p.ID = fmt.Sprintf("R%d", i+1)
 	}
@@ -81,7 +69,8 @@ func (md *Model) receptorPoint(r Receptor, i int) Point {
 	return p
 }
 
-// Scenario returns the scenario as given (request units).
+// Scenario returns the scenario in request units, receptors given by
+// lon/lat placed in the site frame.
 func (md *Model) Scenario() Scenario { return md.sc }
 
 // Canonical returns the scenario in canonical units (m, d, mg/L).
@@ -96,8 +85,9 @@ func (md *Model) Factors() UnitFactors { return UnitFactors(md.uf) }
 // Frame is the site-to-plume frame in canonical units (m).
 func (md *Model) Frame() Frame { return md.frame }
 
-// SiteFrame is the site-to-plume frame in the request's length unit.
-func (md *Model) SiteFrame() Frame { return frameOf(md.sc.Source) }
+// SiteFrame is the site-to-plume frame in the request's length unit (of
+// the first source when there are several).
+func (md *Model) SiteFrame() Frame { return frameOf(md.sc.PrimarySource()) }
 
 // Receptors returns the receptors located and classified in the plume frame, m.
 func (md *Model) Receptors() []Point { return md.pts }
@@ -115,7 +105,7 @@ func (md *Model) Locate(x, y, top, bottom float64) Point {
 
 // LocateSite classifies a place given in canonical site coordinates, m.
 func (md *Model) LocateSite(id string, x, y, z float64) Point {
-	p := Point{ID: id, Top: z, Bottom: z}
+	p := Point{ID: id, Top: z, Bottom: z, site: [2]float64{x, y}, hasSite: true}
 	p.X, p.Y = md.frame.ToPlume(x, y)
 	md.m.classify(&p)
 	return p
@@ -139,17 +129,28 @@ func (md *Model) Peak(method string, p Point, steady float64, taus []float64) (t
 	return pk.tau, pk.c
 }
 
-// Transport returns the transport parameters, canonical units.
+// Transport returns the model-wide transport parameters, canonical units;
+// with DispersivityBasis "receptor_distance" the dispersivities are each
+// point's own (TransportAt) and Alpha and Dispersion are zero here.
 func (md *Model) Transport() Transport {
 	m := md.m
 	return Transport{V: m.v, R: m.r, Lambda: m.lambda, Mu: m.mu, Alpha: m.alpha, Dispersion: m.disp}
 }
 
-// SourceTerm returns the source description, canonical units.
+// TransportAt returns the transport parameters a point is evaluated with.
+func (md *Model) TransportAt(p Point) Transport {
+	tr := md.Transport()
+	a := md.m.aquiferFor(p)
+	tr.Alpha, tr.Dispersion = a.alpha, a.disp
+	return tr
+}
+
+// SourceTerm returns the source description (the first source's when
+// there are several; Continuous is true only when all are), canonical units.
 func (md *Model) SourceTerm() SourceTerm {
 	m := md.m
 	return SourceTerm{Kind: m.kind, Concentration: m.c0, Mass: m.massKg, Width: m.width, Depth: m.depth,
-		ReleaseDepth: m.relDepth, Start: m.start, Duration: m.duration, Depletion: m.depletion, Continuous: m.continuous()}
+		ReleaseDepth: m.relDepth, Start: m.start, Duration: m.duration, Depletion: m.depletion, Continuous: m.allContinuous()}
 }
 
 // ScreeningLevel is the screening level used, mg/L; ok is false when none is known.
@@ -170,6 +171,8 @@ type UnitFactors struct {
 	L float64 // metres per request length unit
 	T float64 // days per request time unit
 	C float64 // mg/L per request concentration unit
+	K float64 // m/d per request conductivity unit
+	M float64 // g/d per request mass-discharge unit
 }
 
 // Transport holds the transport parameters of a model, canonical units.
@@ -218,6 +221,10 @@ type Point struct {
 	Bottom float64 // depth of the screen's bottom (= Top for a point)
 	Screen bool    // a well screen rather than a point
 	Status Status  // set by the model; "" counts as modelled
+
+	aq      *aquiferParams // the point's own dispersion (BasisReceptorDistance); set by the model
+	site    [2]float64     // canonical site coordinates, when known (hasSite)
+	hasSite bool
 }
 
 // mid is the reported depth: the point depth or the screen's mid-depth.
@@ -232,19 +239,6 @@ func (p Point) upgradient() bool { return p.Status == StatusUpgradient }
 // inside reports a place within a continuous source's zone.
 func (p Point) inside() bool { return p.Status == StatusInsideSource }
 
-// SiteToPlume places a site point (x, y), given in sc's length unit, in the
-// plume frame of sc's source, m; ok is false when sc's units are unknown.
-// It lets a caller find plume-frame distances before Prepare (for
-// PrepareOptions.TravelPlumeX).
-func SiteToPlume(sc Scenario, x, y float64) (px, py float64, ok bool) {
-	f, ok := sc.Units.factors()
-	if !ok {
-		return 0, 0, false
-	}
-	px, py = frameOf(toCanonical(sc).Source).ToPlume(x*f.L, y*f.L)
-	return px, py, true
-}
-
 // With returns a copy of md that runs methods at times (request units;
 // nil times: none), sharing the derived parameters and receptors; methods
 // must be known (see KnownMethod).
@@ -258,3 +252,7 @@ func (md *Model) With(methods []string, times []float64) *Model {
 	}
 	return &c
 }
+
+// ConcentrationFloor is the concentration, mg/L, below which results are
+// reported as 0 (see Derived.ConcentrationFloor).
+func (md *Model) ConcentrationFloor() float64 { return md.m.concentrationFloor() }

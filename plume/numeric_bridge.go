@@ -30,15 +30,29 @@ func (m *model) runNumeric(ctx context.Context, pts []Point, taus []float64, bud
 	if m.kind == SourceKindInstantaneous {
 		return nil, "the finite-volume solver models a continuous source, not an instantaneous release", nil
 	}
+	for i := range m.extra {
+		if m.extra[i].lag != 0 {
+			return nil, "the sources start at different times, which the finite-volume grid does not represent; check each source on its own", nil
+		}
+	}
 	idx, times, reason := m.numericTargets(pts, taus)
 	if reason != "" {
 		return nil, reason, nil
 	}
-	out, err := m.solveNumeric(ctx, pts, idx, times, budget)
+	aq := m.aquiferFor(pts[idx[0]])
+	for _, i := range idx[1:] {
+		if m.aquiferFor(pts[i]).alpha != aq.alpha {
+			return nil, "the dispersivities were estimated at each receptor's own travel distance, and one finite-volume grid holds one dispersivity: " +
+				"give aquifer.dispersivity or aquifer.dispersivity_scale for a cross-check of several receptors (or check one receptor at a time)", nil
+		}
+	}
+	out, err := m.solveNumeric(ctx, aq, pts, idx, times, budget)
 	switch {
 	case err == nil:
 	case ctx.Err() != nil:
 		return nil, "", ctx.Err()
+	case errors.Is(err, numeric.ErrWorkBudget):
+		return nil, "the time steps it needs exceed the work budget (" + err.Error() + ")", nil
 	case errors.Is(err, numeric.ErrBudget):
 		return nil, "the grid it needs exceeds the cell budget (" + err.Error() + ")", nil
 	default:
@@ -86,7 +100,7 @@ type numericOutput struct {
 }
 
 // solveNumeric runs the 1D or 3D solver for the receptors idx at times.
-func (m *model) solveNumeric(ctx context.Context, pts []Point, idx []int, times []float64, budget int) (numericOutput, error) {
+func (m *model) solveNumeric(ctx context.Context, aq *aquiferParams, pts []Point, idx []int, times []float64, budget int) (numericOutput, error) {
 	hist := numeric.History{Duration: m.duration, Depletion: m.depletion}
 	if m.kind == SourceKind1D {
 		inlet := numeric.InletConcentration
@@ -98,7 +112,7 @@ func (m *model) solveNumeric(ctx context.Context, pts []Point, idx []int, times 
 			xs[k] = pts[i].X
 		}
 		r, err := numeric.Screen1D(ctx, numeric.Problem1D{
-			V: m.v, Dx: m.disp[0], Dm: math.Min(m.de(), m.disp[0]), R: m.r, Mu: m.mu,
+			V: m.v, Dx: aq.disp[0], Dm: math.Min(m.de, aq.disp[0]), R: m.r, Mu: m.mu,
 			Inlet: inlet, History: hist, Receptors: xs, Times: times, CellBudget: budget,
 		})
 		if r == nil {
@@ -111,13 +125,37 @@ func (m *model) solveNumeric(ctx context.Context, pts []Point, idx []int, times 
 		p := pts[i]
 		rs[k] = numeric.Receptor{X: p.X, Y: p.Y, Top: p.Top, Bottom: p.Bottom}
 	}
-	r, err := numeric.Screen3D(ctx, numeric.Problem3D{
-		V: m.v, Dx: m.disp[0], Dy: m.disp[1], Dz: m.disp[2], R: m.r, Mu: m.mu,
+	pb := numeric.Problem3D{
+		V: m.v, Dx: aq.disp[0], Dy: aq.disp[1], Dz: aq.disp[2], R: m.r, Mu: m.mu,
 		Width: m.width, Depth: m.depth, History: hist,
 		Receptors: rs, Times: times, CellBudget: budget,
-	})
+	}
+	scale := 1.0
+	if len(m.extra) > 0 {
+		// Several sources on one grid, in the first source's plume frame,
+		// each at its strength relative to the largest.
+		scale = m.referenceConcentration()
+		pb.Width, pb.Depth, pb.History = 0, 0, numeric.History{}
+		for i := range m.sourceCount() {
+			s := m.source(i)
+			x, y := 0.0, 0.0
+			if i > 0 {
+				x, y = m.frame.ToPlume(s.frame.X0, s.frame.Y0)
+			}
+			pb.Sources = append(pb.Sources, numeric.SourceFace{X: x, Y: y, Width: s.width, Depth: s.depth,
+				Strength: s.c0 / scale, History: numeric.History{Duration: s.duration, Depletion: s.depletion}})
+		}
+	}
+	r, err := numeric.Screen3D(ctx, pb)
 	if r == nil {
 		return numericOutput{}, err
+	}
+	if scale != 1 {
+		for k := range r.C {
+			for j := range r.C[k] {
+				r.C[k][j] *= scale / m.c0 // numericValues multiplies by the first source's c0
+			}
+		}
 	}
 	return numericOutput{solver: SourceKind3D, c: r.C, grid: r.Grid, budget: r.Budget}, err
 }
@@ -164,8 +202,8 @@ func numericReport(out numericOutput, budget int) *NumericReport {
 		TotalCells:       grid.Cells,
 		Spacing:          [3]float64{grid.DXMin, grid.DYMin, grid.DZMin},
 		MaxSpacing:       [3]float64{grid.DXMax, grid.DYMax, grid.DZMax},
-		XMin:             0,
-		XMax:             grid.XLength,
+		XMin:             grid.XStart,
+		XMax:             grid.XStart + grid.XLength,
 		YHalf:            grid.YLength,
 		ZMax:             grid.ZLength,
 		GridPeclet:       grid.PecletX,
@@ -174,12 +212,8 @@ func numericReport(out numericOutput, budget int) *NumericReport {
 		TimeSteps:        grid.Steps,
 		MassBalanceError: out.budget.ClosureError,
 		CellBudget:       budget,
+		SteadyFrom:       steadyFrom(grid.SteadyFrom),
 	}
-}
-
-// de is the effective diffusion coefficient, m^2/d (D_x - alpha_L v).
-func (m *model) de() float64 {
-	return math.Max(m.disp[0]-m.alpha[0]*m.v, 0)
 }
 
 // uniq removes repeated values from a sorted slice.
@@ -191,4 +225,13 @@ func uniq(s []float64) []float64 {
 		}
 	}
 	return out
+}
+
+// steadyFrom is the report's steady_from, d: nil when every value was time
+// stepped.
+func steadyFrom(t float64) *float64 {
+	if !(t > 0) || math.IsInf(t, 0) {
+		return nil
+	}
+	return Ptr(t)
 }

@@ -11,9 +11,14 @@ func (r *Result) fromCanonical(f unitFactors) {
 	d.HalfLife = scaled(d.HalfLife, 1/T)
 	d.DecayRate *= T
 	d.EffectiveDecayRate *= T
-	d.Dispersivity = DispersivityValues{d.Dispersivity.Longitudinal / L, d.Dispersivity.Transverse / L, d.Dispersivity.Vertical / L}
+	if v := d.Dispersivity; v != nil {
+		d.Dispersivity = &DispersivityValues{v.Longitudinal / L, v.Transverse / L, v.Vertical / L}
+	}
 	k := L * L / T
-	d.Dispersion = DispersionValues{d.Dispersion.Longitudinal / k, d.Dispersion.Transverse / k, d.Dispersion.Vertical / k}
+	if v := d.Dispersion; v != nil {
+		d.Dispersion = &DispersionValues{v.Longitudinal / k, v.Transverse / k, v.Vertical / k}
+	}
+	d.ConcentrationFloor /= C
 	d.TravelDistance = scaled(d.TravelDistance, 1/L)
 	d.ScreeningLevel = scaled(d.ScreeningLevel, 1/C)
 	d.Solubility = scaled(d.Solubility, 1/C)
@@ -26,6 +31,9 @@ func (r *Result) fromCanonical(f unitFactors) {
 		rr.Z /= L
 		rr.ScreenTop = scaled(rr.ScreenTop, 1/L)
 		rr.ScreenBottom = scaled(rr.ScreenBottom, 1/L)
+		if v := rr.Dispersivity; v != nil {
+			rr.Dispersivity = &ReceptorDispersivity{v.Longitudinal / L, v.Transverse / L, v.Vertical / L, v.TravelDistance / L}
+		}
 		for j := range rr.Series {
 			sp := &rr.Series[j]
 			sp.Exact, sp.Domenico, sp.Numeric = conc(sp.Exact), conc(sp.Domenico), conc(sp.Numeric)
@@ -40,6 +48,34 @@ func (r *Result) fromCanonical(f unitFactors) {
 			a.Floor /= C
 			// a.Time is a requested time, already in the request's unit.
 		}
+		if a := rr.AllowableSourceConcentration; a != nil {
+			a.SteadyState, a.WithinTimes = conc(a.SteadyState), conc(a.WithinTimes)
+		}
+		for k := range rr.Contributions {
+			cb := &rr.Contributions[k]
+			for j := range cb.Series {
+				sp := &cb.Series[j]
+				sp.Exact, sp.Domenico = conc(sp.Exact), conc(sp.Domenico)
+			}
+			cb.SteadyState.Exact, cb.SteadyState.Domenico = conc(cb.SteadyState.Exact), conc(cb.SteadyState.Domenico)
+		}
+	}
+	for i := range d.Sources {
+		d.Sources[i].MassDischarge = scaled(d.Sources[i].MassDischarge, 1/f.M)
+	}
+	for i := range r.Transects {
+		tr := &r.Transects[i]
+		tr.Length /= L
+		tr.Top /= L
+		tr.Bottom /= L
+		conv := func(v *TransectValue) {
+			v.MassDischarge /= f.M
+			v.StreamConcentration = scaled(v.StreamConcentration, 1/C)
+		}
+		for j := range tr.Series {
+			conv(&tr.Series[j].TransectValue)
+		}
+		conv(&tr.SteadyState)
 	}
 	if n := r.Numeric; n != nil {
 		for i := range n.Spacing {
@@ -47,6 +83,7 @@ func (r *Result) fromCanonical(f unitFactors) {
 			n.MaxSpacing[i] /= L
 		}
 		n.TimeStep /= T
+		n.SteadyFrom = scaled(n.SteadyFrom, 1/T)
 		n.XMin /= L
 		n.XMax /= L
 		n.YHalf /= L
@@ -55,7 +92,8 @@ func (r *Result) fromCanonical(f unitFactors) {
 }
 
 // sanitize replaces any NaN or infinity left in r (none should be) by a
-// finite value, and negative concentrations by 0.
+// finite value, and concentrations below the floor (Derived.ConcentrationFloor,
+// in the result's unit), negative ones included, by 0.
 func (r *Result) sanitize() {
 	fix := func(x *float64) { *x = Clean(*x) }
 	fixP := func(p *float64) {
@@ -63,16 +101,26 @@ func (r *Result) sanitize() {
 			*p = Clean(*p)
 		}
 	}
+	r.sanitizeExtras()
+	floor := r.Derived.ConcentrationFloor
 	conc := func(p *float64) {
 		if p != nil {
-			*p = math.Max(Clean(*p), 0)
+			*p = FloorConcentration(Clean(*p), floor)
 		}
 	}
 	d := &r.Derived
-	for _, x := range []*float64{&d.SeepageVelocity, &d.Retardation, &d.DecayRate, &d.EffectiveDecayRate,
-		&d.Dispersivity.Longitudinal, &d.Dispersivity.Transverse, &d.Dispersivity.Vertical,
-		&d.Dispersion.Longitudinal, &d.Dispersion.Transverse, &d.Dispersion.Vertical} {
+	for _, x := range []*float64{&d.SeepageVelocity, &d.Retardation, &d.DecayRate, &d.EffectiveDecayRate} {
 		fix(x)
+	}
+	if v := d.Dispersivity; v != nil {
+		fix(&v.Longitudinal)
+		fix(&v.Transverse)
+		fix(&v.Vertical)
+	}
+	if v := d.Dispersion; v != nil {
+		fix(&v.Longitudinal)
+		fix(&v.Transverse)
+		fix(&v.Vertical)
 	}
 	for _, p := range []*float64{d.Koc, d.HalfLife, d.TravelDistance, d.ScreeningLevel, d.Solubility} {
 		fixP(p)
@@ -98,6 +146,21 @@ func (r *Result) sanitize() {
 		conc(&rr.Peak.Concentration)
 		fixP(rr.FirstExceedanceTime)
 		fixP(rr.DomenicoDeviation)
+		for _, al := range []*Allowance{rr.AllowableSourceConcentration, rr.DilutionAttenuationFactor, rr.AllowableScaleFactor} {
+			if al != nil {
+				fixP(al.SteadyState)
+				fixP(al.WithinTimes)
+			}
+		}
+		for k := range rr.Contributions {
+			cb := &rr.Contributions[k]
+			for j := range cb.Series {
+				conc(cb.Series[j].Exact)
+				conc(cb.Series[j].Domenico)
+			}
+			conc(cb.SteadyState.Exact)
+			conc(cb.SteadyState.Domenico)
+		}
 		if a := rr.NumericAgreement; a != nil {
 			fix(&a.MaxRelativeDifference)
 			fix(&a.Time)
@@ -118,5 +181,43 @@ func (r *Result) sanitize() {
 		fix(&n.YHalf)
 		fix(&n.ZMax)
 		fix(&n.MassBalanceError)
+	}
+}
+
+// FloorConcentration returns c, or 0 when c is below floor (or negative):
+// no output holds a value below the documented floor, so none holds a
+// subnormal number a spreadsheet cannot store.
+func FloorConcentration(c, floor float64) float64 {
+	if !(c >= floor) || c <= 0 {
+		return 0
+	}
+	return c
+}
+
+// sanitizeExtras is sanitize for the transects, the allowable scale factor
+// and the sources' mass discharges.
+func (r *Result) sanitizeExtras() {
+	cleanP := func(p *float64) {
+		if p != nil {
+			*p = Clean(*p)
+		}
+	}
+	for i := range r.Transects {
+		tr := &r.Transects[i]
+		vals := []*TransectValue{&tr.SteadyState}
+		for j := range tr.Series {
+			vals = append(vals, &tr.Series[j].TransectValue)
+		}
+		for _, v := range vals {
+			v.MassDischarge = math.Max(Clean(v.MassDischarge), 0)
+			cleanP(v.StreamConcentration)
+		}
+	}
+	if a := r.AllowableScaleFactor; a != nil {
+		cleanP(a.SteadyState)
+		cleanP(a.WithinTimes)
+	}
+	for i := range r.Derived.Sources {
+		cleanP(r.Derived.Sources[i].MassDischarge)
 	}
 }

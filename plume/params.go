@@ -34,6 +34,7 @@ var paramSetters = map[string]setter{
 	"aquifer.bulk_density":              func(sc *Scenario, _ int, v float64) error { sc.Aquifer.BulkDensity = &v; return nil },
 	"aquifer.organic_carbon_fraction":   func(sc *Scenario, _ int, v float64) error { sc.Aquifer.OrganicCarbonFraction = &v; return nil },
 	"aquifer.effective_diffusion":       func(sc *Scenario, _ int, v float64) error { sc.Aquifer.EffectiveDiffusion = &v; return nil },
+	"aquifer.dispersivity_scale":        func(sc *Scenario, _ int, v float64) error { sc.Aquifer.DispersivityScale = &v; return nil },
 	"aquifer.dispersivity.longitudinal": func(sc *Scenario, _ int, v float64) error { ownDispersivity(sc).Longitudinal = &v; return nil },
 	"aquifer.dispersivity.transverse":   func(sc *Scenario, _ int, v float64) error { ownDispersivity(sc).Transverse = &v; return nil },
 	"aquifer.dispersivity.vertical":     func(sc *Scenario, _ int, v float64) error { ownDispersivity(sc).Vertical = &v; return nil },
@@ -58,6 +59,23 @@ var paramSetters = map[string]setter{
 	"receptors[].z":                     receptorSetter(func(r *Receptor, v *float64) { r.Z = v }),
 	"receptors[].screen_top":            receptorSetter(func(r *Receptor, v *float64) { r.ScreenTop = v }),
 	"receptors[].screen_bottom":         receptorSetter(func(r *Receptor, v *float64) { r.ScreenBottom = v }),
+	"receptors[].lon":                   receptorSetter(func(r *Receptor, v *float64) { r.Lon = v }),
+	"receptors[].lat":                   receptorSetter(func(r *Receptor, v *float64) { r.Lat = v }),
+	"sources[].x":                       sourceSetter(func(s *Source, v *float64) { s.X = v }),
+	"sources[].y":                       sourceSetter(func(s *Source, v *float64) { s.Y = v }),
+	"sources[].flow_azimuth_deg":        sourceSetter(func(s *Source, v *float64) { s.FlowAzimuthDeg = v }),
+	"sources[].concentration":           sourceSetter(func(s *Source, v *float64) { s.Concentration = v }),
+	"sources[].width":                   sourceSetter(func(s *Source, v *float64) { s.Width = v }),
+	"sources[].depth":                   sourceSetter(func(s *Source, v *float64) { s.Depth = v }),
+	"sources[].start":                   sourceSetter(func(s *Source, v *float64) { s.Start = v }),
+	"sources[].duration":                sourceSetter(func(s *Source, v *float64) { s.Duration = v }),
+	"sources[].half_life":               sourceSetter(func(s *Source, v *float64) { s.HalfLife = v }),
+	"sources[].mass":                    sourceSetter(func(s *Source, v *float64) { s.Mass = v }),
+	"sources[].release_depth":           sourceSetter(func(s *Source, v *float64) { s.ReleaseDepth = v }),
+	"transects[].top":                   transectSetter(func(t *Transect, v *float64) { t.Top = v }),
+	"transects[].bottom":                transectSetter(func(t *Transect, v *float64) { t.Bottom = v }),
+	"transects[].stream_flow":           transectSetter(func(t *Transect, v *float64) { t.StreamFlow = v }),
+	"transects[].screening_level":       transectSetter(func(t *Transect, v *float64) { t.ScreeningLevel = v }),
 	"times[]": func(sc *Scenario, i int, v float64) error {
 		if i >= len(sc.Times) {
 			return fmt.Errorf("index %d out of range (%d times)", i, len(sc.Times))
@@ -81,13 +99,32 @@ func ownDispersivity(sc *Scenario) *Dispersivity {
 // receptorSetter sets one field of receptor i on sc's own copy of the receptors.
 func receptorSetter(set func(r *Receptor, v *float64)) setter {
 	return func(sc *Scenario, i int, v float64) error {
-		if i >= len(sc.Receptors) {
-			return fmt.Errorf("index %d out of range (%d receptors)", i, len(sc.Receptors))
-		}
-		sc.Receptors = append([]Receptor(nil), sc.Receptors...)
-		set(&sc.Receptors[i], &v)
-		return nil
+		return setAt(&sc.Receptors, i, "receptors", func(r *Receptor) { set(r, &v) })
 	}
+}
+
+// sourceSetter sets one field of source i of several.
+func sourceSetter(set func(s *Source, v *float64)) setter {
+	return func(sc *Scenario, i int, v float64) error {
+		return setAt(&sc.Sources, i, "sources", func(s *Source) { set(s, &v) })
+	}
+}
+
+// transectSetter sets one field of transect i.
+func transectSetter(set func(t *Transect, v *float64)) setter {
+	return func(sc *Scenario, i int, v float64) error {
+		return setAt(&sc.Transects, i, "transects", func(t *Transect) { set(t, &v) })
+	}
+}
+
+// setAt edits item i of *items on a copy of the slice (copy on write).
+func setAt[T any](items *[]T, i int, what string, edit func(*T)) error {
+	if i >= len(*items) {
+		return fmt.Errorf("index %d out of range (%d %s)", i, len(*items), what)
+	}
+	*items = append([]T(nil), *items...)
+	edit(&(*items)[i])
+	return nil
 }
 
 // ParamPaths lists the paths a Param may name ("[]" stands for an index).

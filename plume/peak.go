@@ -27,11 +27,23 @@ type timeline struct {
 // charTime is the characteristic time of a receptor, d: the retarded
 // advective travel time to it, at least the travel time over alpha_L.
 func (m *model) charTime(p Point) float64 {
+	if len(m.extra) > 0 {
+		// Several sources: the earliest arrival of any of them, on the
+		// first source's clock.
+		t := math.Inf(1)
+		for i := range m.sourceCount() {
+			s := m.source(i)
+			q := m.localPoint(p, i)
+			one := model{aquiferParams: m.aquiferParams, compoundParams: m.compoundParams, sourceParams: *s}
+			t = math.Min(t, s.lag+one.charTime(q))
+		}
+		return math.Max(t, 1e-9)
+	}
 	dist := math.Max(p.X, 0)
 	if m.kind == SourceKindInstantaneous {
 		dist = math.Hypot(p.X, p.Y)
 	}
-	dist = math.Max(dist, math.Max(m.alpha[0], 1e-3))
+	dist = math.Max(dist, math.Max(m.aquiferFor(p).alpha[0], 1e-3))
 	return m.r * dist / m.v
 }
 
@@ -40,19 +52,28 @@ func (m *model) sample(f func(float64) float64, p Point, extra []float64) timeli
 	t0 := m.charTime(p)
 	lo := 1e-3 * t0
 	hi := 1e3 * t0
-	if !math.IsInf(m.duration, 1) {
-		hi = math.Max(hi, 10*(m.duration+t0))
-	}
-	if m.depletion > 0 {
-		hi = math.Max(hi, 50/m.depletion)
+	for i := range m.sourceCount() {
+		s := m.source(i)
+		if !math.IsInf(s.duration, 1) {
+			hi = math.Max(hi, 10*(s.lag+s.duration+t0))
+		}
+		if s.depletion > 0 {
+			hi = math.Max(hi, s.lag+50/s.depletion)
+		}
 	}
 	taus := make([]float64, 0, scanSamples(lo, hi)+8+len(extra))
 	for i := range scanSamples(lo, hi) {
 		taus = append(taus, lo*math.Pow(10, float64(i)/perDecade))
 	}
 	taus = append(taus, t0)
-	if !math.IsInf(m.duration, 1) {
-		taus = append(taus, t0+m.duration/2, t0+m.duration, m.duration)
+	for i := range m.sourceCount() {
+		s := m.source(i)
+		if !math.IsInf(s.duration, 1) {
+			taus = append(taus, s.lag+t0+s.duration/2, s.lag+t0+s.duration, s.lag+s.duration)
+		}
+		if s.lag > 0 {
+			taus = append(taus, s.lag)
+		}
 	}
 	for _, e := range extra {
 		taus = append(taus, e)
@@ -107,9 +128,9 @@ func (m *model) findPeak(f func(float64) float64, p Point, steady float64, extra
 	switch {
 	case p.upgradient():
 		return peakResult{tau: math.Inf(1), c: 0}
-	case p.inside():
+	case p.inside() && len(m.extra) == 0:
 		return peakResult{tau: 0, c: m.c0}
-	case m.continuous():
+	case m.allContinuous():
 		return peakResult{tau: math.Inf(1), c: steady}
 	}
 	tl := m.sample(f, p, extra)
@@ -154,12 +175,12 @@ func (m *model) firstExceedance(f func(float64) float64, p Point, pk peakResult,
 	if !(pk.c >= level) || p.upgradient() {
 		return 0, false
 	}
-	if p.inside() {
+	if p.inside() && len(m.extra) == 0 {
 		return 0, true
 	}
 	g := func(t float64) float64 { return f(t) - level }
 	const rel = 1e-7
-	if m.continuous() {
+	if m.allContinuous() {
 		// Monotone in t. Bracket from the known samples (the requested
 		// times) when they straddle the level; otherwise double up from the
 		// characteristic time until the level is reached, then halve down.
@@ -215,4 +236,15 @@ func (m *model) firstExceedance(f func(float64) float64, p Point, pk peakResult,
 		}
 	}
 	return 0, false
+}
+
+// allContinuous reports whether every source is constant forever (the
+// value at any place then rises monotonically to its steady state).
+func (m *model) allContinuous() bool {
+	for i := range m.sourceCount() {
+		if !m.source(i).continuous() {
+			return false
+		}
+	}
+	return true
 }

@@ -8,14 +8,43 @@ type Result struct {
 	Engine Engine `json:"engine"`
 	// Units of every number in the result (the request's, defaults filled in).
 	Units Units `json:"units"`
+	// The site frame's coordinate reference system, when the request named one.
+	CRS string `json:"crs,omitempty"`
+	// The receptors counted by outcome, and the verdict in one sentence.
+	Summary Summary `json:"summary"`
 	// Derived transport parameters and where each came from.
 	Derived Derived `json:"derived"`
 	// One entry per receptor, in request order.
 	Receptors []ReceptorResult `json:"receptors"`
 	// Report of the finite-volume grid when the numeric method ran; omitted otherwise.
 	Numeric *NumericReport `json:"numeric,omitempty"`
+	// Mass discharge through each transect; omitted when none was asked for.
+	Transects []TransectResult `json:"transects,omitempty"`
+	// With several sources and a screening level: the common factor by
+	// which every source concentration may be scaled so that the worst
+	// receptor just reaches the level.
+	AllowableScaleFactor *Allowance `json:"allowable_scale_factor,omitempty"`
 	// Cautions and notes; always holds the general screening caution.
 	Caveats []Caveat `json:"caveats"`
+}
+
+// Summary counts the receptors by outcome. Exceeding + Below + NotCompared
+// = Receptors; a receptor not compared is one not modelled or one without a
+// known screening level.
+type Summary struct {
+	Receptors int `json:"receptors"`
+	// Compared with the level and at or above it at some time.
+	Exceeding int `json:"exceeding"`
+	// Compared with the level and below it at all times.
+	Below int `json:"below"`
+	// Not compared: not modelled, or no screening level known.
+	NotCompared int `json:"not_compared"`
+	// Not modelled (upgradient of the source).
+	NotModelled int `json:"not_modelled"`
+	// Inside the source zone (the source's own concentration is compared).
+	InsideSource int `json:"inside_source"`
+	// The outcome in words.
+	Text string `json:"text"`
 }
 
 // Engine identifies the code version and the input.
@@ -49,17 +78,24 @@ type Derived struct {
 	// Decay rate applied to the dissolved concentration in the retarded
 	// equation, 1/T: DecayRate ("total") or DecayRate / R ("dissolved").
 	EffectiveDecayRate float64 `json:"effective_decay_rate"`
-	// Dispersivities used, L.
-	Dispersivity DispersivityValues `json:"dispersivity"`
+	// Dispersivities used, L; null when each receptor has its own
+	// (dispersivity_basis "receptor_distance": see receptors[].dispersivity).
+	Dispersivity *DispersivityValues `json:"dispersivity"`
 	// True when any dispersivity was estimated rather than given.
 	DispersivityEstimated bool `json:"dispersivity_estimated"`
+	// What the longitudinal dispersivity rests on: "given";
+	// "dispersivity_scale" (estimated at aquifer.dispersivity_scale for the
+	// whole model); "receptor_distance" (estimated at each receptor's own
+	// travel distance, so that no receptor's answer depends on the others).
+	DispersivityBasis string `json:"dispersivity_basis"`
 	// The relations used for the estimated dispersivities; empty when none was estimated.
 	DispersivityRelation string `json:"dispersivity_relation,omitempty"`
-	// Travel distance the estimate used (source to the receptor farthest
-	// downgradient along the flow, at least 1 m), L; null when nothing was estimated.
+	// The plume scale a model-wide estimate used (aquifer.dispersivity_scale),
+	// L; null when alpha_L was given or each receptor used its own distance.
 	TravelDistance *float64 `json:"travel_distance"`
-	// Dispersion coefficients D_i = alpha_i v + D_e, L^2/T.
-	Dispersion DispersionValues `json:"dispersion"`
+	// Dispersion coefficients D_i = alpha_i v + D_e, L^2/T; null when each
+	// receptor has its own.
+	Dispersion *DispersionValues `json:"dispersion"`
 	// Screening level used, C; null when none was given or found.
 	ScreeningLevel *float64 `json:"screening_level"`
 	// Aqueous solubility used for the separate-phase check, C; null when unknown.
@@ -77,6 +113,26 @@ type Derived struct {
 	ReferenceCompound string `json:"reference_compound,omitempty"`
 	// How peak and first-exceedance times were found.
 	PeakMethod string `json:"peak_method"`
+	// Concentrations below this floor, C, are reported as 0: 1e-12 of the
+	// source concentration (for an instantaneous release, of the release's
+	// mass dissolved in 1 m^3 of pore water). Far below any screening level,
+	// it keeps round-off noise and subnormal numbers out of every output.
+	ConcentrationFloor float64 `json:"concentration_floor"`
+	// The unit of every dimensional input, by its JSON path, as the engine
+	// read it (for example "aquifer.hydraulic_conductivity": "ft/d").
+	InputUnits map[string]string `json:"input_units"`
+	// Each source's strength and depletion (an array even for one source).
+	Sources []SourceDerived `json:"sources"`
+}
+
+// ReceptorDispersivity is a receptor's own dispersivities, L, estimated at
+// its travel distance (dispersivity_basis "receptor_distance").
+type ReceptorDispersivity struct {
+	Longitudinal float64 `json:"longitudinal"`
+	Transverse   float64 `json:"transverse"`
+	Vertical     float64 `json:"vertical"`
+	// Travel distance the estimate used (at least 2 m), L.
+	TravelDistance float64 `json:"travel_distance"`
 }
 
 // DispersivityValues are the three dispersivities used, L.
@@ -103,6 +159,9 @@ type DispersionValues struct {
 type ReceptorResult struct {
 	// Receptor identifier from the request (or "R<index+1>").
 	ID string `json:"id"`
+	// Site coordinates, L (as given, or projected from lon and lat).
+	X float64 `json:"x"`
+	Y float64 `json:"y"`
 	// Distance along flow from the centre of the source's downgradient face, L.
 	PlumeX float64 `json:"plume_x"`
 	// Transverse offset, positive to the left of the flow direction, L.
@@ -113,6 +172,13 @@ type ReceptorResult struct {
 	ScreenTop *float64 `json:"screen_top,omitempty"`
 	// Bottom of the well screen, L; null for a point receptor.
 	ScreenBottom *float64 `json:"screen_bottom,omitempty"`
+	// Whether and how the receptor was modelled: "modelled",
+	// "not_modelled_upgradient" (values reported as 0 are not a model
+	// result), "inside_source" (values are the source concentration).
+	Status Status `json:"status"`
+	// The receptor's own dispersivities when each receptor has its own
+	// (dispersivity_basis "receptor_distance"); omitted otherwise.
+	Dispersivity *ReceptorDispersivity `json:"dispersivity,omitempty"`
 	// Concentrations at the requested times, one value per method run.
 	Series []SeriesPoint `json:"series"`
 	// Concentrations as t -> infinity, C (numeric is not run to steady state).
@@ -122,13 +188,92 @@ type ReceptorResult struct {
 	// Earliest time the concentration reaches the screening level, T; null
 	// when it never does (or no screening level is known).
 	FirstExceedanceTime *float64 `json:"first_exceedance_time"`
-	// True when the peak concentration reaches the screening level.
-	ExceedsScreeningLevel bool `json:"exceeds_screening_level"`
+	// True when the peak concentration reaches the screening level, false
+	// when it stays below; null when nothing was compared: the receptor is
+	// not modelled (upgradient) or no screening level is known.
+	ExceedsScreeningLevel *bool `json:"exceeds_screening_level"`
 	// Largest relative difference (Domenico - exact)/exact over the series and
 	// steady state where both ran and exact is above a floor; null otherwise.
 	DomenicoDeviation *float64 `json:"domenico_deviation,omitempty"`
 	// Agreement of the numeric cross-check with the exact solution; null when not run.
 	NumericAgreement *Agreement `json:"numeric_agreement,omitempty"`
+	// The source concentration at which this receptor would just reach the
+	// screening level (one source; null where not defined), C.
+	AllowableSourceConcentration *Allowance `json:"allowable_source_concentration,omitempty"`
+	// Source concentration / receptor concentration, dimensionless (one
+	// source; null where the receptor's value is 0 or not modelled).
+	DilutionAttenuationFactor *Allowance `json:"dilution_attenuation_factor,omitempty"`
+	// With several sources, the factor by which every source concentration
+	// may be scaled so that this receptor just reaches the level.
+	AllowableScaleFactor *Allowance `json:"allowable_scale_factor,omitempty"`
+	// Each source's contribution (several sources and contributions: true).
+	Contributions []Contribution `json:"contributions,omitempty"`
+}
+
+// Allowance is a quantity that bounds the source, at steady state and
+// within the requested times; a member is null where it is not defined
+// (the receptor's value is 0, the receptor is not modelled, or no level).
+type Allowance struct {
+	SteadyState *float64 `json:"steady_state"`
+	WithinTimes *float64 `json:"within_times"`
+}
+
+// Contribution is one source's part of a receptor's values.
+type Contribution struct {
+	SourceID    string        `json:"source_id"`
+	Series      []SeriesPoint `json:"series"`
+	SteadyState MethodValues  `json:"steady_state"`
+}
+
+// SourceDerived describes one source's strength and depletion.
+type SourceDerived struct {
+	// The source's id ("" for a lone source).
+	ID string `json:"id,omitempty"`
+	// Initial mass discharge out of the source face, Q C0, with Q the Darcy
+	// flux through the face (n_e v W D), mass per time (units.mass_discharge);
+	// null for a 1D column, an instantaneous release or without porosity.
+	MassDischarge *float64 `json:"mass_discharge"`
+	// Depletion rate Q C0 / M0 of a source with a given mass, 1/T; null otherwise.
+	DepletionRate *float64 `json:"depletion_rate"`
+	// Time, on the scenario's clock, when the source concentration falls
+	// below the screening level, T; null when it never does or is unknown.
+	TimeBelowScreeningLevel *float64 `json:"time_below_screening_level"`
+	// Time, on the scenario's clock, when the source's mass is exhausted, T;
+	// null when it never is.
+	TimeMassExhausted *float64 `json:"time_mass_exhausted"`
+}
+
+// TransectResult is the mass discharge through one transect.
+type TransectResult struct {
+	ID string `json:"id"`
+	// Length of the line, L, and the depth interval, L.
+	Length float64 `json:"length"`
+	Top    float64 `json:"top"`
+	Bottom float64 `json:"bottom"`
+	// Method the discharge is computed with ("exact", else "domenico").
+	Method string `json:"method"`
+	// One item per requested time.
+	Series []TransectPoint `json:"series"`
+	// As t -> infinity (0 for a source that stops or depletes).
+	SteadyState TransectValue `json:"steady_state"`
+}
+
+// TransectValue is the mass discharge through a transect and, for a
+// stream, the fully mixed stream concentration.
+type TransectValue struct {
+	// Advective mass discharge, mass per time (units.mass_discharge).
+	MassDischarge float64 `json:"mass_discharge"`
+	// Mass discharge / stream flow, C; null without a stream flow.
+	StreamConcentration *float64 `json:"stream_concentration"`
+	// Stream concentration compared with the transect's screening level;
+	// null without both.
+	ExceedsScreeningLevel *bool `json:"exceeds_screening_level"`
+}
+
+// TransectPoint is TransectValue at one requested time, T.
+type TransectPoint struct {
+	Time float64 `json:"time"`
+	TransectValue
 }
 
 // SeriesPoint holds the concentrations at one time, C; a method not run is omitted.
@@ -217,6 +362,10 @@ type NumericReport struct {
 	MassBalanceError float64 `json:"mass_balance_error"`
 	// Cell budget the grid had to fit in.
 	CellBudget int `json:"cell_budget"`
+	// Elapsed time since the source started, T, from which the numeric
+	// values are the directly solved steady state (the field has stopped
+	// changing by then); omitted when every value was time stepped.
+	SteadyFrom *float64 `json:"steady_from,omitempty"`
 }
 
 // Caveat severities.

@@ -13,6 +13,20 @@ type Scenario struct {
 	Contaminant Contaminant `json:"contaminant"`
 	// Source geometry, strength and history, in site coordinates.
 	Source Source `json:"source"`
+	// Several sources instead of Source (3D planar sources sharing the
+	// aquifer and the flow direction); results are their superposition.
+	Sources []Source `json:"sources,omitempty"`
+	// Transects (a creek reach, a property line) through which the
+	// advective mass discharge is reported.
+	Transects []Transect `json:"transects,omitempty"`
+	// With several sources, report each source's contribution at each
+	// receptor (receptors[].contributions).
+	Contributions bool `json:"contributions,omitempty"`
+	// Coordinate reference system of the site frame, "EPSG:NNNN": a
+	// projected CRS whose linear unit matches units.length (metre: m; US
+	// survey or international foot: ft). With it GeoJSON outputs are in WGS
+	// 84 longitude/latitude and receptors may be given as lon, lat.
+	CRS string `json:"crs,omitempty"`
 	// Receptors (wells, parcels, stream points) in site coordinates; at least one.
 	Receptors []Receptor `json:"receptors"`
 	// Times at which to report concentrations, T, each >= 0 and finite, on
@@ -35,13 +49,21 @@ type Units struct {
 	// Concentration unit: "mg/L" (default) or "ug/L". Applies to source
 	// concentration, screening level, solubility and every result concentration.
 	Concentration string `json:"concentration,omitempty"`
+	// Unit of hydraulic conductivity, when it is not the request's length
+	// over time: "m/d", "ft/d", "m/s", "cm/s", "m/yr", "ft/yr" or "gpd/ft2"
+	// (US gallons per day per square foot). Default: length/time.
+	Conductivity string `json:"conductivity,omitempty"`
+	// Unit of mass discharge in responses: "g/d" with times in days,
+	// "kg/yr" with times in years. Set by the engine; a request may leave it
+	// out or give that same value.
+	MassDischarge string `json:"mass_discharge,omitempty"`
 }
 
 // Aquifer holds the hydraulic and sorption properties of the saturated zone.
 // Either SeepageVelocity, or HydraulicConductivity, HydraulicGradient and
 // EffectivePorosity together, must be given.
 type Aquifer struct {
-	// Hydraulic conductivity K, L/T, > 0.
+	// Hydraulic conductivity K, L/T (or Units.Conductivity), > 0.
 	HydraulicConductivity *float64 `json:"hydraulic_conductivity"`
 	// Hydraulic gradient i along the flow direction, dimensionless (L/L), > 0.
 	HydraulicGradient *float64 `json:"hydraulic_gradient"`
@@ -54,8 +76,13 @@ type Aquifer struct {
 	BulkDensity *float64 `json:"bulk_density"`
 	// Fraction of organic carbon f_oc, dimensionless, in [0, 1].
 	OrganicCarbonFraction *float64 `json:"organic_carbon_fraction"`
-	// Dispersivities, L; any not given is estimated from the travel distance.
+	// Dispersivities, L; any not given is estimated (see DispersivityScale).
 	Dispersivity *Dispersivity `json:"dispersivity"`
+	// Plume scale, L, > 0, at which a longitudinal dispersivity not given is
+	// estimated for the whole model. Without it, each receptor (and each map
+	// node) is screened with the dispersivity estimated at its own travel
+	// distance, so that no answer depends on the other receptors.
+	DispersivityScale *float64 `json:"dispersivity_scale,omitempty"`
 	// Effective molecular diffusion coefficient D_e, L^2/T, >= 0; default 0.
 	EffectiveDiffusion *float64 `json:"effective_diffusion"`
 }
@@ -103,6 +130,8 @@ type Contaminant struct {
 // Depth is a vertical rectangle (3D methods); with neither it is a 1D column
 // (Ogata-Banks) whose inlet type is Inlet.
 type Source struct {
+	// Identifier of the source in a list of several (sources[]); default "S<index+1>".
+	ID string `json:"id,omitempty"`
 	// Site x (east) of the centre of the source's downgradient face, L; default 0.
 	X *float64 `json:"x"`
 	// Site y (north) of the centre of the source's downgradient face, L; default 0.
@@ -130,15 +159,37 @@ type Source struct {
 	Inlet string `json:"inlet,omitempty"`
 }
 
+// Transect is a vertical rectangle standing on a line in the site frame
+// (a creek reach, a property boundary) through which the advective mass
+// discharge is reported.
+type Transect struct {
+	// Identifier echoed in the response; default "T<index+1>".
+	ID string `json:"id,omitempty"`
+	// Site coordinates of the line's ends, L.
+	From [2]float64 `json:"from"`
+	To   [2]float64 `json:"to"`
+	// Depth interval below the water table, L; top default 0, bottom required.
+	Top    *float64 `json:"top"`
+	Bottom *float64 `json:"bottom"`
+	// Flow of the stream that receives the discharge, L^3/T; with it the
+	// fully mixed stream concentration is reported.
+	StreamFlow *float64 `json:"stream_flow"`
+	// Surface-water screening level of the stream concentration, C.
+	ScreeningLevel *float64 `json:"screening_level"`
+}
+
 // Receptor is a point of interest in site coordinates: a point at depth Z or
 // a well screen from ScreenTop to ScreenBottom (depth-averaged).
 type Receptor struct {
 	// Identifier echoed in the response; default "R<index+1>".
 	ID string `json:"id,omitempty"`
-	// Site x (east), L, required.
+	// Site x (east), L; required unless lon and lat are given.
 	X *float64 `json:"x"`
-	// Site y (north), L, required.
+	// Site y (north), L; required unless lon and lat are given.
 	Y *float64 `json:"y"`
+	// WGS 84 longitude and latitude, degrees, instead of x and y (with crs).
+	Lon *float64 `json:"lon,omitempty"`
+	Lat *float64 `json:"lat,omitempty"`
 	// Depth below the water table, L, >= 0; default 0. Ignored when a screen is given.
 	Z *float64 `json:"z"`
 	// Depth of the top of the well screen below the water table, L, >= 0.
@@ -168,3 +219,11 @@ const (
 	InletConcentration = "concentration"
 	InletFlux          = "flux"
 )
+
+// PrimarySource is the scenario's source, or the first of several.
+func (sc Scenario) PrimarySource() Source {
+	if len(sc.Sources) > 0 {
+		return sc.Sources[0]
+	}
+	return sc.Source
+}

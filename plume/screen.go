@@ -20,7 +20,7 @@ func Screen(ctx context.Context, sc Scenario, opt Options) (*Result, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	md, err := Prepare(sc, PrepareOptions{})
+	md, err := Prepare(sc)
 	if err != nil {
 		return nil, err
 	}
@@ -42,13 +42,16 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 	}
 
 	res := &Result{
-		Engine:    Engine{Version: opt.EngineVersion, InputSHA256: InputSHA256(md.sc)},
+		Engine:    Engine{Version: opt.EngineVersion, InputSHA256: InputSHA256(md.given)},
+		CRS:       md.sc.CRS,
 		Units:     md.units,
 		Derived:   m.derived,
 		Receptors: make([]ReceptorResult, len(pts)),
 		Caveats:   []Caveat{},
 	}
 	res.Derived.PeakMethod = PeakMethod
+	res.Derived.ConcentrationFloor = m.concentrationFloor()
+	res.Derived.InputUnits = inputUnits(md.units)
 
 	taus := make([]float64, len(c.Times))
 	for i, t := range c.Times {
@@ -66,6 +69,8 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 			return nil, err
 		}
 		res.Receptors[i] = m.screenReceptor(ctx, p, sp)
+		r := md.sc.Receptors[i]
+		res.Receptors[i].X, res.Receptors[i].Y = *r.X, *r.Y
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
@@ -87,9 +92,16 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 		}
 	}
 
+	if len(m.extra) > 0 && c.Contributions {
+		m.contributions(res, pts, sp)
+	}
+	m.allowances(res, pts, sp)
+	res.Transects = m.screenTransects(c, sp)
 	m.addCaveats(res, pts, run, opt, md.units, md.uf)
+	crsCaveat(res, md.sc)
 	res.fromCanonical(md.uf)
 	res.sanitize()
+	res.summarize(res.Derived.ScreeningLevel)
 	return res, nil
 }
 
@@ -118,16 +130,27 @@ func methodSet(names []string) methods {
 	return ms
 }
 
-// comparisonFloor is the concentration, mg/L, below which relative
-// differences between methods are not counted: 1 % of the screening level,
-// or 1e-6 of the source concentration without one (our choice: differences
-// far below any level of concern do not change a screening decision).
+// Thresholds of the disagreement caveats (our choice: a difference between
+// methods matters only where a value is near enough to the level of concern
+// to change a screening decision).
+const (
+	// ComparisonLevelFraction: differences count where either value is at
+	// least this fraction of the screening level.
+	ComparisonLevelFraction = 0.1
+	// ComparisonSourceFraction: without a screening level, this fraction
+	// of the source concentration.
+	ComparisonSourceFraction = 1e-3
+)
+
+// comparisonFloor is the concentration, mg/L, below which differences
+// between methods are not counted: where both values are under it, and
+// relative to max(exact, floor) elsewhere (see ComparisonLevelFraction).
 func (m *model) comparisonFloor() float64 {
 	if m.screening != nil {
-		return 0.01 * *m.screening
+		return ComparisonLevelFraction * *m.screening
 	}
-	if m.c0 > 0 {
-		return 1e-6 * m.c0
+	if c := m.referenceConcentration(); c > 0 && m.kind != SourceKindInstantaneous {
+		return ComparisonSourceFraction * c
 	}
 	return 1e-12
 }
@@ -146,31 +169,42 @@ type screenPlan struct {
 // screenReceptor computes everything but the numeric values at one receptor,
 // in canonical units except the series times, which echo the request's.
 func (m *model) screenReceptor(ctx context.Context, p Point, sp screenPlan) ReceptorResult {
-	rr := ReceptorResult{ID: p.ID, PlumeX: p.X, PlumeY: p.Y, Z: p.mid(), Series: make([]SeriesPoint, len(sp.taus))}
+	rr := ReceptorResult{ID: p.ID, PlumeX: p.X, PlumeY: p.Y, Z: p.mid(), Status: p.Status, Series: make([]SeriesPoint, len(sp.taus))}
 	if p.Screen {
 		rr.ScreenTop, rr.ScreenBottom = Ptr(p.Top), Ptr(p.Bottom)
 	}
-	dev := math.Inf(-1)
-	compare := func(e, d float64) {
-		if e >= sp.floor && e > 0 {
-			dev = math.Max(dev, math.Abs(d-e)/e)
-		}
+	if m.basis == BasisReceptorDistance && p.Status == StatusModelled {
+		a := m.aquiferFor(p)
+		rr.Dispersivity = &ReceptorDispersivity{a.alpha[0], a.alpha[1], a.alpha[2], *a.travel}
 	}
-	known, ok := m.receptorSeries(ctx, p, sp, rr.Series, compare)
+	dev := deviation{floor: sp.floor, max: math.Inf(-1)}
+	known, ok := m.receptorSeries(ctx, p, sp, rr.Series, &dev)
 	if !ok {
 		return rr // Screen discards it and returns ctx.Err()
 	}
-	steadyPrimary := m.receptorSteady(p, sp, &rr, compare)
-	if dev > math.Inf(-1) && (sp.run.exact && sp.run.domenico) {
-		rr.DomenicoDeviation = Ptr(dev)
+	steadyPrimary := m.receptorSteady(p, sp, &rr, &dev)
+	if dev.max > math.Inf(-1) && (sp.run.exact && sp.run.domenico) {
+		rr.DomenicoDeviation = Ptr(dev.max)
 	}
 	m.receptorPeak(ctx, p, sp, &rr, steadyPrimary, known)
 	return rr
 }
 
+// deviation tracks the largest relative Domenico-vs-exact difference where
+// either value is at or above floor, mg/L.
+type deviation struct{ floor, max float64 }
+
+// compare counts one pair of exact (e) and Domenico (d) values where
+// either reaches the floor, relative to max(e, floor).
+func (dv *deviation) compare(e, d float64) {
+	if math.Max(e, d) >= dv.floor {
+		dv.max = math.Max(dv.max, math.Abs(d-e)/math.Max(e, dv.floor))
+	}
+}
+
 // receptorSeries fills the series at the requested times and returns the
 // primary method's values there; ok is false when ctx ended first.
-func (m *model) receptorSeries(ctx context.Context, p Point, sp screenPlan, series []SeriesPoint, compare func(e, d float64)) (known timeline, ok bool) {
+func (m *model) receptorSeries(ctx context.Context, p Point, sp screenPlan, series []SeriesPoint, dev *deviation) (known timeline, ok bool) {
 	run := sp.run
 	for j, tau := range sp.taus {
 		if ctx.Err() != nil {
@@ -187,7 +221,7 @@ func (m *model) receptorSeries(ctx context.Context, p Point, sp screenPlan, seri
 			pt.Domenico = Ptr(d)
 		}
 		if run.exact && run.domenico {
-			compare(e, d)
+			dev.compare(e, d)
 		}
 		if sp.primaryExact && run.exact {
 			known.tau, known.c = append(known.tau, tau), append(known.c, e)
@@ -201,7 +235,7 @@ func (m *model) receptorSeries(ctx context.Context, p Point, sp screenPlan, seri
 
 // receptorSteady fills the steady state of the methods run and returns the
 // primary method's.
-func (m *model) receptorSteady(p Point, sp screenPlan, rr *ReceptorResult, compare func(e, d float64)) float64 {
+func (m *model) receptorSteady(p Point, sp screenPlan, rr *ReceptorResult, dev *deviation) float64 {
 	run := sp.run
 	inf := math.Inf(1)
 	if run.exact {
@@ -211,7 +245,7 @@ func (m *model) receptorSteady(p Point, sp screenPlan, rr *ReceptorResult, compa
 		rr.SteadyState.Domenico = Ptr(m.closedForm(false, p, inf))
 	}
 	if run.exact && run.domenico {
-		compare(*rr.SteadyState.Exact, *rr.SteadyState.Domenico)
+		dev.compare(*rr.SteadyState.Exact, *rr.SteadyState.Domenico)
 	}
 	switch {
 	case !run.exact && !run.domenico:
@@ -238,8 +272,10 @@ func (m *model) receptorPeak(ctx context.Context, p Point, sp screenPlan, rr *Re
 	if !math.IsInf(pk.tau, 1) {
 		rr.Peak.Time = Ptr(m.start + pk.tau)
 	}
-	if m.screening != nil {
-		rr.ExceedsScreeningLevel = pk.c >= *m.screening && pk.c > 0
+	if m.screening != nil && !p.upgradient() {
+		// Compared: a modelled value (or, inside the source zone, the
+		// source's own concentration) against a known level.
+		rr.ExceedsScreeningLevel = new(pk.c >= *m.screening && pk.c > 0)
 		if tau, ok := m.firstExceedance(f, p, pk, known, *m.screening); ok {
 			rr.FirstExceedanceTime = Ptr(m.start + tau)
 		}

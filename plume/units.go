@@ -12,6 +12,24 @@ const (
 	ConcUgL     = "ug/L"
 )
 
+// Hydraulic conductivity units accepted in Units.Conductivity, with their
+// exact factors to m/d (1 ft = 0.3048 m, 1 d = 86400 s, 1 yr = 365.25 d,
+// 1 US gallon = 3.785411784 L, NIST SP 811 appendix B).
+var conductivityUnits = map[string]float64{
+	"m/d":     1,
+	"ft/d":    MetresPerFoot,
+	"m/s":     86400,
+	"cm/s":    864,
+	"m/yr":    1 / DaysPerYear,
+	"ft/yr":   MetresPerFoot / DaysPerYear,
+	"gpd/ft2": 3.785411784e-3 / (MetresPerFoot * MetresPerFoot),
+}
+
+// ConductivityUnits lists the names accepted in Units.Conductivity.
+func ConductivityUnits() []string {
+	return []string{"m/d", "ft/d", "m/s", "cm/s", "m/yr", "ft/yr", "gpd/ft2"}
+}
+
 // Exact conversion factors to the canonical units (m, d, mg/L).
 const (
 	// MetresPerFoot: the international foot, exactly 0.3048 m (NIST SP 811, appendix B).
@@ -28,6 +46,8 @@ type unitFactors struct {
 	L float64 // metres per request length unit
 	T float64 // days per request time unit
 	C float64 // mg/L per request concentration unit
+	K float64 // m/d per request conductivity unit
+	M float64 // g/d per request mass-discharge unit
 }
 
 // withDefaults fills empty unit names with m, d, mg/L.
@@ -41,7 +61,19 @@ func (u Units) withDefaults() Units {
 	if u.Concentration == "" {
 		u.Concentration = ConcMgL
 	}
+	if u.Conductivity == "" {
+		u.Conductivity = u.Length + "/" + u.Time
+	}
+	u.MassDischarge = massDischargeUnit(u.Time)
 	return u
+}
+
+// massDischargeUnit is the mass-discharge unit of a time unit.
+func massDischargeUnit(time string) string {
+	if time == TimeYear {
+		return "kg/yr"
+	}
+	return "g/d"
 }
 
 // factors returns the conversion factors of u; ok is false when a name is unknown.
@@ -72,6 +104,16 @@ func (u Units) factors() (f unitFactors, ok bool) {
 	default:
 		ok = false
 	}
+	f.K = f.L / f.T
+	f.M = 1
+	if u.Time == TimeYear {
+		f.M = 1000 / DaysPerYear // kg/yr -> g/d
+	}
+	if k, given := conductivityUnits[u.Conductivity]; given {
+		f.K = k
+	} else if u.Conductivity != u.Length+"/"+u.Time {
+		ok = false
+	}
 	return f, ok
 }
 
@@ -91,16 +133,18 @@ func toCanonical(sc Scenario) Scenario {
 	L, T, C := f.L, f.T, f.C
 	out := sc
 	out.Units = Units{Length: LengthMetre, Time: TimeDay, Concentration: ConcMgL}
+	K := f.K
 
 	a := sc.Aquifer
 	out.Aquifer = Aquifer{
-		HydraulicConductivity: scaled(a.HydraulicConductivity, L/T),
+		HydraulicConductivity: scaled(a.HydraulicConductivity, K),
 		HydraulicGradient:     scaled(a.HydraulicGradient, 1),
 		EffectivePorosity:     scaled(a.EffectivePorosity, 1),
 		SeepageVelocity:       scaled(a.SeepageVelocity, L/T),
 		BulkDensity:           scaled(a.BulkDensity, 1),
 		OrganicCarbonFraction: scaled(a.OrganicCarbonFraction, 1),
 		EffectiveDiffusion:    scaled(a.EffectiveDiffusion, L*L/T),
+		DispersivityScale:     scaled(a.DispersivityScale, L),
 	}
 	if a.Dispersivity != nil {
 		out.Aquifer.Dispersivity = &Dispersivity{
@@ -122,20 +166,26 @@ func toCanonical(sc Scenario) Scenario {
 		DecayAppliesTo:   c.DecayAppliesTo,
 	}
 
-	s := sc.Source
-	out.Source = Source{
-		X:              scaled(s.X, L),
-		Y:              scaled(s.Y, L),
-		FlowAzimuthDeg: scaled(s.FlowAzimuthDeg, 1),
-		Concentration:  scaled(s.Concentration, C),
-		Width:          scaled(s.Width, L),
-		Depth:          scaled(s.Depth, L),
-		Start:          scaled(s.Start, T),
-		Duration:       scaled(s.Duration, T),
-		HalfLife:       scaled(s.HalfLife, T),
-		Mass:           scaled(s.Mass, 1),
-		ReleaseDepth:   scaled(s.ReleaseDepth, L),
-		Inlet:          s.Inlet,
+	out.Source = canonicalSource(sc.Source, f)
+	if len(sc.Sources) > 0 {
+		out.Sources = make([]Source, len(sc.Sources))
+		for i, src := range sc.Sources {
+			out.Sources[i] = canonicalSource(src, f)
+		}
+	}
+	if len(sc.Transects) > 0 {
+		out.Transects = make([]Transect, len(sc.Transects))
+		for i, tr := range sc.Transects {
+			out.Transects[i] = Transect{
+				ID:             tr.ID,
+				From:           [2]float64{tr.From[0] * L, tr.From[1] * L},
+				To:             [2]float64{tr.To[0] * L, tr.To[1] * L},
+				Top:            scaled(tr.Top, L),
+				Bottom:         scaled(tr.Bottom, L),
+				StreamFlow:     scaled(tr.StreamFlow, L*L*L/T),
+				ScreeningLevel: scaled(tr.ScreeningLevel, C),
+			}
+		}
 	}
 
 	out.Receptors = make([]Receptor, len(sc.Receptors))
@@ -173,4 +223,24 @@ func Clean(x float64) float64 {
 		return -math.MaxFloat64
 	}
 	return x
+}
+
+// canonicalSource is s in m, d, mg/L.
+func canonicalSource(s Source, f unitFactors) Source {
+	L, T, C := f.L, f.T, f.C
+	return Source{
+		ID:             s.ID,
+		X:              scaled(s.X, L),
+		Y:              scaled(s.Y, L),
+		FlowAzimuthDeg: scaled(s.FlowAzimuthDeg, 1),
+		Concentration:  scaled(s.Concentration, C),
+		Width:          scaled(s.Width, L),
+		Depth:          scaled(s.Depth, L),
+		Start:          scaled(s.Start, T),
+		Duration:       scaled(s.Duration, T),
+		HalfLife:       scaled(s.HalfLife, T),
+		Mass:           scaled(s.Mass, 1),
+		ReleaseDepth:   scaled(s.ReleaseDepth, L),
+		Inlet:          s.Inlet,
+	}
 }

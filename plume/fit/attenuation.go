@@ -123,7 +123,7 @@ func Attenuation(ctx context.Context, req AttenuationRequest) (*AttenuationResul
 	if req.Time != nil && (!plume.Finite(*req.Time) || *req.Time < 0) {
 		return nil, plume.Invalid("time", fmt.Sprintf("must be a finite number >= 0, got %g", *req.Time))
 	}
-	md, err := plume.Prepare(sc, plume.PrepareOptions{TravelPlumeX: wellPlumeX(sc, req.Observations)})
+	md, err := plume.Prepare(sc)
 	if err != nil {
 		return nil, err
 	}
@@ -156,7 +156,7 @@ func Attenuation(ctx context.Context, req AttenuationRequest) (*AttenuationResul
 	}
 
 	intercept, slope := res.regress(xs, ys)
-	res.rates(md)
+	res.rates(md, farthestRegressionWell(md, pts, res.Points))
 	res.attenuationCaveats(md, len(xs), len(res.WellsUsed), nonDetects, pts, intercept, slope)
 	return res, nil
 }
@@ -229,12 +229,27 @@ func (res *AttenuationResult) regress(xs, ys []float64) (intercept, slope float6
 	return intercept, slope
 }
 
+// farthestRegressionWell is the regression well farthest along the axis:
+// with dispersivities estimated at each point's own distance, the
+// Buscheck & Alcantar relation uses the one estimated there (the plume
+// scale the data span).
+func farthestRegressionWell(md *plume.Model, pts []obsPoint, use []AttenuationPoint) plume.Point {
+	far := pts[0].pt
+	for i, o := range pts {
+		if use[i].Use == "regression" && o.pt.X > far.X {
+			far = o.pt
+		}
+	}
+	return far
+}
+
 // rates converts the bulk rate into the Buscheck & Alcantar biodegradation
-// rate with md's velocity, retardation and dispersivity.
-func (res *AttenuationResult) rates(md *plume.Model) {
+// rate with md's velocity, retardation and dispersivity (at the point far
+// when each point has its own).
+func (res *AttenuationResult) rates(md *plume.Model, far plume.Point) {
 	uf := md.Factors()
 
-	tr := md.Transport()
+	tr := md.TransportAt(far)
 	v := tr.V / (uf.L / uf.T)
 	R := tr.R
 	vc := v / R
@@ -305,6 +320,6 @@ func (res *AttenuationResult) attenuationCaveats(md *plume.Model, n, nWells int,
 		res.SeepageVelocity, u.Length, u.Time, res.Retardation, res.LongitudinalDispersivity, u.Length)
 	if md.Derived().DispersivityEstimated {
 		add(plume.CaveatDispersivityEstimated, plume.SeverityCaution,
-			"The longitudinal dispersivity (%.4g %s) was estimated from the distance to the farthest well (%s), not measured.", res.LongitudinalDispersivity, u.Length, plume.DispersivityRelation)
+			"The longitudinal dispersivity (%.4g %s) was estimated (%s), not measured: at aquifer.dispersivity_scale when given, else at the distance of the farthest well in the regression.", res.LongitudinalDispersivity, u.Length, plume.DispersivityRelation)
 	}
 }

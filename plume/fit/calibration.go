@@ -217,7 +217,7 @@ type fitProblem struct {
 // the starting values and bounds.
 func newFitProblem(req CalibrationRequest, params []plume.Param) (*fitProblem, error) {
 	sc := req.Scenario
-	base, err := plume.Prepare(sc, plume.PrepareOptions{TravelPlumeX: wellPlumeX(sc, req.Observations)})
+	base, err := plume.Prepare(sc)
 	if err != nil {
 		return nil, err
 	}
@@ -239,9 +239,11 @@ func newFitProblem(req CalibrationRequest, params []plume.Param) (*fitProblem, e
 	// The evaluation scenario: the request's, with the dispersivities the
 	// fit uses fixed (an estimate depends on the travel distance) and one
 	// receptor (Validate needs one; receptors do not enter the fit).
-	uf, alpha := base.Factors(), base.Transport().Alpha
 	pb.evalSc = sc
-	pb.evalSc.Aquifer.Dispersivity = &plume.Dispersivity{Longitudinal: plume.Ptr(alpha[0] / uf.L), Transverse: plume.Ptr(alpha[1] / uf.L), Vertical: plume.Ptr(alpha[2] / uf.L)}
+	if alpha, fixed := pb.fixedDispersivity(); fixed {
+		uf := base.Factors()
+		pb.evalSc.Aquifer.Dispersivity = &plume.Dispersivity{Longitudinal: plume.Ptr(alpha[0] / uf.L), Transverse: plume.Ptr(alpha[1] / uf.L), Vertical: plume.Ptr(alpha[2] / uf.L)}
+	}
 	pb.evalSc.Receptors = []plume.Receptor{{ID: "fit", X: plume.Ptr(0), Y: plume.Ptr(0)}}
 	if sc.Source.X != nil {
 		pb.evalSc.Receptors[0].X = sc.Source.X
@@ -251,6 +253,29 @@ func newFitProblem(req CalibrationRequest, params []plume.Param) (*fitProblem, e
 	}
 	pb.startingValues()
 	return pb, nil
+}
+
+// fixedDispersivity is the dispersivities, m, the fit holds fixed (or
+// starts alpha_L from): the model's own when it has one for the whole
+// plume (given, or estimated at aquifer.dispersivity_scale); with
+// dispersivities estimated at each receptor's own distance, those of the
+// farthest observation when alpha_L is fitted (fixed false otherwise: each
+// observation is then evaluated at its own distance).
+func (pb *fitProblem) fixedDispersivity() (alpha [3]float64, fixed bool) {
+	if pb.base.Derived().DispersivityBasis != plume.BasisReceptorDistance {
+		return pb.base.Transport().Alpha, true
+	}
+	far := pb.obs[0].pt
+	for _, o := range pb.obs {
+		if o.pt.X > far.X {
+			far = o.pt
+		}
+	}
+	fitsAlpha := false
+	for _, p := range pb.req.Fit {
+		fitsAlpha = fitsAlpha || p == "aquifer.dispersivity.longitudinal"
+	}
+	return pb.base.TransportAt(far).Alpha, fitsAlpha
 }
 
 // startingValues sets init, lo and hi in the request's units: the
@@ -279,7 +304,8 @@ func (pb *fitProblem) startingValues() {
 				v = math.Ln2 / src.Depletion / uf.T
 			}
 		case "aquifer.dispersivity.longitudinal":
-			v = tr.Alpha[0] / uf.L
+			alpha, _ := pb.fixedDispersivity()
+			v = alpha[0] / uf.L
 		case "aquifer.seepage_velocity":
 			v = tr.V / (uf.L / uf.T)
 		}
@@ -322,7 +348,7 @@ func (pb *fitProblem) residuals(p []float64, r, model []float64) bool {
 			return false
 		}
 	}
-	md, err := plume.Prepare(s, plume.PrepareOptions{})
+	md, err := plume.Prepare(s)
 	if err != nil {
 		return false
 	}
@@ -492,7 +518,7 @@ func (pb *fitProblem) result(best, r, model []float64, cov *mat.Dense) *Calibrat
 func (pb *fitProblem) fitCaveats(out *CalibrationResult) {
 	if pb.base.Derived().DispersivityEstimated {
 		out.Caveats = append(out.Caveats, plume.Caveat{Code: plume.CaveatDispersivityEstimated, Severity: plume.SeverityCaution, Message: fmt.Sprintf(
-			"Dispersivities were estimated from the distance to the farthest well or receptor (%s) and fixed at those values in the fit and in fitted_scenario.", plume.DispersivityRelation)})
+			"Dispersivities not given were estimated (%s): at aquifer.dispersivity_scale when given, and then fixed at those values in the fit and in fitted_scenario; otherwise at each well's own travel distance (or, when alpha_L is fitted, starting from its value at the farthest well).", plume.DispersivityRelation)})
 	}
 	fitsVelocity := false
 	for _, p := range pb.req.Fit {

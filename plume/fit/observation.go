@@ -88,8 +88,7 @@ type obsPoint struct {
 }
 
 // observationPoints converts observations to the plume frame of md, in
-// canonical units; the wells count toward the travel distance of estimated
-// dispersivities only through PrepareOptions.TravelPlumeX.
+// canonical units.
 func observationPoints(md *plume.Model, obs []Observation) []obsPoint {
 	out := make([]obsPoint, len(obs))
 	uf := md.Factors()
@@ -115,20 +114,6 @@ func observationPoints(md *plume.Model, obs []Observation) []obsPoint {
 		out[i] = op
 	}
 	return out
-}
-
-// wellPlumeX returns the plume-frame x, m, of each observation, for the
-// travel distance of an estimated dispersivity.
-func wellPlumeX(sc plume.Scenario, obs []Observation) []float64 {
-	var xs []float64
-	for _, o := range obs {
-		if o.X != nil && o.Y != nil && plume.Finite(*o.X) && plume.Finite(*o.Y) {
-			if px, _, ok := plume.SiteToPlume(sc, *o.X, *o.Y); ok {
-				xs = append(xs, px)
-			}
-		}
-	}
-	return xs
 }
 
 // WellReceptors returns one receptor per observed well, at the first

@@ -122,9 +122,11 @@ type Map struct {
 	// Source width (0 for a column or a spill), L.
 	SourceWidth float64 `json:"-"`
 	// Receptors in the map's frame (site x, y; for a section plume_x, depth).
-	Receptors []MapPoint     `json:"-"`
-	Derived   plume.Derived  `json:"derived"`
-	Caveats   []plume.Caveat `json:"caveats"`
+	Receptors []MapPoint `json:"-"`
+	// The site frame's coordinate reference system ("" without one).
+	CRS     string         `json:"-"`
+	Derived plume.Derived  `json:"derived"`
+	Caveats []plume.Caveat `json:"caveats"`
 }
 
 // MapPoint is a labelled point of a map.

@@ -66,8 +66,9 @@ func PlumeMap(ctx context.Context, sc plume.Scenario, mo MapOptions, opt plume.O
 	uf := md.Factors()
 	// Grid and levels in the request's units.
 	g.X0, g.Y0, g.DX, g.DY = g.X0/uf.L, g.Y0/uf.L, g.DX/uf.L, g.DY/uf.L
+	floor := md.ConcentrationFloor()
 	for i, v := range g.Values {
-		g.Values[i] = plume.Clean(v) / uf.C
+		g.Values[i] = plume.FloorConcentration(plume.Clean(v), floor) / uf.C
 	}
 	out.Grid = g
 	for _, l := range levels {
@@ -83,7 +84,7 @@ func PlumeMap(ctx context.Context, sc plume.Scenario, mo MapOptions, opt plume.O
 // bad field at once) and prepares the scenario.
 func prepareMap(sc plume.Scenario, mo MapOptions) (*plume.Model, error) {
 	bad, over := validateMapOptions(mo)
-	md, err := plume.Prepare(sc, plume.PrepareOptions{})
+	md, err := plume.Prepare(sc)
 	if err != nil {
 		if e, ok := plume.AsError(err); ok && e.Kind == plume.KindInvalid {
 			bad = append(e.Fields.Prefixed("scenario."), bad...)
@@ -199,6 +200,7 @@ func newMap(md *plume.Model, res *plume.Result, mo MapOptions, view string, mt M
 		Derived:   res.Derived,
 		Caveats:   res.Caveats,
 		Frame:     md.SiteFrame(),
+		CRS:       sc.CRS,
 		Receptors: make([]MapPoint, len(res.Receptors)),
 	}
 	if mo.DepthBottom != nil && view == ViewPlan {

@@ -83,7 +83,7 @@ type Profile struct {
 // the source face to beyond the farthest receptor and the steady-state
 // reach of a hundredth of the screening level (at most MaxPlumeLength).
 func CentrelineProfile(ctx context.Context, sc plume.Scenario, depth float64, n int, opt plume.Options) (*Profile, error) {
-	md, err := plume.Prepare(sc, plume.PrepareOptions{})
+	md, err := plume.Prepare(sc)
 	if err != nil {
 		return nil, err
 	}
@@ -128,7 +128,7 @@ func CentrelineProfile(ctx context.Context, sc plume.Scenario, depth float64, n 
 			if err := ctx.Err(); err != nil {
 				return nil, err
 			}
-			cv[i] = plume.Clean(ev.at(math.Max(x, 1e-6), 0, ev.top, ev.bot)) / uf.C
+			cv[i] = plume.FloorConcentration(plume.Clean(ev.at(math.Max(x, 1e-6), 0, ev.top, ev.bot)), md.ConcentrationFloor()) / uf.C
 		}
 		pr.Curves = append(pr.Curves, ProfileCurve{Time: t, C: cv})
 	}

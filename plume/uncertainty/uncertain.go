@@ -199,7 +199,7 @@ func RunUncertainty(ctx context.Context, req UncertaintyRequest, opt plume.Optio
 	}
 	tmpl := req.Template
 	tmpl.Methods = methods
-	base, err := plume.Prepare(tmpl, plume.PrepareOptions{})
+	base, err := plume.Prepare(tmpl)
 	if err != nil {
 		return nil, err
 	}
@@ -446,7 +446,7 @@ func drivers(params []UncertainParameter, paramRanks [][]float64, pr []float64) 
 }
 
 func (r *run) realizeClosed(sc plume.Scenario, k int) error {
-	md, err := plume.Prepare(sc, plume.PrepareOptions{})
+	md, err := plume.Prepare(sc)
 	if err != nil {
 		return err
 	}
@@ -465,6 +465,10 @@ func (r *run) realizeClosed(sc plume.Scenario, k int) error {
 	}
 	instantaneous := md.SourceTerm().Kind == plume.SourceKindInstantaneous
 	inf := math.Inf(1)
+	floor := md.ConcentrationFloor()
+	value := func(m string, p plume.Point, tau float64) float64 {
+		return plume.FloorConcentration(plume.Clean(md.Value(m, p, tau)), floor)
+	}
 	for rc, p := range pts {
 		var steadyPrimary float64
 		for mi, m := range r.methods {
@@ -477,10 +481,10 @@ func (r *run) realizeClosed(sc plume.Scenario, k int) error {
 				continue
 			}
 			for j, tau := range taus {
-				*r.at(mi, rc, j, k) = plume.Clean(md.Value(m, p, tau) / uf.C)
+				*r.at(mi, rc, j, k) = value(m, p, tau) / uf.C
 			}
-			ss := md.Value(m, p, inf)
-			*r.at(mi, rc, r.nt, k) = plume.Clean(ss / uf.C)
+			ss := value(m, p, inf)
+			*r.at(mi, rc, r.nt, k) = ss / uf.C
 			if mi == 0 {
 				steadyPrimary = ss
 			}
@@ -493,7 +497,7 @@ func (r *run) realizeClosed(sc plume.Scenario, k int) error {
 			steadyPrimary = md.Value(plume.MethodExact, p, inf)
 		}
 		_, pk := md.Peak(primary, p, steadyPrimary, taus)
-		r.peaks[rc*r.n+k] = plume.Clean(pk / uf.C)
+		r.peaks[rc*r.n+k] = plume.FloorConcentration(plume.Clean(pk), floor) / uf.C
 	}
 	return nil
 }
