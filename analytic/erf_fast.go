@@ -18,7 +18,7 @@ const erfTableLo = 0.84375
 // erfFast returns erf(x) for x >= 0.
 func erfFast(x float64) float64 {
 	switch {
-	case x < erfTableLo:
+	case !(x >= erfTableLo): // also NaN
 		return math.Erf(x)
 	case x >= 6:
 		// erf(6) = 1 - 2.2e-17 rounds to 1.
@@ -30,7 +30,7 @@ func erfFast(x float64) float64 {
 
 // erfcFast returns erfc(x) for x >= 0.
 func erfcFast(x float64) float64 {
-	if x < erfTableLo {
+	if !(x >= erfTableLo) { // also NaN
 		return math.Erfc(x)
 	}
 	hi := x * x

@@ -59,3 +59,15 @@ func TestErfFastContinuous(t *testing.T) {
 		}
 	}
 }
+
+// A NaN argument (degenerate inputs upstream) gives NaN, as math.Erf does,
+// never an index out of range (found by plume's TestExtremeInputsFinite).
+func TestErfFastNaN(t *testing.T) {
+	nan := math.NaN()
+	if v := erfFast(nan); !math.IsNaN(v) {
+		t.Errorf("erfFast(NaN) = %g", v)
+	}
+	if v := erfcFast(nan); !math.IsNaN(v) {
+		t.Errorf("erfcFast(NaN) = %g", v)
+	}
+}

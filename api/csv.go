@@ -4,11 +4,8 @@ import (
 	"bytes"
 	"encoding/csv"
 	"math"
-	"net/http"
 	"strconv"
 	"strings"
-
-	"github.com/labstack/echo/v4"
 
 	"downgradient/plume"
 )
@@ -109,15 +106,6 @@ func encodeCSV(sc plume.Scenario, res *plume.Result) ([]byte, bool) {
 	}
 	w.Flush()
 	return buf.Bytes(), finite
-}
-
-func writeCSV(c echo.Context, sc plume.Scenario, res *plume.Result) error {
-	b, ok := encodeCSV(sc, res)
-	if !ok {
-		return newProblem(kindInternal, "the result could not be encoded")
-	}
-	c.Response().Header().Set("Content-Disposition", `inline; filename="screening.csv"`)
-	return c.Blob(http.StatusOK, mimeCSV+"; charset=utf-8; header=present", b)
 }
 
 // comparison is a value's comparison with the screening level as text:

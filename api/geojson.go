@@ -2,10 +2,7 @@ package api
 
 import (
 	"bytes"
-	"net/http"
 	"strings"
-
-	"github.com/labstack/echo/v4"
 
 	"downgradient/internal/crs"
 	"downgradient/plume"
@@ -156,10 +153,6 @@ func buildGeoJSON(sc plume.Scenario, res *plume.Result) featureCollection {
 		}
 	}
 	return fc
-}
-
-func writeGeoJSON(c echo.Context, sc plume.Scenario, res *plume.Result) error {
-	return writeJSON(c, http.StatusOK, mimeGeoJSON, buildGeoJSON(sc, res))
 }
 
 // geoFrame returns the map from site coordinates to a GeoJSON point: WGS

@@ -5,7 +5,6 @@ import (
 	"context"
 	"encoding/csv"
 	"fmt"
-	"net/http"
 
 	"github.com/labstack/echo/v4"
 	"github.com/paulmach/orb"
@@ -33,23 +32,45 @@ func (s *server) plumeMaps(c echo.Context) error {
 	if p := decodeBody(body, &mb, true); p != nil {
 		return p
 	}
+	if p := mb.Scenario.checkDescription(); p != nil {
+		return p.under("scenario")
+	}
 	ctx := c.Request().Context()
 	if err := plume.CheckWorkload(mb.Scenario.Scenario, s.cfg.MaxEvaluations); err != nil {
 		return s.problemFromError(ctx, err, func(f string) string { return "scenario." + f })
 	}
-	mp, p := compute(ctx, s, nil, func(ctx context.Context) (*maps.Map, error) {
-		return maps.PlumeMap(ctx, mb.Scenario.Scenario, mb.MapOptions, s.engineOptions())
+	if p := s.checkOutput(mapSize(mb.MapOptions, format), mapMedia[format], mapReduce...); p != nil {
+		return p
+	}
+	r, p := compute(ctx, s, nil, func(ctx context.Context) (*reply, error) {
+		mp, err := maps.PlumeMap(ctx, mb.Scenario.Scenario, mb.MapOptions, s.engineOptions())
+		if err != nil {
+			return nil, err
+		}
+		return s.encodeMap(ctx, format, mp, mapSize(mb.MapOptions, format))
 	})
 	if p != nil {
 		return p
 	}
+	return s.send(c, r)
+}
+
+// mapReduce are the fields that make a map's answer large.
+var mapReduce = []string{"cells", "levels"}
+
+// mapMedia names the media type of each map format, for messages.
+var mapMedia = map[string]string{"grid": "application/json", "csv": "text/csv", "geojson": "application/geo+json"}
+
+// encodeMap encodes a map in format within the output budget.
+func (s *server) encodeMap(ctx context.Context, format string, mp *maps.Map, hint float64) (*reply, error) {
+	runHook(&testHookEncode, ctx)
 	switch format {
 	case "grid":
-		return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, gridDocument(mp))
+		return s.encodeJSON(gridDocument(mp), echo.MIMEApplicationJSON, hint, mapReduce...)
 	case "csv":
-		return c.Blob(http.StatusOK, mimeCSV+"; charset=utf-8", gridCSV(mp))
+		return s.capBytes(&reply{contentType: mimeCSV + "; charset=utf-8", body: gridCSV(mp)}, mapReduce...)
 	}
-	return writeJSON(c, http.StatusOK, mimeGeoJSON, newOutlineCollection(mp))
+	return s.encodeJSON(newOutlineCollection(mp), mimeGeoJSON, hint, mapReduce...)
 }
 
 // negotiateMap picks geojson (default; also for application/json), grid or

@@ -6,7 +6,6 @@ import (
 	_ "embed"
 	"fmt"
 	"html/template"
-	"net/http"
 	"strconv"
 	"strings"
 
@@ -39,8 +38,8 @@ var reportTemplate = template.Must(template.New("report").Funcs(template.FuncMap
 // reports is POST /v1/reports: one self-contained HTML summary of a scenario.
 func (s *server) reports(c echo.Context) error {
 	body, _ := c.Get(ctxBody).([]byte)
-	var sb scenarioBody
-	if p := decodeBody(body, &sb, true); p != nil {
+	sb, p := decodeScenarioBody(body)
+	if p != nil {
 		return p
 	}
 	sc := sb.Scenario
@@ -66,8 +65,7 @@ func (s *server) reports(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	c.Response().Header().Set("Content-Security-Policy", "default-src 'none'; style-src 'unsafe-inline'; img-src data:")
-	return c.Blob(http.StatusOK, "text/html; charset=utf-8", page)
+	return s.send(c, &reply{contentType: "text/html; charset=utf-8", body: page, header: [][2]string{{headerCSP, contentPolicy}}})
 }
 
 // reportView is what the page template shows.

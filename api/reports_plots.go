@@ -3,7 +3,6 @@ package api
 import (
 	"context"
 	"fmt"
-	"net/http"
 
 	"github.com/labstack/echo/v4"
 
@@ -61,11 +60,11 @@ func (s *server) plotsHandler(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	ct := mimeSVG
+	r := &reply{contentType: mimeSVG, body: img, header: [][2]string{{headerCSP, contentPolicy}}}
 	if format == plots.PNG {
-		ct = mimePNG
+		r = &reply{contentType: mimePNG, body: img}
 	}
-	return c.Blob(http.StatusOK, ct, img)
+	return s.send(c, r)
 }
 
 // figure builds one figure; receptor -1 picks the receptor of highest peak.

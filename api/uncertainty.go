@@ -3,7 +3,6 @@ package api
 import (
 	"context"
 	"fmt"
-	"net/http"
 
 	"github.com/labstack/echo/v4"
 
@@ -75,17 +74,36 @@ func (s *server) uncertainty(c echo.Context) error {
 	if err := uncertainty.CheckWorkload(req, s.cfg.MaxEvaluations); err != nil {
 		return s.problemFromError(ctx, err, nil)
 	}
-	res, p := compute(ctx, s, renameOutside("realizations", "seed", "methods", "compound"), func(ctx context.Context) (*uncertainty.UncertaintyResult, error) {
-		return uncertainty.RunUncertainty(ctx, req, s.engineOptions())
+	size := uncertaintySize(sc, len(req.Methods), len(req.Parameters), format)
+	if p := s.checkOutput(size, formatName[format], uncertaintyReduce...); p != nil {
+		return p
+	}
+	r, p := compute(ctx, s, renameOutside("realizations", "seed", "methods", "compound"), func(ctx context.Context) (*reply, error) {
+		res, err := uncertainty.RunUncertainty(ctx, req, s.engineOptions())
+		if err != nil {
+			return nil, err
+		}
+		return s.encodeUncertainty(ctx, format, sc, res, size)
 	})
 	if p != nil {
 		return p
 	}
+	return s.send(c, r)
+}
+
+// uncertaintyReduce are the fields that make an uncertainty answer large.
+var uncertaintyReduce = []string{"scenario.receptors", "scenario.times", "methods"}
+
+// encodeUncertainty encodes an uncertainty result in format within the
+// output budget.
+func (s *server) encodeUncertainty(ctx context.Context, format outputFormat, sc plume.Scenario, res *uncertainty.UncertaintyResult, hint float64) (*reply, error) {
+	runHook(&testHookEncode, ctx)
 	switch format {
 	case formatCSV:
-		return writeUncertaintyCSV(c, sc, res)
+		return s.capBytes(&reply{contentType: mimeCSV + "; charset=utf-8; header=present", body: encodeUncertaintyCSV(sc, res),
+			header: [][2]string{{"Content-Disposition", `inline; filename="uncertainty.csv"`}}}, uncertaintyReduce...)
 	case formatGeoJSON:
-		return writeJSON(c, http.StatusOK, mimeGeoJSON, buildUncertaintyGeoJSON(sc, res))
+		return s.encodeJSON(buildUncertaintyGeoJSON(sc, res), mimeGeoJSON, hint, uncertaintyReduce...)
 	}
-	return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, res)
+	return s.encodeJSON(res, echo.MIMEApplicationJSON, hint, uncertaintyReduce...)
 }

@@ -3,9 +3,6 @@ package api
 import (
 	"bytes"
 	"encoding/csv"
-	"net/http"
-
-	"github.com/labstack/echo/v4"
 
 	"downgradient/plume"
 	"downgradient/plume/uncertainty"
@@ -59,11 +56,6 @@ func encodeUncertaintyCSV(sc plume.Scenario, res *uncertainty.UncertaintyResult)
 	}
 	w.Flush()
 	return buf.Bytes()
-}
-
-func writeUncertaintyCSV(c echo.Context, sc plume.Scenario, res *uncertainty.UncertaintyResult) error {
-	c.Response().Header().Set("Content-Disposition", `inline; filename="uncertainty.csv"`)
-	return c.Blob(http.StatusOK, mimeCSV+"; charset=utf-8; header=present", encodeUncertaintyCSV(sc, res))
 }
 
 // uncertaintyFeatureCollection is the GeoJSON form of an uncertainty result:

@@ -29,7 +29,8 @@ type Model struct {
 }
 
 // Prepare validates sc (every bad field at once, as an *Error of kind
-// KindInvalid) and derives its model.
+// KindInvalid), derives its model and checks that every converted and
+// derived value is finite (checkFinite).
 func Prepare(sc Scenario) (*Model, error) {
 	if err := Validate(sc); err != nil {
 		return nil, err
@@ -45,6 +46,9 @@ func Prepare(sc Scenario) (*Model, error) {
 	for i, r := range c.Receptors {
 		md.pts[i] = md.receptorPoint(r, i)
 		md.m.classify(&md.pts[i])
+	}
+	if err := md.checkFinite(); err != nil {
+		return nil, err
 	}
 	return md, nil
 }

@@ -2,6 +2,7 @@ package plume
 
 import (
 	"math"
+	"slices"
 	"sort"
 
 	"downgradient/internal/roots"
@@ -60,10 +61,8 @@ func (m *model) sample(f func(float64) float64, p Point, extra []float64) timeli
 			hi = math.Max(hi, s.lag+50/s.depletion)
 		}
 	}
-	const perDecade = 8
-	n := int(math.Ceil(perDecade*math.Log10(hi/lo))) + 1
-	taus := make([]float64, 0, n+8+len(extra))
-	for i := range n {
+	taus := make([]float64, 0, scanSamples(lo, hi)+8+len(extra))
+	for i := range scanSamples(lo, hi) {
 		taus = append(taus, lo*math.Pow(10, float64(i)/perDecade))
 	}
 	taus = append(taus, t0)
@@ -77,10 +76,9 @@ func (m *model) sample(f func(float64) float64, p Point, extra []float64) timeli
 		}
 	}
 	for _, e := range extra {
-		if e > 0 && Finite(e) {
-			taus = append(taus, e)
-		}
+		taus = append(taus, e)
 	}
+	taus = slices.DeleteFunc(taus, func(t float64) bool { return !(t > 0) || !Finite(t) })
 	sort.Float64s(taus)
 	tl := timeline{tau: taus[:0], c: make([]float64, 0, len(taus))}
 	prev := math.NaN()
@@ -93,6 +91,28 @@ func (m *model) sample(f func(float64) float64, p Point, extra []float64) timeli
 		tl.c = append(tl.c, f(t))
 	}
 	return tl
+}
+
+// Samples per decade of the peak scan, and the most decades it covers.
+const (
+	perDecade      = 8
+	maxScanDecades = 40
+)
+
+// scanSamples is the number of log-spaced samples from lo to hi, counted
+// in float64 first: at most maxScanDecades decades (a span beyond that,
+// from a near-zero velocity or decay rate, would be a count beyond int;
+// the times past it are beyond any physical meaning), none when lo is not
+// a positive finite time.
+func scanSamples(lo, hi float64) int {
+	if !(lo > 0) || !Finite(lo) {
+		return 0
+	}
+	decades := math.Log10(hi / lo)
+	if !(decades <= maxScanDecades) { // also NaN and +Inf
+		decades = maxScanDecades
+	}
+	return int(math.Ceil(perDecade*max(decades, 0))) + 1
 }
 
 // peakResult is the peak of one receptor in elapsed time (d) and mg/L.
@@ -114,6 +134,9 @@ func (m *model) findPeak(f func(float64) float64, p Point, steady float64, extra
 		return peakResult{tau: math.Inf(1), c: steady}
 	}
 	tl := m.sample(f, p, extra)
+	if len(tl.c) == 0 {
+		return peakResult{tau: math.Inf(1), c: 0, timeline: tl}
+	}
 	best := 0
 	for i, c := range tl.c {
 		if c > tl.c[best] {

@@ -24,6 +24,8 @@ import (
 //     instantaneous mass needs effective_porosity and no duration or half-life;
 //   - at least one receptor, each with finite x and y, depths >= 0, both
 //     screen ends or neither with bottom >= top, unique ids;
+//   - no control characters in receptor ids or the contaminant's name
+//     (CheckText);
 //   - times >= 0 and finite; methods from exact, domenico, numeric.
 func Validate(sc Scenario) error {
 	var fe FieldErrors
@@ -187,6 +189,7 @@ func validateContaminant(fe *FieldErrors, sc Scenario) {
 // path ("contaminant" or "contaminants[i]").
 func validateOneContaminant(fe *FieldErrors, a Aquifer, at string, c Contaminant) {
 	path := func(f string) string { return at + "." + f }
+	fe.CheckText(path("name"), c.Name, false)
 	fe.Check(path("koc"), c.Koc, NonNegative)
 	fe.Check(path("half_life"), c.HalfLife, Positive)
 	fe.Check(path("retardation"), c.Retardation, atLeastOne)
@@ -348,6 +351,7 @@ func validateReceptors(fe *FieldErrors, rs []Receptor) {
 		case r.ScreenTop != nil && Finite(*r.ScreenTop) && Finite(*r.ScreenBottom) && *r.ScreenBottom < *r.ScreenTop:
 			fe.Add(p+".screen_bottom", fmt.Sprintf("must be >= screen_top (%g), got %g", *r.ScreenTop, *r.ScreenBottom))
 		}
+		fe.CheckText(p+".id", r.ID, false)
 		if r.ID != "" {
 			if j, dup := seen[r.ID]; dup {
 				fe.Add(p+".id", fmt.Sprintf("must be unique; %q is also receptors[%d].id", r.ID, j))
