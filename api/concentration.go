@@ -25,7 +25,7 @@ const (
 	// value is returned; paramContaminants carries them as a JSON array.
 	paramCompound     = "compound"
 	paramContaminants = "contaminants"
-	steadyTime  = "steady"
+	steadyTime        = "steady"
 )
 
 // kindNotModelled is the problem of a receptor the model does not cover.
