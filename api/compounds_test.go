@@ -17,7 +17,10 @@ import (
 
 // dryCleanerMap is the invented dry-cleaner demo (testdata/demo) with the
 // closed forms only, so that the tests do not wait for the 3D chain.
-func dryCleanerMap(t *testing.T) map[string]any {
+func dryCleanerMap(t *testing.T) map[string]any { return dryCleanerMapB(t) }
+
+// dryCleanerMapB is dryCleanerMap for tests and benchmarks.
+func dryCleanerMapB(t testing.TB) map[string]any {
 	t.Helper()
 	b, err := os.ReadFile("../testdata/demo/dry-cleaner.json")
 	if err != nil {
