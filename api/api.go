@@ -51,6 +51,8 @@ type Config struct {
 	MaxWaiting int
 	// Longest wait for a slot before 503; 0 means DefaultWaitTimeout.
 	WaitTimeout time.Duration
+	// Clock gives the date and time a report says it was run; nil means time.Now.
+	Clock func() time.Time
 }
 
 func (c Config) withDefaults() Config {
@@ -74,6 +76,9 @@ func (c Config) withDefaults() Config {
 	}
 	if c.WaitTimeout <= 0 {
 		c.WaitTimeout = DefaultWaitTimeout
+	}
+	if c.Clock == nil {
+		c.Clock = time.Now
 	}
 	return c
 }

@@ -3,12 +3,16 @@ package api
 import (
 	"context"
 	"fmt"
+	"math"
 	"net/http"
+	"strconv"
+	"strings"
 
 	"github.com/labstack/echo/v4"
 
 	"downgradient/plots"
 	"downgradient/plume"
+	"downgradient/plume/maps"
 )
 
 // Media types of the pictures.
@@ -17,10 +21,61 @@ const (
 	mimePNG = "image/png"
 )
 
-// plotsHandler is POST /v1/plots?kind=breakthrough|profile|map: one
-// picture of a scenario as SVG (default) or PNG.
+// figureOptions are the picture options of /v1/plots and /v1/reports
+// (query parameters; openapi.yaml documents them).
+type figureOptions struct {
+	// Scale of a breakthrough plot's concentration axis: plots.ScaleAuto
+	// (default), ScaleLinear or ScaleLog.
+	Scale string
+	// Labels: the receptor label policy of the map, section and profile.
+	Labels string
+	// Time of the map and the section; nil for the steady state.
+	Time *maps.MapTime
+	// Levels of the map's and the section's outlines; nil for the default.
+	Levels []float64
+	// compact lays breakthrough plots out for half a page (the report).
+	compact bool
+}
+
+// figureOptionsOf reads the picture options of a request.
+func figureOptionsOf(c echo.Context) (figureOptions, *Problem) {
+	o := figureOptions{Scale: c.QueryParam("scale"), Labels: c.QueryParam("labels")}
+	if t := c.QueryParam("time"); t != "" && t != "steady" {
+		v, err := strconv.ParseFloat(t, 64)
+		if err != nil || math.IsInf(v, 0) || math.IsNaN(v) || v < 0 {
+			return o, newProblem(kindInvalid, "time out of range", FieldProblem{Field: "time", Message: fmt.Sprintf(`must be a finite number >= 0 or "steady", got %q`, t)})
+		}
+		o.Time = &maps.MapTime{Value: v}
+	}
+	if l := c.QueryParam("levels"); l != "" {
+		for _, part := range strings.Split(l, ",") {
+			v, err := strconv.ParseFloat(strings.TrimSpace(part), 64)
+			if err != nil || math.IsInf(v, 0) || math.IsNaN(v) || !(v > 0) {
+				return o, newProblem(kindInvalid, "levels out of range", FieldProblem{Field: "levels", Message: fmt.Sprintf("each level must be a finite number > 0, got %q", part)})
+			}
+			o.Levels = append(o.Levels, v)
+		}
+	}
+	return o, nil
+}
+
+// renameFigureField names the map options' fields by the query
+// parameters they come from ("levels[2]" is the parameter "levels").
+func renameFigureField(f string) string {
+	if strings.HasPrefix(f, "levels[") {
+		return "levels"
+	}
+	return f
+}
+
+// plotsHandler is POST /v1/plots?kind=breakthrough|profile|map|section:
+// one picture of a scenario as SVG (default) or PNG.
 func (s *server) plotsHandler(c echo.Context) error {
 	format, p := negotiatePicture(c)
+	if p != nil {
+		return p
+	}
+	opts, p := figureOptionsOf(c)
 	if p != nil {
 		return p
 	}
@@ -34,24 +89,20 @@ func (s *server) plotsHandler(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	ri := -1
-	if id := c.QueryParam("receptor"); id != "" {
-		for i, rr := range res.Receptors {
-			if rr.ID == id {
-				ri = i
-			}
-		}
-		if ri < 0 {
-			return newProblem(kindInvalid, "no receptor has this id",
-				FieldProblem{Field: "receptor", Message: fmt.Sprintf("no receptor has the id %q", id)})
-		}
+	ri, p := receptorParam(c, res)
+	if p != nil {
+		return p
 	}
-	img, p := compute(c.Request().Context(), s, nil, func(ctx context.Context) ([]byte, error) {
-		fi, err := s.computeFigures(ctx, sc, res, map[string]bool{kind: true})
+	needs := figureNeeds{opts: opts, profile: kind == kindProfile, planMap: kind == kindMap, section: kind == kindSection}
+	if kind == kindBreakthrough {
+		needs.breakthrough = []int{ri}
+	}
+	img, p := compute(c.Request().Context(), s, renameFigureField, func(ctx context.Context) ([]byte, error) {
+		fi, err := s.computeFigures(ctx, sc, res, needs)
 		if err != nil {
 			return nil, err
 		}
-		f, err := fi.figure(kind, ri)
+		f, err := fi.figure(kind, ri, sc, opts)
 		if err != nil {
 			return nil, err
 		}
@@ -68,20 +119,35 @@ func (s *server) plotsHandler(c echo.Context) error {
 	return c.Blob(http.StatusOK, ct, img)
 }
 
-// figure builds one figure; receptor -1 picks the receptor of highest peak.
-func (fi *figureInputs) figure(kind string, receptor int) (*plots.Figure, error) {
+// receptorParam is the index of the receptor the query names, or the first
+// of receptorOrder (exceeding, highest peak) when it names none.
+func receptorParam(c echo.Context, res *plume.Result) (int, *Problem) {
+	id := c.QueryParam("receptor")
+	if id == "" {
+		return receptorOrder(res)[0], nil
+	}
+	for i, rr := range res.Receptors {
+		if rr.ID == id {
+			return i, nil
+		}
+	}
+	return -1, newProblem(kindInvalid, "no receptor has this id",
+		FieldProblem{Field: "receptor", Message: fmt.Sprintf("no receptor has the id %q", id)})
+}
+
+// figure builds one figure.
+func (fi *figureInputs) figure(kind string, receptor int, sc plume.Scenario, o figureOptions) (*plots.Figure, error) {
 	switch kind {
 	case kindBreakthrough:
-		if receptor < 0 {
-			receptor = receptorOrder(fi.res)[0]
-		}
-		return plots.BreakthroughFigure(breakthroughData(fi.res, fi.dense, receptor))
+		return plots.BreakthroughFigure(breakthroughData(fi.res, fi.dense.Receptors[fi.denseIndex[receptor]], receptor, o))
 	case kindProfile:
-		return plots.ProfileFigure(profileData(fi.profile, fi.res))
+		return plots.ProfileFigure(profileData(fi.profile, fi.res, o))
 	case kindMap:
-		return plots.MapFigure(mapData(fi.planMap))
+		return plots.MapFigure(mapData(fi.planMap, fi.res, o))
+	case kindSection:
+		return plots.SectionFigure(sectionData(fi.section, fi.res, sc, o))
 	}
-	return nil, plume.Invalid("kind", "must be breakthrough, profile or map")
+	return nil, plume.Invalid("kind", "must be breakthrough, profile, map or section")
 }
 
 // negotiatePicture picks svg (default) or png; format wins over Accept.

@@ -40,12 +40,19 @@ func (s *server) screenings(c echo.Context) error {
 	return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, res)
 }
 
-// scenarioBody is the request body: a scenario plus the free-text
-// description the engine ignores.
+// scenarioBody is the request body: a scenario plus the free text the
+// engine ignores (the description, the memo header and the sources of the
+// values, which a report prints). None of it is part of the scenario the
+// engine sees, so none of it changes engine.input_sha256.
 type scenarioBody struct {
 	plume.Scenario
 	// Free text for the caller's records; not passed to the engine.
 	Description *string `json:"description"`
+	// The header of a report; not passed to the engine.
+	Memo *memoHeader `json:"memo,omitempty"`
+	// Where each input value came from (a survey, a pumping test, a
+	// handbook), by the input's JSON path; printed beside it in a report.
+	SourcesOfValues map[string]string `json:"sources_of_values,omitempty"`
 }
 
 // decodeScenario decodes a body that has passed schema validation.

@@ -27,10 +27,36 @@ func (s *server) uncertainty(c echo.Context) error {
 	if p != nil {
 		return p
 	}
+	req, _, p := s.uncertaintyRun(c)
+	if p != nil {
+		return p
+	}
+	ctx := c.Request().Context()
+	res, p := compute(ctx, s, renameOutside("realizations", "seed", "methods"), func(ctx context.Context) (*uncertainty.UncertaintyResult, error) {
+		return uncertainty.RunUncertainty(ctx, req, s.engineOptions())
+	})
+	if p != nil {
+		return p
+	}
+	switch format {
+	case formatCSV:
+		return writeUncertaintyCSV(c, req.Template, res)
+	case formatGeoJSON:
+		return writeJSON(c, http.StatusOK, mimeGeoJSON, buildUncertaintyGeoJSON(req.Template, res))
+	}
+	return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, res)
+}
+
+// uncertaintyRun decodes the /v1/uncertainty envelope of c (distribution
+// objects, the scenario at their medians, realizations, seed, methods) and
+// checks the workload; the scenario body comes back with its free text
+// (description, memo, sources of values) for a report.
+func (s *server) uncertaintyRun(c echo.Context) (uncertainty.UncertaintyRequest, scenarioBody, *Problem) {
+	var req uncertainty.UncertaintyRequest
 	var ub uncertaintyBody
 	tree, p := decodeEnvelope(c, &ub)
 	if p != nil {
-		return p
+		return req, scenarioBody{}, p
 	}
 	dt := extractUncertain(tree)
 	if len(dt.malformed)+len(dt.invalid) > 0 {
@@ -42,17 +68,18 @@ func (s *server) uncertainty(c echo.Context) error {
 		for _, e := range append(dt.malformed, dt.invalid...) {
 			fps = append(fps, FieldProblem{Field: joinFieldPath("scenario", e.Field), Message: e.Message})
 		}
-		return newProblem(kind, fmt.Sprintf("%d field(s) of the distribution objects are wrong", len(fps)), fps...)
+		return req, scenarioBody{}, newProblem(kind, fmt.Sprintf("%d field(s) of the distribution objects are wrong", len(fps)), fps...)
 	}
-	sc, p := s.decodeScenarioTree(tree)
+	sb, p := s.decodeScenarioBodyTree(tree)
 	if p != nil {
-		return p
+		return req, sb, p
 	}
 	ctx := c.Request().Context()
 	if len(dt.notNumbers) > 0 {
-		return s.problemFromError(ctx, dt.notNumbers.Err(), scenarioField)
+		return req, sb, s.problemFromError(ctx, dt.notNumbers.Err(), scenarioField)
 	}
-	req := uncertainty.UncertaintyRequest{Template: sc, Parameters: dt.params, Methods: ub.Methods}
+	sc := sb.Scenario
+	req = uncertainty.UncertaintyRequest{Template: sc, Parameters: dt.params, Methods: ub.Methods}
 	if len(req.Methods) == 0 {
 		// The scenario's own closed forms, else exact (numeric only when asked
 		// for at the top level).
@@ -65,26 +92,14 @@ func (s *server) uncertainty(c echo.Context) error {
 	if ub.Realizations != nil {
 		req.Realizations = *ub.Realizations
 		if *ub.Realizations < 1 {
-			return newProblem(kindInvalid, "realizations out of range", FieldProblem{Field: "realizations", Message: fmt.Sprintf("must be >= 1, got %d", *ub.Realizations)})
+			return req, sb, newProblem(kindInvalid, "realizations out of range", FieldProblem{Field: "realizations", Message: fmt.Sprintf("must be >= 1, got %d", *ub.Realizations)})
 		}
 	}
 	if ub.Seed != nil {
 		req.Seed = *ub.Seed
 	}
 	if err := uncertainty.CheckWorkload(req, s.cfg.MaxEvaluations); err != nil {
-		return s.problemFromError(ctx, err, nil)
+		return req, sb, s.problemFromError(ctx, err, nil)
 	}
-	res, p := compute(ctx, s, renameOutside("realizations", "seed", "methods"), func(ctx context.Context) (*uncertainty.UncertaintyResult, error) {
-		return uncertainty.RunUncertainty(ctx, req, s.engineOptions())
-	})
-	if p != nil {
-		return p
-	}
-	switch format {
-	case formatCSV:
-		return writeUncertaintyCSV(c, sc, res)
-	case formatGeoJSON:
-		return writeJSON(c, http.StatusOK, mimeGeoJSON, buildUncertaintyGeoJSON(sc, res))
-	}
-	return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, res)
+	return req, sb, nil
 }
