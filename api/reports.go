@@ -13,6 +13,7 @@ import (
 
 	"downgradient/plots"
 	"downgradient/plume"
+	"downgradient/plume/maps"
 )
 
 // maxReportReceptorPlots is the most breakthrough plots one report holds.
@@ -62,6 +63,10 @@ func (s *server) reports(c echo.Context) error {
 	}
 	page, p := compute(ctx, s, rename, func(ctx context.Context) ([]byte, error) {
 		opts.compact = true
+		if opts.Time == nil {
+			opts.Time = peakMapTime(res)
+			opts.atPeak = opts.Time != nil
+		}
 		needs := figureNeeds{breakthrough: reportPlotReceptors(res), profile: true, planMap: true, section: true,
 			mapCells: reportMapCells, sectionCells: reportSectionCells, opts: opts, unc: rq.unc}
 		fi, err := s.computeFigures(ctx, sc, res, needs)
@@ -101,6 +106,21 @@ func reportPlotReceptors(res *plume.Result) []int {
 		out = append(out, i)
 	}
 	return out
+}
+
+// peakMapTime is the time of the memo's map and section when none was
+// asked for: when values peak and fall (a spill, a finite or depleting
+// source, whose steady state shows little or nothing), the time of the
+// peak at the first receptor of the results table; else nil, the steady
+// state.
+func peakMapTime(res *plume.Result) *maps.MapTime {
+	for _, i := range receptorOrder(res) {
+		rr := res.Receptors[i]
+		if rr.Status != plume.StatusUpgradient && rr.Peak.Time != nil && rr.Peak.Concentration > 0 {
+			return &maps.MapTime{Value: *rr.Peak.Time}
+		}
+	}
+	return nil
 }
 
 // renderInline renders a figure at the full page width as inline SVG.

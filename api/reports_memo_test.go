@@ -326,3 +326,32 @@ func memoMap(t testing.TB) map[string]any {
 	}
 	return m
 }
+
+// Every source kind, the numeric method and imperial units give a memo
+// with all its pictures, and each verdict is one the comparison allows.
+func TestReportSourceKinds(t *testing.T) {
+	ts := newTestServer(t, Config{})
+	for name, body := range map[string][]byte{
+		"column": mustJSON(t, goldenColumn(t)), "spill": mustJSON(t, goldenSpill(t)),
+		"numeric": mustJSON(t, goldenNumeric(t)), "imperial": []byte(goldenImperial),
+	} {
+		page := report(t, ts, "", body)
+		if n := strings.Count(page, "<svg"); n < 4 {
+			t.Errorf("%s: %d pictures", name, n)
+		}
+		for _, r := range tableRows(t, page, "data results") {
+			switch v := r[len(r)-2]; v {
+			case "above level", "above level (in source)", "below level", "not modelled", "no level":
+			default:
+				t.Errorf("%s: %s verdict %q", name, r[0], v)
+			}
+		}
+		// A spill has no steady state: its map shows the time of a peak, with a plume on it.
+		if name == "spill" && (!strings.Contains(page, "after the release began, at the water table") || strings.Count(page, "(nowhere)") == 6) {
+			t.Errorf("spill: the map is not at a peak time or shows nothing")
+		}
+		if regexp.MustCompile(`\bNaN\b|[+-]?\bInf\b`).MatchString(page) {
+			t.Errorf("%s: a non-finite number on the page", name)
+		}
+	}
+}

@@ -35,6 +35,8 @@ type figureOptions struct {
 	Levels []float64
 	// compact lays breakthrough plots out for half a page (the report).
 	compact bool
+	// atPeak: Time is the report's choice, the time of a peak (peakMapTime).
+	atPeak bool
 }
 
 // figureOptionsOf reads the picture options of a request.

@@ -134,8 +134,8 @@ func lastWord(cells []string) string {
 	return ""
 }
 
-// The report printed through Chromium's print-to-PDF: the demo (with and
-// without the uncertainty section) on at most 8 A4 pages, a 500-receptor
+// The report printed through Chromium's print-to-PDF: the demo (plain, and
+// with its memo header, sources and uncertainty section) on at most 8 A4 pages, a 500-receptor
 // layer on at most one page per five receptors; no table row split
 // across pages; every receptor id and the screening caution in the text.
 func TestReportPrint(t *testing.T) {
@@ -143,15 +143,22 @@ func TestReportPrint(t *testing.T) {
 		t.Skip("print check skipped in -short mode")
 	}
 	ts := newTestServer(t, Config{})
+	// The fullest demo memo: header, sources of values and the uncertainty section.
 	env := uncertaintyMap(t)
 	env["realizations"] = 200
+	sc := env["scenario"].(map[string]any)
+	for k, v := range memoMap(t) {
+		if k == "memo" || k == "sources_of_values" {
+			sc[k] = v
+		}
+	}
 	cases := []struct {
 		name        string
 		body, plain []byte
 		maxPages    int
 	}{
 		{"demo", demoBody(t), demoBody(t), 8},
-		{"demo with uncertainty", mustJSON(t, env), demoBody(t), 8},
+		{"demo with memo and uncertainty", mustJSON(t, env), demoBody(t), 8},
 		{"500-receptor layer", mustJSON(t, layerMap(t, 500)), mustJSON(t, layerMap(t, 500)), 100},
 	}
 	for _, c := range cases {

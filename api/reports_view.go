@@ -58,8 +58,10 @@ type memoField struct{ Name, Value string }
 type reportFigures struct {
 	MapSVG, SectionSVG, ProfileSVG template.HTML
 	MapNote, SectionNote           string
-	Breakthru                      []reportFigure
-	PlotNote                       string
+	// When the map and section show, in words ("at steady state").
+	When      string
+	Breakthru []reportFigure
+	PlotNote  string
 }
 
 type reportFigure struct {
@@ -228,6 +230,10 @@ func (rv *reportView) addFigures(res *plume.Result, fi *figureInputs, sc plume.S
 		return err
 	}
 	mp := fi.planMap
+	fg.When = whenText(mp.Time, res.Units.Time)
+	if o.atPeak {
+		fg.When += " (the time of the peak at the first receptor of the results table; the steady state of this source shows little)"
+	}
 	fg.MapNote = fmt.Sprintf("Grid of %d × %d nodes, %s %s apart; %s solution.", mp.Grid.NX, mp.Grid.NY,
 		fmtReportNumber(mp.Grid.DX), L, mp.Method)
 	rv.PlumeLength = plumeLengthText(mp, L, C)
