@@ -210,7 +210,7 @@ func placeLabels(jobs []labelJob, area vg.Rectangle, obstacles, symbols []vg.Rec
 				score += 5 // a leader line: only when nothing near fits
 			}
 			if bestScore < 0 || score < bestScore {
-				best, bestScore = placedLabel{job: j, at: at, box: box, leader: k >= len(near)}, score
+				best, bestScore = placedLabel{job: j, at: at, box: box, leader: k >= adjacentPositions}, score
 			}
 			if score == 0 {
 				break
@@ -253,6 +253,10 @@ func placementScore(j labelJob, box, area vg.Rectangle, hard, symbols []vg.Recta
 	}
 	return score, true
 }
+
+// adjacentPositions is the number of candidates that touch their symbol;
+// a label further out (stacked or far) is joined to it by a leader line.
+const adjacentPositions = 8
 
 // candidates are the text origins (left end of the baseline) of the eight
 // positions around the anchor, right of it first.
