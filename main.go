@@ -21,6 +21,7 @@ import (
 	"path/filepath"
 	"runtime/debug"
 	"strings"
+	"sync"
 	"syscall"
 	"time"
 
@@ -64,30 +65,57 @@ func engineVersion() string {
 
 // gitHead returns the first 12 hex digits of the commit the git checkout in
 // dir is at, reading .git/HEAD and the ref it names (loose or packed);
-// "" when there is none.
+// "" when there is none. In a linked worktree .git is a file naming the
+// worktree's git directory, whose HEAD names a ref of the common one.
 func gitHead(dir string) string {
 	gitDir := filepath.Join(dir, ".git")
-	head, err := os.ReadFile(filepath.Join(gitDir, "HEAD"))
+	dirs := []string{gitDir}
+	if b, err := os.ReadFile(gitDir); err == nil { // a file: "gitdir: <path>"
+		wt, ok := strings.CutPrefix(strings.TrimSpace(string(b)), "gitdir: ")
+		if !ok {
+			return ""
+		}
+		if !filepath.IsAbs(wt) {
+			wt = filepath.Join(dir, wt)
+		}
+		dirs = []string{wt}
+		if c, err := os.ReadFile(filepath.Join(wt, "commondir")); err == nil {
+			common := strings.TrimSpace(string(c))
+			if !filepath.IsAbs(common) {
+				common = filepath.Join(wt, common)
+			}
+			dirs = append(dirs, common)
+		}
+	}
+	head, err := os.ReadFile(filepath.Join(dirs[0], "HEAD"))
 	if err != nil {
 		return ""
 	}
 	h := strings.TrimSpace(string(head))
 	if ref, ok := strings.CutPrefix(h, "ref: "); ok {
-		h = ""
-		if b, err := os.ReadFile(filepath.Join(gitDir, filepath.FromSlash(ref))); err == nil {
-			h = strings.TrimSpace(string(b))
-		} else if packed, err := os.ReadFile(filepath.Join(gitDir, "packed-refs")); err == nil {
-			for _, line := range strings.Split(string(packed), "\n") {
-				if sha, name, ok := strings.Cut(line, " "); ok && name == ref {
-					h = sha
-				}
-			}
-		}
+		h = resolveRef(dirs, ref)
 	}
 	if len(h) < 12 || strings.Trim(h, "0123456789abcdef") != "" {
 		return ""
 	}
 	return h[:12]
+}
+
+// resolveRef finds ref, loose or packed, in the first of dirs that has it.
+func resolveRef(dirs []string, ref string) string {
+	for _, d := range dirs {
+		if b, err := os.ReadFile(filepath.Join(d, filepath.FromSlash(ref))); err == nil {
+			return strings.TrimSpace(string(b))
+		}
+		if packed, err := os.ReadFile(filepath.Join(d, "packed-refs")); err == nil {
+			for _, line := range strings.Split(string(packed), "\n") {
+				if sha, name, ok := strings.Cut(line, " "); ok && name == ref {
+					return sha
+				}
+			}
+		}
+	}
+	return ""
 }
 
 func main() {
@@ -109,9 +137,12 @@ func run(args []string) error {
 	addr := fs.String("addr", envOr("ADDR", ":8080"), "listen address (env ADDR)")
 	maxBody := fs.Int64("max-body", api.DefaultMaxBodyBytes, "largest request body, bytes")
 	timeout := fs.Duration("request-timeout", api.DefaultRequestTimeout, "per-request computation deadline")
-	grace := fs.Duration("shutdown-grace", api.DefaultRequestTimeout+5*time.Second, "on SIGTERM, how long requests in flight may take to finish")
+	grace := fs.Duration("shutdown-grace", api.DefaultRequestTimeout+5*time.Second, "on SIGTERM, how long requests in flight may take to finish (those still running are answered 503 just before it ends)")
 	maxHeavy := fs.Int("max-heavy", api.DefaultMaxHeavy(), "computing requests run at once")
 	maxWaiting := fs.Int("max-waiting", api.DefaultMaxWaiting, "computing requests that may wait for a slot (beyond: 503); negative: none")
+	bodyTimeout := fs.Duration("body-timeout", api.DefaultBodyTimeout, "longest time a request body may take to arrive (beyond: 408)")
+	writeTimeout := fs.Duration("write-timeout", api.DefaultWriteTimeout, "longest time a client may go without reading an answer (beyond: the connection is dropped)")
+	maxOutput := fs.Int("max-output", api.DefaultMaxOutputBytes, "largest answer of a computing route, bytes (beyond: 413)")
 	logJSON := fs.Bool("log-json", true, "write logs as JSON (false: text)")
 	healthcheck := fs.Bool("healthcheck", false, "check GET /healthz of a server on -addr and exit 0 if healthy (for container health checks)")
 	if err := fs.Parse(args); err != nil {
@@ -135,6 +166,9 @@ func run(args []string) error {
 		Logger:         log,
 		MaxHeavy:       *maxHeavy,
 		MaxWaiting:     *maxWaiting,
+		BodyTimeout:    *bodyTimeout,
+		WriteTimeout:   *writeTimeout,
+		MaxOutputBytes: *maxOutput,
 	})
 	if err != nil {
 		return err
@@ -158,27 +192,47 @@ func run(args []string) error {
 // onListening, when set (tests), is told the address once the port is open.
 var onListening func(net.Addr)
 
+// Connection limits of the server around the handler. The handler keeps
+// its own, tighter, limits (body timeout, write timeout, 64 KiB of
+// headers answered 431 problem+json); these are backstops.
+const (
+	// readHeaderTimeout bounds the request line and headers.
+	readHeaderTimeout = 5 * time.Second
+	// maxHeaderBytes is where net/http itself answers 431 (plain text).
+	maxHeaderBytes = 1 << 20
+)
+
 // newServer wraps h with the connection timeouts; timeout is the
-// per-request computation deadline.
+// per-request deadline. ReadTimeout covers a body no handler reads (the
+// handler lifts it once it has read a body, or at once for a request
+// without one, so that it cannot end a long computation); WriteTimeout
+// covers an answer the handler does not write itself.
 func newServer(h http.Handler, timeout time.Duration, logHandler slog.Handler) *http.Server {
 	return &http.Server{
 		Handler:           h,
-		ReadHeaderTimeout: 5 * time.Second,
-		ReadTimeout:       30 * time.Second,
-		// Long enough for the computation deadline plus writing the answer.
-		WriteTimeout:   timeout + 30*time.Second,
-		IdleTimeout:    120 * time.Second,
-		MaxHeaderBytes: 64 << 10,
-		ErrorLog:       slog.NewLogLogger(logHandler, slog.LevelWarn),
+		ReadHeaderTimeout: readHeaderTimeout,
+		ReadTimeout:       readHeaderTimeout + api.DefaultBodyTimeout,
+		WriteTimeout:      timeout + 30*time.Second,
+		IdleTimeout:       120 * time.Second,
+		MaxHeaderBytes:    maxHeaderBytes,
+		ErrorLog:          slog.NewLogLogger(logHandler, slog.LevelWarn),
 	}
 }
 
 // serve answers on ln until ctx ends (SIGTERM or SIGINT in run), then shuts
 // down gracefully: the listener closes at once (new connections are
-// refused), idle connections are closed, and requests in flight have up to
-// grace to finish; after that the remaining connections are closed and
-// serve reports the error.
+// refused) and idle connections are closed; requests in flight may finish
+// until shortly before the grace period ends (answerMargin), when their
+// contexts are cancelled with api.ErrShuttingDown so that they answer 503
+// with Retry-After (a body still arriving included) rather than losing
+// their connection. serve returns nil once every connection is done, or an
+// error if one is still busy at the end of the grace period (an answer
+// that a client is reading too slowly).
 func serve(ctx context.Context, srv *http.Server, ln net.Listener, grace time.Duration, log *slog.Logger) error {
+	base, cancelBase := context.WithCancelCause(context.Background())
+	defer cancelBase(nil)
+	srv.BaseContext = func(net.Listener) context.Context { return base }
+	conns := trackConns(srv)
 	errc := make(chan error, 1)
 	go func() { errc <- srv.Serve(ln) }()
 	select {
@@ -190,14 +244,77 @@ func serve(ctx context.Context, srv *http.Server, ln net.Listener, grace time.Du
 	case <-ctx.Done():
 	}
 	log.Info("shutting down", "grace", grace.String())
+	cut := time.AfterFunc(grace-answerMargin(grace), func() {
+		log.Warn("cancelling the requests still running: they answer 503")
+		cancelBase(api.ErrShuttingDown)
+	})
+	defer cut.Stop()
 	shutCtx, cancel := context.WithTimeout(context.Background(), grace)
 	defer cancel()
-	if err := srv.Shutdown(shutCtx); err != nil {
-		_ = srv.Close()
-		return fmt.Errorf("shutdown: requests still running after the grace period of %s: %w", grace, err)
+	shut := make(chan error, 1)
+	go func() { shut <- srv.Shutdown(shutCtx) }()
+	// Shutdown polls its connections ever less often (up to every 0.5 s);
+	// the last connection closing ends the wait at once.
+	select {
+	case err := <-shut:
+		if err != nil {
+			_ = srv.Close()
+			return fmt.Errorf("shutdown: connections still busy after the grace period of %s: %w", grace, err)
+		}
+	case <-conns.allClosed():
 	}
 	log.Info("stopped")
 	return nil
+}
+
+// connTracker counts a server's open connections.
+type connTracker struct {
+	mu   sync.Mutex
+	open map[net.Conn]bool
+	zero chan struct{} // closed when the count falls to zero after allClosed was asked
+}
+
+// trackConns counts srv's connections from now on.
+func trackConns(srv *http.Server) *connTracker {
+	ct := &connTracker{open: map[net.Conn]bool{}}
+	prev := srv.ConnState
+	srv.ConnState = func(c net.Conn, st http.ConnState) {
+		ct.mu.Lock()
+		switch st {
+		case http.StateNew:
+			ct.open[c] = true
+		case http.StateClosed, http.StateHijacked:
+			delete(ct.open, c)
+			if len(ct.open) == 0 && ct.zero != nil {
+				close(ct.zero)
+				ct.zero = nil
+			}
+		}
+		ct.mu.Unlock()
+		if prev != nil {
+			prev(c, st)
+		}
+	}
+	return ct
+}
+
+// allClosed is closed once no connection is open (at once if none is).
+func (ct *connTracker) allClosed() <-chan struct{} {
+	ct.mu.Lock()
+	defer ct.mu.Unlock()
+	ch := make(chan struct{})
+	if len(ct.open) == 0 {
+		close(ch)
+		return ch
+	}
+	ct.zero = ch
+	return ch
+}
+
+// answerMargin is how long before the end of the grace period the requests
+// still running are cancelled: time to write their 503.
+func answerMargin(grace time.Duration) time.Duration {
+	return min(grace/4, 2*time.Second)
 }
 
 // checkHealth asks a running server for GET /healthz: the container image

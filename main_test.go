@@ -3,12 +3,14 @@ package main
 import (
 	"bufio"
 	"context"
+	"encoding/json"
 	"fmt"
 	"io"
 	"log/slog"
 	"net"
 	"net/http"
 	"os"
+	"path/filepath"
 	"strings"
 	"syscall"
 	"testing"
@@ -113,9 +115,113 @@ func TestGracefulShutdownSIGTERM(t *testing.T) {
 	}
 }
 
-// A request still running when the grace period ends is cut off and serve
-// says so.
-func TestShutdownGraceExpires(t *testing.T) {
+// slowScreening is a screening that computes for many seconds: 10,000
+// receptors of a source that stops after a year, so that each needs a peak
+// search (about a hundred exact evaluations), with an answer well within
+// the output budget.
+func slowScreening(t *testing.T) []byte {
+	t.Helper()
+	b, err := os.ReadFile("testdata/demo/scenario.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var m map[string]any
+	if err := json.Unmarshal(b, &m); err != nil {
+		t.Fatal(err)
+	}
+	rs := make([]any, 10_000)
+	for i := range rs {
+		rs[i] = map[string]any{"id": fmt.Sprintf("R%d", i), "x": 1260 + float64(i%500), "y": 820 + float64(i/500)}
+	}
+	m["receptors"], m["times"], m["methods"] = rs, []any{3650}, []any{"exact"}
+	m["source"].(map[string]any)["duration"] = 365
+	out, err := json.Marshal(m)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return out
+}
+
+// sendRequest writes a whole POST of body to addr and returns a function
+// that reads the response (status, Retry-After, body).
+func sendRequest(t *testing.T, addr, target string, body []byte) func() (*http.Response, []byte, error) {
+	t.Helper()
+	conn, err := net.DialTimeout("tcp", addr, 2*time.Second)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { conn.Close() })
+	fmt.Fprintf(conn, "POST %s HTTP/1.1\r\nHost: %s\r\nContent-Type: application/json\r\nContent-Length: %d\r\n\r\n", target, addr, len(body))
+	if _, err := conn.Write(body); err != nil {
+		t.Fatal(err)
+	}
+	return func() (*http.Response, []byte, error) {
+		_ = conn.SetReadDeadline(time.Now().Add(30 * time.Second))
+		resp, err := http.ReadResponse(bufio.NewReader(conn), nil)
+		if err != nil {
+			return nil, nil, err
+		}
+		defer resp.Body.Close()
+		b, err := io.ReadAll(resp.Body)
+		return resp, b, err
+	}
+}
+
+// Issue 12, item 3: SIGTERM while a computation runs longer than the grace
+// period: the computation is cancelled and answered 503 shutting-down with
+// Retry-After within the grace period, and run returns nil (exit 0).
+// Before, the connection was closed with no response at the end of the
+// grace period and run returned an error (exit 1).
+func TestShutdownAnswersComputationInFlight(t *testing.T) {
+	addrc := make(chan net.Addr, 1)
+	onListening = func(a net.Addr) { addrc <- a }
+	defer func() { onListening = nil }()
+	done := make(chan error, 1)
+	const grace = 2 * time.Second
+	go func() {
+		done <- run([]string{"-addr", "127.0.0.1:0", "-log-json=false", "-shutdown-grace", grace.String()})
+	}()
+	var addr string
+	select {
+	case a := <-addrc:
+		addr = a.String()
+	case err := <-done:
+		t.Fatalf("run ended early: %v", err)
+	case <-time.After(10 * time.Second):
+		t.Fatal("server did not start")
+	}
+	read := sendRequest(t, addr, "/v1/screenings", slowScreening(t))
+	time.Sleep(500 * time.Millisecond) // computing
+	start := time.Now()
+	if err := syscall.Kill(os.Getpid(), syscall.SIGTERM); err != nil {
+		t.Fatal(err)
+	}
+	resp, body, err := read()
+	took := time.Since(start)
+	if err != nil {
+		t.Fatalf("no answer to the request in flight: %v", err)
+	}
+	if resp.StatusCode != http.StatusServiceUnavailable || resp.Header.Get("Retry-After") == "" ||
+		!strings.Contains(string(body), "/problems/shutting-down") {
+		t.Fatalf("status %d, Retry-After %q: %.300s", resp.StatusCode, resp.Header.Get("Retry-After"), body)
+	}
+	if took > grace+time.Second {
+		t.Errorf("answered %v after SIGTERM with a grace period of %v", took, grace)
+	}
+	select {
+	case err := <-done:
+		if err != nil {
+			t.Fatalf("run: %v", err)
+		}
+	case <-time.After(grace + 5*time.Second):
+		t.Fatal("run did not return")
+	}
+}
+
+// A request whose body never finishes is answered 503 when the grace
+// period is about to end, and serve returns nil. Before, its connection
+// was cut at the end of the grace period and serve reported an error.
+func TestShutdownAnswersStalledBody(t *testing.T) {
 	e, err := api.New(api.Config{Version: "test"})
 	if err != nil {
 		t.Fatal(err)
@@ -128,18 +234,33 @@ func TestShutdownGraceExpires(t *testing.T) {
 	srv := newServer(e, time.Second, log.Handler())
 	ctx, cancel := context.WithCancel(context.Background())
 	done := make(chan error, 1)
-	go func() { done <- serve(ctx, srv, ln, 200*time.Millisecond, log) }()
+	go func() { done <- serve(ctx, srv, ln, 400*time.Millisecond, log) }()
 
-	startSlowRequest(t, ln.Addr().String()) // never finished
-	time.Sleep(100 * time.Millisecond)
+	addr := ln.Addr().String()
+	conn, err := net.DialTimeout("tcp", addr, 2*time.Second)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer conn.Close()
+	fmt.Fprintf(conn, "POST /v1/screenings HTTP/1.1\r\nHost: %s\r\nContent-Type: application/json\r\nContent-Length: 5000\r\n\r\n{\"aquifer\": ", addr)
+	time.Sleep(100 * time.Millisecond) // its body never ends
 	cancel()
 	select {
 	case err := <-done:
-		if err == nil || !strings.Contains(err.Error(), "grace period") {
-			t.Fatalf("serve: %v, want the grace period error", err)
+		if err != nil {
+			t.Fatalf("serve: %v", err)
 		}
 	case <-time.After(5 * time.Second):
 		t.Fatal("serve did not return after the grace period")
+	}
+	_ = conn.SetReadDeadline(time.Now().Add(5 * time.Second))
+	resp, err := http.ReadResponse(bufio.NewReader(conn), nil)
+	if err != nil {
+		t.Fatalf("no answer to the stalled request: %v", err)
+	}
+	resp.Body.Close()
+	if resp.StatusCode != http.StatusServiceUnavailable || resp.Header.Get("Retry-After") == "" {
+		t.Errorf("stalled request: status %d, Retry-After %q", resp.StatusCode, resp.Header.Get("Retry-After"))
 	}
 }
 
@@ -174,6 +295,25 @@ func TestGitHead(t *testing.T) {
 				t.Errorf("gitHead = %q, want %q", got, tc.want)
 			}
 		})
+	}
+	// A linked worktree: .git is a file naming the worktree's git
+	// directory, whose HEAD names a ref of the common directory.
+	repo, wt := t.TempDir(), t.TempDir()
+	for name, body := range map[string]string{"worktrees/wt/HEAD": "ref: refs/heads/wt\n", "worktrees/wt/commondir": "../..\n",
+		"refs/heads/wt": sha + "\n"} {
+		p := filepath.Join(repo, name)
+		if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(p, []byte(body), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := os.WriteFile(filepath.Join(wt, ".git"), []byte("gitdir: "+filepath.Join(repo, "worktrees", "wt")+"\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if got := gitHead(wt); got != sha[:12] {
+		t.Errorf("linked worktree: gitHead = %q, want %q", got, sha[:12])
 	}
 	if v := engineVersion(); v == "dev" {
 		t.Errorf("engine version %q does not identify the build", v)

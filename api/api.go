@@ -51,6 +51,20 @@ type Config struct {
 	MaxWaiting int
 	// Longest wait for a slot before 503; 0 means DefaultWaitTimeout.
 	WaitTimeout time.Duration
+	// Longest time a request body may take to arrive (408 beyond); 0 means
+	// DefaultBodyTimeout.
+	BodyTimeout time.Duration
+	// Longest time a client may go without reading an answer being written
+	// (the connection and the slot are dropped beyond); 0 means
+	// DefaultWriteTimeout.
+	WriteTimeout time.Duration
+	// Largest answer of a computing route, bytes (413 beyond); 0 means
+	// DefaultMaxOutputBytes.
+	MaxOutputBytes int
+	// Largest request line and headers, bytes (431 beyond); 0 means
+	// DefaultMaxHeaderBytes. The http.Server's own MaxHeaderBytes must be
+	// larger for the 431 to be problem+json.
+	MaxHeaderBytes int
 	// Clock gives the date and time a report says it was run; nil means time.Now.
 	Clock func() time.Time
 }
@@ -77,6 +91,18 @@ func (c Config) withDefaults() Config {
 	if c.WaitTimeout <= 0 {
 		c.WaitTimeout = DefaultWaitTimeout
 	}
+	if c.BodyTimeout <= 0 {
+		c.BodyTimeout = DefaultBodyTimeout
+	}
+	if c.WriteTimeout <= 0 {
+		c.WriteTimeout = DefaultWriteTimeout
+	}
+	if c.MaxOutputBytes <= 0 {
+		c.MaxOutputBytes = DefaultMaxOutputBytes
+	}
+	if c.MaxHeaderBytes <= 0 {
+		c.MaxHeaderBytes = DefaultMaxHeaderBytes
+	}
 	if c.Clock == nil {
 		c.Clock = time.Now
 	}
@@ -88,6 +114,7 @@ type server struct {
 	spec    *openapi.Spec
 	routes  routeTable
 	metrics *metrics
+	limiter *limiter
 }
 
 // New builds the handler serving every route of the OpenAPI document. It
@@ -103,19 +130,22 @@ func newEcho(cfg Config) (*echo.Echo, error) {
 		return nil, err
 	}
 	s := &server{cfg: cfg.withDefaults(), spec: spec, routes: newRouteTable(spec.Doc), metrics: newMetrics()}
+	s.limiter = newLimiter(s.cfg, s.metrics)
 
 	e := echo.New()
 	e.HideBanner = true
 	e.HidePort = true
 	e.HTTPErrorHandler = errorHandler
 	// Outermost first: request ID, metrics (counts the status sent), panics,
-	// the request log, the body cap and computation slots, validation.
+	// the request log, the request's scope (header and body caps, its one
+	// deadline, its slot freed after its answer), validation (reads the
+	// body). Computing handlers take a slot in compute.
 	e.Use(requestIDMiddleware, s.metrics.middleware)
 	e.Use(recoverer)
 	if s.cfg.Logger != nil {
 		e.Use(requestLogger(s.cfg.Logger))
 	}
-	e.Use(newLimiter(s.cfg, s.metrics).middleware)
+	e.Use(s.scope)
 	e.Use(s.validator)
 
 	e.POST("/v1/screenings", s.screenings)
@@ -151,6 +181,19 @@ func recoverer(next echo.HandlerFunc) echo.HandlerFunc {
 	}
 }
 
+// logLevel is the level of a request's log line: ERROR only for a 500 (a
+// bug); WARN for a 503 (deadline, busy, shutting down: the operator may
+// act); INFO otherwise, a client that went away (499) included.
+func logLevel(status int) slog.Level {
+	switch {
+	case status == http.StatusServiceUnavailable:
+		return slog.LevelWarn
+	case status >= 500:
+		return slog.LevelError
+	}
+	return slog.LevelInfo
+}
+
 // requestLogger writes one structured line per request.
 func requestLogger(log *slog.Logger) echo.MiddlewareFunc {
 	return func(next echo.HandlerFunc) echo.HandlerFunc {
@@ -161,10 +204,7 @@ func requestLogger(log *slog.Logger) echo.MiddlewareFunc {
 				c.Error(err)
 			}
 			req, res := c.Request(), c.Response()
-			level := slog.LevelInfo
-			if res.Status >= 500 {
-				level = slog.LevelError
-			}
+			level := logLevel(res.Status)
 			log.LogAttrs(req.Context(), level, "request",
 				slog.String("method", req.Method),
 				slog.String("path", req.URL.Path),

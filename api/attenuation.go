@@ -2,7 +2,6 @@ package api
 
 import (
 	"context"
-	"net/http"
 
 	"github.com/labstack/echo/v4"
 
@@ -29,11 +28,20 @@ func (s *server) attenuation(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	res, p := compute(c.Request().Context(), s, renameOutside("observations", "time"), func(ctx context.Context) (*fit.AttenuationResult, error) {
-		return fit.Attenuation(ctx, fit.AttenuationRequest{Scenario: sc, Observations: ab.Observations, Time: ab.Time})
+	size := fitSize(len(ab.Observations), nil, nil)
+	if p := s.checkOutput(size, "application/json", "observations"); p != nil {
+		return p
+	}
+	r, p := compute(c.Request().Context(), s, renameOutside("observations", "time"), func(ctx context.Context) (*reply, error) {
+		res, err := fit.Attenuation(ctx, fit.AttenuationRequest{Scenario: sc, Observations: ab.Observations, Time: ab.Time})
+		if err != nil {
+			return nil, err
+		}
+		runHook(&testHookEncode, ctx)
+		return s.encodeJSON(res, echo.MIMEApplicationJSON, size, "observations")
 	})
 	if p != nil {
 		return p
 	}
-	return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, res)
+	return s.send(c, r)
 }

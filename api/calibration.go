@@ -3,7 +3,6 @@ package api
 import (
 	"context"
 	"fmt"
-	"net/http"
 	"strings"
 
 	"github.com/labstack/echo/v4"
@@ -17,6 +16,7 @@ type calibrationBody struct {
 	Observations []fit.Observation     `json:"observations"`
 	Fit          []string              `json:"fit"`
 	Bounds       map[string][2]float64 `json:"bounds"`
+	Compound     string                `json:"compound"`
 }
 
 // calibrations is POST /v1/calibrations: fit the chosen parameters to the
@@ -37,30 +37,30 @@ func (s *server) calibrations(c echo.Context) error {
 	if err := plume.CheckWorkload(sc, s.cfg.MaxEvaluations); err != nil {
 		return s.problemFromError(ctx, err, scenarioField)
 	}
-	type answer struct {
-		res *fit.CalibrationResult
-		p   *Problem
+	body, _ := c.Get(ctxBody).([]byte)
+	size := fitSize(len(cb.Observations), body, &sc)
+	if p := s.checkOutput(size, "application/json", "scenario.receptors", "scenario.times", "observations"); p != nil {
+		return p
 	}
-	a, p := compute(ctx, s, renameOutside("observations", "fit", "bounds"), func(ctx context.Context) (answer, error) {
-		res, err := fit.Calibrate(ctx, fit.CalibrationRequest{Scenario: sc, Observations: cb.Observations, Fit: cb.Fit, Bounds: cb.Bounds})
+	r, p := compute(ctx, s, renameOutside("observations", "fit", "bounds", "fitted_scenario", "compound"), func(ctx context.Context) (*reply, error) {
+		res, err := fit.Calibrate(ctx, fit.CalibrationRequest{Scenario: sc, Observations: cb.Observations, Fit: cb.Fit, Bounds: cb.Bounds, Compound: cb.Compound})
 		if err != nil {
-			return answer{}, err
+			return nil, err
 		}
 		desc := fmt.Sprintf("Fitted by POST /v1/calibrations to %d observations: %s", len(cb.Observations), strings.Join(cb.Fit, ", "))
 		res.FittedScenario.Description = &desc
-		screening, err := plume.Screen(ctx, res.FittedScenario.Scenario, s.engineOptions())
-		if err != nil {
-			return answer{p: s.problemFromError(ctx, err, func(f string) string { return joinFieldPath("fitted_scenario", f) })}, nil
+		screening, err := s.screenWork(ctx, res.FittedScenario.Scenario)
+		if e, ok := plume.AsError(err); ok && e.Kind != plume.KindInternal {
+			return nil, &plume.Error{Kind: e.Kind, Detail: e.Detail, Fields: e.Fields.Prefixed("fitted_scenario."), Err: e.Err}
+		} else if err != nil {
+			return nil, err
 		}
 		res.Screening = screening
-		return answer{res: res}, nil
+		runHook(&testHookEncode, ctx)
+		return s.encodeJSON(res, echo.MIMEApplicationJSON, size, "scenario.receptors", "scenario.times", "observations")
 	})
-	switch {
-	case p != nil:
+	if p != nil {
 		return p
-	case a.p != nil:
-		return a.p
 	}
-	s.metrics.observeResult(a.res.Screening)
-	return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, a.res)
+	return s.send(c, r)
 }

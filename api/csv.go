@@ -4,11 +4,8 @@ import (
 	"bytes"
 	"encoding/csv"
 	"math"
-	"net/http"
 	"strconv"
 	"strings"
-
-	"github.com/labstack/echo/v4"
 
 	"downgradient/plume"
 )
@@ -29,6 +26,9 @@ func csvHeader(u plume.Units) []string {
 	L, T, C := unitToken(u.Length), unitToken(u.Time), unitToken(u.Concentration)
 	return []string{"receptor_id", "x_" + L, "y_" + L, "z_" + L, "plume_x_" + L, "plume_y_" + L,
 		"time_" + T, "method", "concentration_" + C, "status", "screening_level_" + C, "above_screening_level",
+		"allowable_source_concentration_steady_" + C, "allowable_source_concentration_within_times_" + C,
+		"dilution_attenuation_factor_steady", "dilution_attenuation_factor_within_times",
+		"allowable_scale_factor_steady", "allowable_scale_factor_within_times",
 		"caveat_codes", "engine_version", "input_sha256"}
 }
 
@@ -77,9 +77,17 @@ func encodeCSV(sc plume.Scenario, res *plume.Result) ([]byte, bool) {
 		}
 		prefix := []string{csvSafe(rr.ID), optNum(x), optNum(y), num(rr.Z), num(rr.PlumeX), num(rr.PlumeY)}
 		codes := strings.Join(res.CaveatCodes(rr.ID), ";")
+		allow := func(a *plume.Allowance) []string {
+			if a == nil {
+				return []string{"", ""}
+			}
+			return []string{optNum(a.SteadyState), optNum(a.WithinTimes)}
+		}
+		bounds := append(append(allow(rr.AllowableSourceConcentration), allow(rr.DilutionAttenuationFactor)...), allow(rr.AllowableScaleFactor)...)
 		row := func(t, method string, c float64) {
 			rec := append(append([]string(nil), prefix...), t, method, num(c), string(rr.Status), optNum(level),
-				comparison(rr.Status, level, c), codes, csvSafe(res.Engine.Version), res.Engine.InputSHA256)
+				comparison(rr.Status, level, c))
+			rec = append(append(rec, bounds...), codes, csvSafe(res.Engine.Version), res.Engine.InputSHA256)
 			_ = w.Write(rec)
 		}
 		for _, sp := range rr.Series {
@@ -98,15 +106,6 @@ func encodeCSV(sc plume.Scenario, res *plume.Result) ([]byte, bool) {
 	}
 	w.Flush()
 	return buf.Bytes(), finite
-}
-
-func writeCSV(c echo.Context, sc plume.Scenario, res *plume.Result) error {
-	b, ok := encodeCSV(sc, res)
-	if !ok {
-		return newProblem(kindInternal, "the result could not be encoded")
-	}
-	c.Response().Header().Set("Content-Disposition", `inline; filename="screening.csv"`)
-	return c.Blob(http.StatusOK, mimeCSV+"; charset=utf-8; header=present", b)
 }
 
 // comparison is a value's comparison with the screening level as text:

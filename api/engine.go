@@ -6,19 +6,41 @@ import (
 	"fmt"
 	"log/slog"
 	"runtime/debug"
+	"sync/atomic"
 
 	"downgradient/plume"
 )
 
-// compute is the one path of every engine call: f runs under the
-// per-request deadline in its own goroutine (so that the answer leaves at
-// the deadline even if the engine notices the cancelled context late; the
-// engine stops at its next check of ctx), a panic in it is recovered and
-// logged, and its error becomes a problem through problemFromError (rename
-// maps the domain's field paths to the caller's; nil leaves them).
+// Test hooks, unset in production: testHookCompute runs at the start of
+// every engine call, in its goroutine, with the context the engine gets;
+// testHookEncode runs just before an answer is encoded.
+var testHookCompute, testHookEncode atomic.Pointer[func(context.Context)]
+
+// runHook runs a test hook when one is set.
+func runHook(h *atomic.Pointer[func(context.Context)], ctx context.Context) {
+	if f := h.Load(); f != nil {
+		(*f)(ctx)
+	}
+}
+
+// compute is the one path of every engine call. It takes the request's
+// computation slot (once per request: the slot is held until the answer is
+// written, see scope), then runs f under the request's one deadline (set
+// by scope when the request arrived) in its own goroutine, so that the
+// answer leaves at the deadline even if the engine notices the cancelled
+// context late (the engine stops at its next check of ctx). f computes and
+// encodes the answer, so that encoding runs under the same deadline. A
+// panic in f is recovered and logged; its error becomes a problem through
+// problemFromError (rename maps the domain's field paths to the caller's;
+// nil leaves them).
 func compute[T any](ctx context.Context, s *server, rename func(string) string, f func(context.Context) (T, error)) (T, *Problem) {
-	ctx, cancel := context.WithTimeout(ctx, s.cfg.RequestTimeout)
-	defer cancel()
+	var zero T
+	if err := s.limiter.take(ctx); err != nil {
+		if errors.Is(err, errBusy) {
+			return zero, newProblem(kindBusy, "every computation slot is busy and the waiting line is full; retry after the number of seconds in Retry-After")
+		}
+		return zero, s.problemFromError(ctx, err, rename)
+	}
 	type outcome struct {
 		v   T
 		err error
@@ -27,14 +49,15 @@ func compute[T any](ctx context.Context, s *server, rename func(string) string, 
 	go func() {
 		defer func() {
 			if r := recover(); r != nil {
-				slog.Error("panic in the engine", "panic", fmt.Sprint(r), "stack", string(debug.Stack()))
+				slog.Error("panic in the engine", "panic", fmt.Sprint(r), "stack", string(debug.Stack()),
+					"request_id", RequestID(ctx))
 				done <- outcome{err: errEnginePanic}
 			}
 		}()
+		runHook(&testHookCompute, ctx)
 		v, err := f(ctx)
 		done <- outcome{v, err}
 	}()
-	var zero T
 	select {
 	case o := <-done:
 		if o.err != nil {
@@ -59,8 +82,9 @@ var problemKinds = map[plume.Kind]problemKind{
 
 // problemFromError maps an engine error to a problem: a recovered panic or
 // a domain error of kind KindInternal -> 500 (a bug: no input may cause
-// one), a domain error -> its kind's problem with its fields, a passed
-// deadline -> 503, anything else -> 422 with the engine's message.
+// one), a domain error -> its kind's problem with its fields, an ended
+// request context -> the problem of why it ended (see endedProblem),
+// anything else -> 422 with the engine's message.
 func (s *server) problemFromError(ctx context.Context, err error, rename func(string) string) *Problem {
 	if rename == nil {
 		rename = func(f string) string { return f }
@@ -69,14 +93,12 @@ func (s *server) problemFromError(ctx context.Context, err error, rename func(st
 	switch {
 	case errors.Is(err, errEnginePanic) || isDomain && e.Kind == plume.KindInternal:
 		if isDomain {
-			slog.Error("engine error", "error", err.Error())
+			slog.Error("engine error", "error", err.Error(), "request_id", RequestID(ctx))
 		}
 		return newProblem(kindInternal, "the server could not complete the request")
 	case isDomain:
 	case errors.Is(err, context.DeadlineExceeded) || errors.Is(err, context.Canceled) || ctx.Err() != nil:
-		return newProblem(kindTimeout, fmt.Sprintf(
-			"the computation did not finish within the per-request deadline of %s; ask for fewer receptors, times or methods (numeric is the slowest)",
-			s.cfg.RequestTimeout))
+		return s.endedProblem(ctx)
 	default:
 		return newProblem(kindInvalid, "the scenario could not be screened: "+err.Error())
 	}
@@ -96,4 +118,21 @@ func (s *server) problemFromError(ctx context.Context, err error, rename func(st
 		k = invalidKind(fps)
 	}
 	return newProblem(k, detail, fps...)
+}
+
+// endedProblem says why the request's context ended: the server is
+// shutting down (503, short Retry-After: another replica can answer), the
+// client went away (499: nobody reads it, it is for the log and the
+// metrics), or the per-request deadline passed (503).
+func (s *server) endedProblem(ctx context.Context) *Problem {
+	cause := context.Cause(ctx)
+	switch {
+	case errors.Is(cause, ErrShuttingDown):
+		return newProblem(kindShuttingDown, "the server is shutting down and cancelled this computation; retry, another instance will answer")
+	case errors.Is(cause, context.Canceled):
+		return newProblem(kindClientGone, "the client closed the connection before the answer was ready")
+	}
+	return newProblem(kindTimeout, fmt.Sprintf(
+		"the request did not finish within the per-request deadline of %s; ask for fewer receptors, times or methods (numeric is the slowest)",
+		s.cfg.RequestTimeout))
 }

@@ -1,31 +1,34 @@
 package api
 
 import (
-	"net/http"
+	"bytes"
 	"strings"
 
-	"github.com/labstack/echo/v4"
-
+	"downgradient/internal/crs"
 	"downgradient/plume"
 )
 
 // featureCollection is an RFC 7946 FeatureCollection of receptor points.
-// Coordinates are in the site frame and the request's length unit (by prior
-// arrangement, RFC 7946 section 4); units, engine, derived parameters and
-// caveats ride along as foreign members.
+// With the scenario's crs, coordinates are WGS 84 longitude/latitude and
+// the site coordinates are properties site_x, site_y; without one they are
+// in the site frame and the request's length unit (by prior arrangement,
+// RFC 7946 section 4), and coordinate_frame says so. type and features come
+// first (a GIS reader looks for them at the start); units, engine, derived
+// parameters and caveats ride along after them as foreign members.
 type featureCollection struct {
-	Type     string         `json:"type"`
-	Features []feature      `json:"features"`
-	Units    plume.Units    `json:"units"`
-	Engine   plume.Engine   `json:"engine"`
-	Derived  plume.Derived  `json:"derived"`
-	Caveats  []plume.Caveat `json:"caveats"`
+	Type            string         `json:"type"`
+	Features        []feature      `json:"features"`
+	CoordinateFrame string         `json:"coordinate_frame"`
+	Units           plume.Units    `json:"units"`
+	Engine          plume.Engine   `json:"engine"`
+	Derived         plume.Derived  `json:"derived"`
+	Caveats         []plume.Caveat `json:"caveats"`
 }
 
 type feature struct {
 	Type       string            `json:"type"`
 	ID         string            `json:"id"`
-	Geometry   pointGeometry     `json:"geometry"`
+	Geometry   *pointGeometry    `json:"geometry"`
 	Properties receptorFeatProps `json:"properties"`
 }
 
@@ -38,6 +41,8 @@ type pointGeometry struct {
 // GIS tools show as attribute columns; the full series is kept as an array.
 type receptorFeatProps struct {
 	ID                    string              `json:"id"`
+	SiteX                 float64             `json:"site_x"`
+	SiteY                 float64             `json:"site_y"`
 	Status                plume.Status        `json:"status"`
 	CaveatCodes           string              `json:"caveat_codes"`
 	Z                     float64             `json:"z"`
@@ -54,23 +59,73 @@ type receptorFeatProps struct {
 	FirstExceedanceTime   *float64            `json:"first_exceedance_time"`
 	ExceedsScreeningLevel *bool               `json:"exceeds_screening_level"`
 	ScreeningLevel        *float64            `json:"screening_level"`
+	AllowableSteady       *float64            `json:"allowable_source_concentration_steady"`
+	AllowableWithinTimes  *float64            `json:"allowable_source_concentration_within_times"`
+	DAFSteady             *float64            `json:"dilution_attenuation_factor_steady"`
+	DAFWithinTimes        *float64            `json:"dilution_attenuation_factor_within_times"`
 	DomenicoDeviation     *float64            `json:"domenico_deviation"`
 	Series                []plume.SeriesPoint `json:"series"`
+	// flat holds one attribute per requested time and method, named with
+	// the units, after the fields above (see flatColumns).
+	flat []flatColumn
+}
+
+// flatColumn is one attribute column of a feature.
+type flatColumn struct {
+	name  string
+	value *float64
+}
+
+// MarshalJSON writes the fields, then the flat columns in order.
+func (p receptorFeatProps) MarshalJSON() ([]byte, error) {
+	type plain receptorFeatProps
+	b, err := marshalJSON(plain(p))
+	if err != nil {
+		return nil, err
+	}
+	b = bytes.TrimRight(b, "\n")
+	var buf bytes.Buffer
+	buf.Write(b[:len(b)-1])
+	for _, c := range p.flat {
+		v := []byte("null")
+		if c.value != nil {
+			v = []byte(formatNumber(*c.value))
+		}
+		buf.WriteString(`,"` + c.name + `":`)
+		buf.Write(v)
+	}
+	buf.WriteByte('}')
+	return buf.Bytes(), nil
+}
+
+// flatColumns are a receptor's values as columns a GIS shows: one per
+// method and requested time, then the steady state, each named
+// <method>_t<time><time unit>_<concentration unit> (e.g.
+// exact_t3650d_mg_L; a decimal point is written p: t182p5d).
+func flatColumns(rr plume.ReceptorResult, u plume.Units) []flatColumn {
+	cu := strings.NewReplacer("/", "_").Replace(u.Concentration)
+	var out []flatColumn
+	for _, m := range plume.AllMethods {
+		for _, sp := range rr.Series {
+			if v := plume.MethodValue(m, sp.Exact, sp.Domenico, sp.Numeric); v != nil {
+				t := strings.ReplaceAll(formatNumber(sp.Time), ".", "p")
+				out = append(out, flatColumn{name: m + "_t" + t + u.Time + "_" + cu, value: v})
+			}
+		}
+		ss := rr.SteadyState
+		if v := plume.MethodValue(m, ss.Exact, ss.Domenico, ss.Numeric); v != nil {
+			out = append(out, flatColumn{name: m + "_steady_" + cu, value: v})
+		}
+	}
+	return out
 }
 
 func buildGeoJSON(sc plume.Scenario, res *plume.Result) featureCollection {
 	fc := featureCollection{Type: "FeatureCollection", Features: make([]feature, 0, len(res.Receptors)),
 		Units: res.Units, Engine: res.Engine, Derived: res.Derived, Caveats: res.Caveats}
-	for i, rr := range res.Receptors {
-		var xy [2]float64
-		if i < len(sc.Receptors) {
-			if p := sc.Receptors[i].X; p != nil {
-				xy[0] = *p
-			}
-			if p := sc.Receptors[i].Y; p != nil {
-				xy[1] = *p
-			}
-		}
+	toLonLat := geoFrame(res.CRS, res.Units, &fc.CoordinateFrame)
+	for _, rr := range res.Receptors {
+		geom := toLonLat(rr.X, rr.Y)
 		series := rr.Series
 		if series == nil {
 			series = []plume.SeriesPoint{}
@@ -78,9 +133,9 @@ func buildGeoJSON(sc plume.Scenario, res *plume.Result) featureCollection {
 		fc.Features = append(fc.Features, feature{
 			Type:     "Feature",
 			ID:       rr.ID,
-			Geometry: pointGeometry{Type: "Point", Coordinates: xy},
+			Geometry: geom,
 			Properties: receptorFeatProps{
-				ID: rr.ID, Status: rr.Status, CaveatCodes: strings.Join(res.CaveatCodes(rr.ID), ";"),
+				ID: rr.ID, SiteX: rr.X, SiteY: rr.Y, Status: rr.Status, flat: flatColumns(rr, res.Units), CaveatCodes: strings.Join(res.CaveatCodes(rr.ID), ";"),
 				Z: rr.Z, ScreenTop: rr.ScreenTop, ScreenBottom: rr.ScreenBottom, ScreeningLevel: res.Derived.ScreeningLevel,
 				PlumeX: rr.PlumeX, PlumeY: rr.PlumeY,
 				SteadyExact: rr.SteadyState.Exact, SteadyDomenico: rr.SteadyState.Domenico, SteadyNumeric: rr.SteadyState.Numeric,
@@ -89,10 +144,36 @@ func buildGeoJSON(sc plume.Scenario, res *plume.Result) featureCollection {
 				DomenicoDeviation: rr.DomenicoDeviation, Series: series,
 			},
 		})
+		last := &fc.Features[len(fc.Features)-1].Properties
+		if a := rr.AllowableSourceConcentration; a != nil {
+			last.AllowableSteady, last.AllowableWithinTimes = a.SteadyState, a.WithinTimes
+		}
+		if a := rr.DilutionAttenuationFactor; a != nil {
+			last.DAFSteady, last.DAFWithinTimes = a.SteadyState, a.WithinTimes
+		}
 	}
 	return fc
 }
 
-func writeGeoJSON(c echo.Context, sc plume.Scenario, res *plume.Result) error {
-	return writeJSON(c, http.StatusOK, mimeGeoJSON, buildGeoJSON(sc, res))
+// geoFrame returns the map from site coordinates to a GeoJSON point: WGS
+// 84 longitude/latitude through the CRS when there is one (a point outside
+// the projection gets a null geometry), else the site coordinates
+// themselves; frame is set to the words that say which.
+func geoFrame(code string, u plume.Units, frame *string) func(x, y float64) *pointGeometry {
+	if code != "" {
+		if fr, err := crs.Open(code); err == nil {
+			*frame = "WGS 84 longitude/latitude (RFC 7946), projected from the site frame " + code + "; site coordinates in properties site_x, site_y"
+			return func(x, y float64) *pointGeometry {
+				lon, lat, err := fr.ToLonLat(x, y)
+				if err != nil {
+					return nil
+				}
+				return &pointGeometry{Type: "Point", Coordinates: [2]float64{lon, lat}}
+			}
+		}
+	}
+	*frame = "site frame in " + u.Length + " (no crs given): coordinates are not WGS 84 longitude/latitude; load the layer with the site's own CRS"
+	return func(x, y float64) *pointGeometry {
+		return &pointGeometry{Type: "Point", Coordinates: [2]float64{x, y}}
+	}
 }

@@ -1,12 +1,12 @@
 package api
 
 import (
+	"context"
+	"errors"
 	"net/http"
 	"runtime"
 	"sync/atomic"
 	"time"
-
-	"github.com/labstack/echo/v4"
 )
 
 // Defaults of the bound on concurrent computing requests.
@@ -16,8 +16,6 @@ const (
 	DefaultMaxWaiting = 64
 	// DefaultWaitTimeout is the default longest wait for a slot before 503.
 	DefaultWaitTimeout = 5 * time.Second
-	// retryAfterBusy is the Retry-After, seconds, of a 503 for a full server.
-	retryAfterBusy = "1"
 )
 
 // DefaultMaxHeavy is the default number of computing requests run at once:
@@ -25,25 +23,22 @@ const (
 // slots add memory but no throughput).
 func DefaultMaxHeavy() int { return max(2, runtime.GOMAXPROCS(0)) }
 
-// lightRoutes are the routes that compute nothing and are never queued.
-var lightRoutes = map[string]bool{
-	"/healthz": true, "/metrics": true, "/openapi.yaml": true, "/openapi.json": true, "/v1/contaminants": true,
-}
-
 // kindBusy is the problem of a request refused because every computation
 // slot is taken and the waiting line is full (or the wait too long).
 var kindBusy = problemKind{"server-busy", "Server busy", http.StatusServiceUnavailable}
 
 // limiter bounds the computing requests: at most cap(slots) run at once and
-// at most maxWaiting wait, each for at most wait. Memory therefore stays
-// bounded whatever the load: a request's body is read only once it holds a
-// slot, and each slot's work is bounded by the body and workload limits.
+// at most maxWaiting wait, each for at most wait. A request takes its slot
+// in compute, after its body has been read and decoded (so a slow client
+// holds no slot), and keeps it until its answer is written (bounded by the
+// write timeout, so a client that stops reading loses it). Memory
+// therefore stays bounded whatever the load: each slot's work and output
+// are bounded by the body, workload and output limits.
 type limiter struct {
 	slots      chan struct{}
 	waiting    atomic.Int64
 	maxWaiting int64
 	wait       time.Duration
-	maxBody    int64
 	m          *metrics
 }
 
@@ -52,48 +47,53 @@ func newLimiter(cfg Config, m *metrics) *limiter {
 		slots:      make(chan struct{}, cfg.MaxHeavy),
 		maxWaiting: int64(cfg.MaxWaiting),
 		wait:       cfg.WaitTimeout,
-		maxBody:    cfg.MaxBodyBytes,
 		m:          m,
 	}
 }
 
-// middleware caps every request body at MaxBodyBytes (whatever route reads
-// it) and makes computing requests hold a slot while they run.
-func (l *limiter) middleware(next echo.HandlerFunc) echo.HandlerFunc {
-	return func(c echo.Context) error {
-		req := c.Request()
-		if req.Body != nil && req.Body != http.NoBody {
-			req.Body = http.MaxBytesReader(c.Response(), req.Body, l.maxBody)
-		}
-		route := c.Path()
-		if lightRoutes[route] || !l.m.routes[route] {
-			return next(c)
-		}
-		if !l.acquire(req) {
-			l.m.heavyReject.Inc()
-			return l.busy(c)
-		}
-		l.m.heavyActive.Inc()
-		defer func() {
-			l.m.heavyActive.Dec()
-			<-l.slots
-		}()
-		return next(c)
+// take gives the request of ctx a computation slot unless it holds one
+// already; the request's scope frees it once the answer is written. The
+// error is errBusy (every slot busy, the line full or the wait too long)
+// or the context's when the request ended while it waited.
+func (l *limiter) take(ctx context.Context) error {
+	sc := scopeOf(ctx)
+	if sc != nil && sc.holdsSlot() {
+		return nil
 	}
+	if err := l.acquire(ctx); err != nil {
+		if errors.Is(err, errBusy) {
+			l.m.heavyReject.Inc()
+		}
+		return err
+	}
+	l.m.heavyActive.Inc()
+	release := func() {
+		l.m.heavyActive.Dec()
+		<-l.slots
+	}
+	if sc == nil { // no scope (cannot happen behind the middleware): never leak the slot
+		context.AfterFunc(ctx, release)
+		return nil
+	}
+	sc.holdSlot(release)
+	return nil
 }
 
+// errBusy is the refusal of a request when every slot is busy and the
+// waiting line is full or the wait too long.
+var errBusy = errors.New("every computation slot is busy")
+
 // acquire takes a slot at once if one is free, else waits in line (when
-// the line is not full) until one frees, the wait times out or the client
-// goes away.
-func (l *limiter) acquire(req *http.Request) bool {
+// the line is not full) until one frees, the wait times out or ctx ends.
+func (l *limiter) acquire(ctx context.Context) error {
 	select {
 	case l.slots <- struct{}{}:
-		return true
+		return nil
 	default:
 	}
 	if l.waiting.Add(1) > l.maxWaiting {
 		l.waiting.Add(-1)
-		return false
+		return errBusy
 	}
 	l.m.heavyWaiting.Inc()
 	defer func() {
@@ -104,22 +104,10 @@ func (l *limiter) acquire(req *http.Request) bool {
 	defer t.Stop()
 	select {
 	case l.slots <- struct{}{}:
-		return true
+		return nil
 	case <-t.C:
-		return false
-	case <-req.Context().Done():
-		return false
+		return errBusy
+	case <-ctx.Done():
+		return ctx.Err()
 	}
-}
-
-// busy answers 503 problem+json with a short Retry-After.
-func (l *limiter) busy(c echo.Context) error {
-	p := newProblem(kindBusy, "every computation slot is busy and the waiting line is full; retry after the number of seconds in Retry-After")
-	p.Instance = c.Request().URL.Path
-	body, err := marshalJSON(p)
-	if err != nil {
-		return p
-	}
-	c.Response().Header().Set("Retry-After", retryAfterBusy)
-	return c.Blob(p.Status, "application/problem+json", body)
 }

@@ -18,8 +18,8 @@ func TestDeadlineStopsWork(t *testing.T) {
 	demo := demoMap(t)
 	bigClosed := demoMap(t)
 	bigClosed["receptors"] = manyReceptors(4000)
-	bigClosed["times"] = manyTimes(100)
-	bigClosed["methods"] = []any{"exact", "domenico"} // 4000 x 101 x 2 = 808,000 evaluations
+	bigClosed["times"] = manyTimes(50)
+	bigClosed["methods"] = []any{"exact", "domenico"} // 4000 x 51 x 2 = 408,000 evaluations
 	numericOnly := demoMap(t)
 	numericOnly["methods"] = []any{"numeric"}
 	numericOnly["times"] = []any{365, 1825, 3650, 7300}

@@ -2,11 +2,14 @@ package api
 
 import (
 	"bytes"
+	"context"
 	"io"
 	"net/http"
 	"net/http/httptest"
 	"strconv"
 	"strings"
+	"sync"
+	"sync/atomic"
 	"testing"
 	"time"
 
@@ -95,12 +98,30 @@ func TestNumericCellBudget(t *testing.T) {
 	}
 }
 
-// blockedRequest is a screening whose body arrives only when release is
-// closed: it holds a computation slot meanwhile (the slot is taken before
-// the body is read).
+// setHook sets a test hook of the engine path for the rest of the test.
+func setHook(t *testing.T, h *atomic.Pointer[func(context.Context)], f func(context.Context)) {
+	t.Helper()
+	h.Store(&f)
+	t.Cleanup(func() { h.Store(nil) })
+}
+
+// blockedRequest is a screening whose computation waits, holding its
+// computation slot, until release is called (or its deadline passes).
 func blockedRequest(t *testing.T, ts *testServer, body []byte) (release func(), done <-chan *httptest.ResponseRecorder) {
-	pr, pw := io.Pipe()
-	req := httptest.NewRequest(http.MethodPost, "/v1/screenings", pr)
+	gate := make(chan struct{})
+	var first atomic.Bool
+	setHook(t, &testHookCompute, func(ctx context.Context) {
+		if first.CompareAndSwap(false, true) {
+			select {
+			case <-gate:
+			case <-ctx.Done():
+			}
+		}
+	})
+	var once sync.Once
+	release = func() { once.Do(func() { close(gate) }) }
+	t.Cleanup(release)
+	req := httptest.NewRequest(http.MethodPost, "/v1/screenings", bytes.NewReader(body))
 	req.Header.Set("Content-Type", "application/json")
 	ch := make(chan *httptest.ResponseRecorder, 1)
 	go func() {
@@ -108,12 +129,7 @@ func blockedRequest(t *testing.T, ts *testServer, body []byte) (release func(), 
 		ts.e.ServeHTTP(rec, req)
 		ch <- rec
 	}()
-	return func() {
-		go func() {
-			_, _ = pw.Write(body)
-			_ = pw.Close()
-		}()
-	}, ch
+	return release, ch
 }
 
 // waitInFlight polls until the in-flight gauge of the handler reaches want.
@@ -170,25 +186,28 @@ func TestConcurrencyLimitWaits(t *testing.T) {
 	if waited := time.Since(start); waited < 50*time.Millisecond {
 		t.Errorf("refused after %v, before the 50 ms wait", waited)
 	}
-	// A waiter gets the slot as soon as it frees.
-	ts2 := newTestServer(t, Config{MaxHeavy: 1, MaxWaiting: 4, WaitTimeout: 10 * time.Second})
-	release2, done2 := blockedRequest(t, ts2, demoBody(t))
-	waitInFlight(t, ts2, 1)
+	release()
+	<-done
+}
+
+// A waiter gets the slot as soon as it frees.
+func TestConcurrencyLimitWaiterServed(t *testing.T) {
+	ts := newTestServer(t, Config{MaxHeavy: 1, MaxWaiting: 4, WaitTimeout: 10 * time.Second})
+	release, done := blockedRequest(t, ts, demoBody(t))
+	waitInFlight(t, ts, 1)
 	got := make(chan int, 1)
 	go func() {
 		req := httptest.NewRequest(http.MethodPost, "/v1/screenings", bytes.NewReader(demoBody(t)))
 		req.Header.Set("Content-Type", "application/json")
 		r := httptest.NewRecorder()
-		ts2.e.ServeHTTP(r, req)
+		ts.e.ServeHTTP(r, req)
 		got <- r.Code
 	}()
 	time.Sleep(20 * time.Millisecond)
-	release2()
+	release()
 	if c := <-got; c != 200 {
 		t.Errorf("waiter: %d", c)
 	}
-	<-done2
-	release()
 	<-done
 }
 

@@ -5,9 +5,9 @@ import (
 	"context"
 	"encoding/csv"
 	"fmt"
-	"net/http"
 
 	"github.com/labstack/echo/v4"
+	"github.com/paulmach/orb"
 	"github.com/paulmach/orb/geojson"
 
 	"downgradient/plume"
@@ -32,23 +32,45 @@ func (s *server) plumeMaps(c echo.Context) error {
 	if p := decodeBody(body, &mb, true); p != nil {
 		return p
 	}
+	if p := mb.Scenario.checkFreeText(); p != nil {
+		return p.under("scenario")
+	}
 	ctx := c.Request().Context()
 	if err := plume.CheckWorkload(mb.Scenario.Scenario, s.cfg.MaxEvaluations); err != nil {
 		return s.problemFromError(ctx, err, func(f string) string { return "scenario." + f })
 	}
-	mp, p := compute(ctx, s, nil, func(ctx context.Context) (*maps.Map, error) {
-		return maps.PlumeMap(ctx, mb.Scenario.Scenario, mb.MapOptions, s.engineOptions())
+	if p := s.checkOutput(mapSize(mb.MapOptions, format), mapMedia[format], mapReduce...); p != nil {
+		return p
+	}
+	r, p := compute(ctx, s, nil, func(ctx context.Context) (*reply, error) {
+		mp, err := maps.PlumeMap(ctx, mb.Scenario.Scenario, mb.MapOptions, s.engineOptions())
+		if err != nil {
+			return nil, err
+		}
+		return s.encodeMap(ctx, format, mp, mapSize(mb.MapOptions, format))
 	})
 	if p != nil {
 		return p
 	}
+	return s.send(c, r)
+}
+
+// mapReduce are the fields that make a map's answer large.
+var mapReduce = []string{"cells", "levels"}
+
+// mapMedia names the media type of each map format, for messages.
+var mapMedia = map[string]string{"grid": "application/json", "csv": "text/csv", "geojson": "application/geo+json"}
+
+// encodeMap encodes a map in format within the output budget.
+func (s *server) encodeMap(ctx context.Context, format string, mp *maps.Map, hint float64) (*reply, error) {
+	runHook(&testHookEncode, ctx)
 	switch format {
 	case "grid":
-		return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, gridDocument(mp))
+		return s.encodeJSON(gridDocument(mp), echo.MIMEApplicationJSON, hint, mapReduce...)
 	case "csv":
-		return c.Blob(http.StatusOK, mimeCSV+"; charset=utf-8", gridCSV(mp))
+		return s.capBytes(&reply{contentType: mimeCSV + "; charset=utf-8", body: gridCSV(mp)}, mapReduce...)
 	}
-	return writeJSON(c, http.StatusOK, mimeGeoJSON, outlineCollection(mp))
+	return s.encodeJSON(newOutlineCollection(mp), mimeGeoJSON, hint, mapReduce...)
 }
 
 // negotiateMap picks geojson (default; also for application/json), grid or
@@ -103,28 +125,73 @@ func infoOf(mp *maps.Map) gridInfo {
 }
 
 // outlineCollection is the GeoJSON answer: one MultiPolygon feature per
-// level, with the map's context as foreign members.
-func outlineCollection(mp *maps.Map) *geojson.FeatureCollectionOf[outlineProps] {
-	fc := &geojson.FeatureCollectionOf[outlineProps]{Type: "FeatureCollection"}
+// level, type and features first (a GIS reader looks for them at the start
+// of the document), the map's context after them as foreign members. A
+// plan view of a scenario with a crs is in WGS 84 longitude/latitude.
+type outlineCollection struct {
+	Type              string                             `json:"type"`
+	Features          []*geojson.FeatureOf[outlineProps] `json:"features"`
+	CoordinateFrame   string                             `json:"coordinate_frame"`
+	Engine            plume.Engine                       `json:"engine"`
+	Units             plume.Units                        `json:"units"`
+	View              string                             `json:"view"`
+	Time              maps.MapTime                       `json:"time"`
+	Depth             float64                            `json:"depth"`
+	DepthBottom       *float64                           `json:"depth_bottom"`
+	Method            string                             `json:"method"`
+	Levels            []float64                          `json:"levels"`
+	Grid              gridInfo                           `json:"grid"`
+	SteadyPlumeLength *maps.PlumeLength                  `json:"steady_plume_length"`
+	Derived           plume.Derived                      `json:"derived"`
+	Caveats           []plume.Caveat                     `json:"caveats"`
+}
+
+func newOutlineCollection(mp *maps.Map) *outlineCollection {
+	fc := &outlineCollection{Type: "FeatureCollection", Features: []*geojson.FeatureOf[outlineProps]{},
+		Engine: mp.Engine, Units: mp.Units, View: mp.View, Time: mp.Time, Depth: mp.Depth, DepthBottom: mp.DepthBottom,
+		Method: mp.Method, Levels: mp.Levels, Grid: infoOf(mp), SteadyPlumeLength: mp.SteadyPlumeLength,
+		Derived: mp.Derived, Caveats: mp.Caveats}
+	project := outlineFrame(mp, &fc.CoordinateFrame)
 	for i, o := range mp.Outlines {
 		fc.Features = append(fc.Features, &geojson.FeatureOf[outlineProps]{
 			Type:     "Feature",
 			ID:       fmt.Sprintf("level-%d", i+1),
-			Geometry: o.Geometry,
+			Geometry: project(o.Geometry),
 			Properties: outlineProps{Level: o.Level, Area: o.Area, Length: o.Length, Width: o.Width,
 				Perimeter: o.Perimeter, Reach: o.Reach, Polygons: len(o.Geometry)},
 		})
 	}
-	if fc.Features == nil {
-		fc.Features = []*geojson.FeatureOf[outlineProps]{}
-	}
-	fc.ExtraMembers = geojson.Properties{
-		"engine": mp.Engine, "units": mp.Units, "view": mp.View, "time": mp.Time,
-		"depth": mp.Depth, "depth_bottom": mp.DepthBottom, "method": mp.Method, "levels": mp.Levels,
-		"grid": infoOf(mp), "steady_plume_length": mp.SteadyPlumeLength,
-		"derived": mp.Derived, "caveats": mp.Caveats,
-	}
 	return fc
+}
+
+// outlineFrame returns the map from a map's outline coordinates to the
+// GeoJSON ones: WGS 84 longitude/latitude for a plan view with a crs, else
+// the map's own frame; frame says which.
+func outlineFrame(mp *maps.Map, frame *string) func(orb.MultiPolygon) orb.MultiPolygon {
+	same := func(g orb.MultiPolygon) orb.MultiPolygon { return g }
+	if mp.View == maps.ViewSection {
+		*frame = "vertical section: x is plume_x (along the flow from the source face) and y is depth below the water table, in " + mp.Units.Length
+		return same
+	}
+	toLonLat := geoFrame(mp.CRS, mp.Units, frame)
+	if mp.CRS == "" {
+		return same
+	}
+	return func(g orb.MultiPolygon) orb.MultiPolygon {
+		out := make(orb.MultiPolygon, len(g))
+		for i, poly := range g {
+			out[i] = make(orb.Polygon, len(poly))
+			for j, ring := range poly {
+				out[i][j] = make(orb.Ring, len(ring))
+				for k, pt := range ring {
+					if p := toLonLat(pt[0], pt[1]); p != nil {
+						out[i][j][k] = orb.Point{p.Coordinates[0], p.Coordinates[1]}
+					}
+				}
+			}
+		}
+		return out
+	}
 }
 
 // gridDoc is the ?format=grid answer.

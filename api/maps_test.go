@@ -151,3 +151,19 @@ func TestPlumeMapsBadInput(t *testing.T) {
 		})
 	}
 }
+
+// Issue 12, item 6: the extent of the issue (-1e308..1e308 in x and y)
+// answers 422 naming the extent in every format. Before, it answered 500
+// "could not be encoded" (GeoJSON, grid) and 200 with NaN rows (CSV).
+func TestPlumeMapsHugeExtent(t *testing.T) {
+	ts := newTestServer(t, Config{})
+	body := mustJSON(t, map[string]any{"scenario": demoMap(t), "time": 3650,
+		"extent": map[string]any{"x_min": -1e308, "x_max": 1e308, "y_min": -1e308, "y_max": 1e308}})
+	for _, format := range []string{"geojson", "grid", "csv"} {
+		rec := ts.call(t, http.MethodPost, "/v1/plume-maps?format="+format, body, nil)
+		p := problemOf(t, rec, http.StatusUnprocessableEntity)
+		if !hasField(p, "extent.x_max") || !hasField(p, "extent.y_max") {
+			t.Errorf("%s: %+v", format, p)
+		}
+	}
+}

@@ -24,6 +24,8 @@ type Problem struct {
 	Instance string `json:"instance,omitempty"`
 	// Every bad field, by JSON path (or query parameter name).
 	Errors []FieldProblem `json:"errors,omitempty"`
+	// Seconds of the Retry-After header; "" for none.
+	retryAfter string
 }
 
 // FieldProblem names one bad field and what is wrong with it.
@@ -50,22 +52,40 @@ type problemKind struct {
 	status int
 }
 
+// retryAfter is the Retry-After, seconds, of the 503 problem types: a
+// full server and a shutdown clear in a moment (another instance can
+// answer), a passed deadline means the request itself is too heavy.
+var retryAfter = map[string]string{"deadline-exceeded": "60", "server-busy": "1", "shutting-down": "1"}
+
 var (
-	kindMalformed   = problemKind{"malformed-request", "Malformed request", http.StatusBadRequest}
-	kindInvalid     = problemKind{"invalid-input", "Invalid input", http.StatusUnprocessableEntity}
-	kindMissing     = problemKind{"missing-input", "Required input missing", http.StatusUnprocessableEntity}
-	kindTooLarge    = problemKind{"too-large", "Request over the limits", http.StatusRequestEntityTooLarge}
-	kindTimeout     = problemKind{"deadline-exceeded", "Computation deadline exceeded", http.StatusServiceUnavailable}
-	kindNotFound    = problemKind{"not-found", "No such resource", http.StatusNotFound}
-	kindMethod      = problemKind{"method-not-allowed", "Method not allowed", http.StatusMethodNotAllowed}
-	kindMediaType   = problemKind{"unsupported-media-type", "Unsupported media type", http.StatusUnsupportedMediaType}
-	kindNotAccept   = problemKind{"not-acceptable", "No acceptable representation", http.StatusNotAcceptable}
-	kindInternal    = problemKind{"internal-error", "Internal error", http.StatusInternalServerError}
+	kindMalformed = problemKind{"malformed-request", "Malformed request", http.StatusBadRequest}
+	kindInvalid   = problemKind{"invalid-input", "Invalid input", http.StatusUnprocessableEntity}
+	kindMissing   = problemKind{"missing-input", "Required input missing", http.StatusUnprocessableEntity}
+	kindTooLarge  = problemKind{"too-large", "Request over the limits", http.StatusRequestEntityTooLarge}
+	kindTimeout   = problemKind{"deadline-exceeded", "Computation deadline exceeded", http.StatusServiceUnavailable}
+	kindNotFound  = problemKind{"not-found", "No such resource", http.StatusNotFound}
+	kindMethod    = problemKind{"method-not-allowed", "Method not allowed", http.StatusMethodNotAllowed}
+	kindMediaType = problemKind{"unsupported-media-type", "Unsupported media type", http.StatusUnsupportedMediaType}
+	kindNotAccept = problemKind{"not-acceptable", "No acceptable representation", http.StatusNotAcceptable}
+	kindInternal  = problemKind{"internal-error", "Internal error", http.StatusInternalServerError}
+	// The request's body did not arrive within the body timeout.
+	kindBodyTimeout = problemKind{"body-timeout", "Request body timeout", http.StatusRequestTimeout}
+	// The request line and headers are over the header limit.
+	kindHeaderTooLarge = problemKind{"header-too-large", "Request header fields too large", http.StatusRequestHeaderFieldsTooLarge}
+	// The server is shutting down: the computation was cancelled.
+	kindShuttingDown = problemKind{"shutting-down", "Server shutting down", http.StatusServiceUnavailable}
+	// The client closed the connection first (499, a common convention for
+	// logs; nobody receives it).
+	kindClientGone  = problemKind{"client-closed-request", "Client closed the request", statusClientClosed}
 	problemTypeBase = "/problems/"
 )
 
+// statusClientClosed is the status logged and counted for a request whose
+// client went away before its answer (common practice: 499).
+const statusClientClosed = 499
+
 func newProblem(k problemKind, detail string, errs ...FieldProblem) *Problem {
-	return &Problem{Type: problemTypeBase + k.slug, Title: k.title, Status: k.status, Detail: detail, Errors: errs}
+	return &Problem{Type: problemTypeBase + k.slug, Title: k.title, Status: k.status, Detail: detail, Errors: errs, retryAfter: retryAfter[k.slug]}
 }
 
 // writeProblem sends p as application/problem+json.
@@ -77,8 +97,11 @@ func writeProblem(c echo.Context, p *Problem) error {
 	if err != nil { // cannot happen: only strings and ints
 		body = []byte(`{"type":"/problems/internal-error","title":"Internal error","status":500,"detail":"could not encode the problem"}`)
 	}
-	if p.Status == http.StatusServiceUnavailable {
-		c.Response().Header().Set("Retry-After", "60")
+	switch {
+	case p.retryAfter != "":
+		c.Response().Header().Set("Retry-After", p.retryAfter)
+	case p.Status == http.StatusServiceUnavailable:
+		c.Response().Header().Set("Retry-After", retryAfter[kindTimeout.slug])
 	}
 	return c.Blob(p.Status, "application/problem+json", body)
 }

@@ -5,7 +5,6 @@ import (
 	"context"
 	_ "embed"
 	"html/template"
-	"net/http"
 	"strings"
 
 	"github.com/labstack/echo/v4"
@@ -63,17 +62,21 @@ func (s *server) reports(c echo.Context) error {
 	}
 	page, p := compute(ctx, s, rename, func(ctx context.Context) ([]byte, error) {
 		opts.compact = true
+		views, err := compoundViews(res)
+		if err != nil {
+			return nil, err
+		}
 		if opts.Time == nil {
-			opts.Time = peakMapTime(res)
+			opts.Time = peakMapTime(views[0].Res)
 			opts.atPeak = opts.Time != nil
 		}
-		needs := figureNeeds{breakthrough: reportPlotReceptors(res), profile: true, planMap: true, section: true,
+		needs := figureNeeds{breakthrough: plotReceptors(plotRows(views)), profile: true, planMap: true, section: true,
 			mapCells: reportMapCells, sectionCells: reportSectionCells, opts: opts, unc: rq.unc}
 		fi, err := s.computeFigures(ctx, sc, res, needs)
 		if err != nil {
 			return nil, err
 		}
-		rv, err := buildReport(rq.body, res, fi, opts)
+		rv, err := buildReport(rq.body, res, views, fi, opts)
 		if err != nil {
 			return nil, err
 		}
@@ -87,32 +90,14 @@ func (s *server) reports(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	c.Response().Header().Set("Content-Security-Policy", "default-src 'none'; style-src 'unsafe-inline'; img-src data:")
-	return c.Blob(http.StatusOK, "text/html; charset=utf-8", page)
-}
-
-// reportPlotReceptors are the receptors that get a breakthrough plot: in
-// the verdict table's order, modelled ones only, at most
-// maxReportReceptorPlots.
-func reportPlotReceptors(res *plume.Result) []int {
-	var out []int
-	for _, i := range receptorOrder(res) {
-		if res.Receptors[i].Status == plume.StatusUpgradient {
-			continue
-		}
-		if len(out) == maxReportReceptorPlots {
-			break
-		}
-		out = append(out, i)
-	}
-	return out
+	return s.send(c, &reply{contentType: "text/html; charset=utf-8", body: page, header: [][2]string{{headerCSP, contentPolicy}}})
 }
 
 // peakMapTime is the time of the memo's map and section when none was
 // asked for: when values peak and fall (a spill, a finite or depleting
 // source, whose steady state shows little or nothing), the time of the
-// peak at the first receptor of the results table; else nil, the steady
-// state.
+// peak at the first receptor of the results table (res: the first
+// compound, which the map shows); else nil, the steady state.
 func peakMapTime(res *plume.Result) *maps.MapTime {
 	for _, i := range receptorOrder(res) {
 		rr := res.Receptors[i]

@@ -5,8 +5,6 @@ import (
 	"math"
 	"sort"
 
-	"github.com/paulmach/orb"
-
 	"downgradient/plots"
 	"downgradient/plume"
 	"downgradient/plume/maps"
@@ -62,13 +60,15 @@ func markOf(rr plume.ReceptorResult, x, y float64) plots.Mark {
 	return m
 }
 
-// breakthroughData is the breakthrough plot of receptor i of res: the
-// closed forms as dense curves (dr: the receptor in a screening at
-// DenseTimes), the numeric values at the requested times as markers (from
-// res, when it ran), the first exceedance of the primary method.
-func breakthroughData(res *plume.Result, dr plume.ReceptorResult, i int, o figureOptions) plots.Breakthrough {
+// breakthroughData is the breakthrough plot of receptor i of the view v
+// (one compound): the closed forms as dense curves (dr: the receptor in a
+// screening at denseTimes, seen through the same compound), the numeric
+// values at the requested times as markers (when it ran), the first
+// exceedance of the primary method.
+func breakthroughData(v compoundView, dr plume.ReceptorResult, i int, o figureOptions) plots.Breakthrough {
+	res := v.Res
 	rr := res.Receptors[i]
-	b := plots.Breakthrough{Receptor: rr.ID, TimeUnit: res.Units.Time, ConcUnit: res.Units.Concentration,
+	b := plots.Breakthrough{Receptor: rr.ID, Compound: v.Name, TimeUnit: res.Units.Time, ConcUnit: res.Units.Concentration,
 		ScreeningLevel: res.Derived.ScreeningLevel, FirstExceedance: rr.FirstExceedanceTime, Scale: o.Scale,
 		Floor: res.Derived.ConcentrationFloor, Compact: o.compact}
 	if rr.Status == plume.StatusUpgradient {
@@ -97,9 +97,11 @@ func breakthroughData(res *plume.Result, dr plume.ReceptorResult, i int, o figur
 	return b
 }
 
-// profileData turns a centreline profile into plot data.
-func profileData(pr *maps.Profile, res *plume.Result, o figureOptions) plots.Profile {
-	p := plots.Profile{LengthUnit: res.Units.Length, ConcUnit: res.Units.Concentration, Depth: pr.Depth,
+// profileData turns a centreline profile into plot data (the profile of
+// the scenario's first compound, v).
+func profileData(pr *maps.Profile, v compoundView, o figureOptions) plots.Profile {
+	res := v.Res
+	p := plots.Profile{LengthUnit: res.Units.Length, ConcUnit: res.Units.Concentration, Depth: pr.Depth, Compound: v.Name,
 		ScreeningLevel: pr.ScreeningLevel, Labels: o.Labels, Floor: res.Derived.ConcentrationFloor}
 	for _, c := range pr.Curves {
 		label := "steady state"
@@ -124,10 +126,10 @@ func whenText(t maps.MapTime, timeUnit string) string {
 	return fmt.Sprintf("%s %s after the release began", plots.FormatNumber(t.Value), timeUnit)
 }
 
-// mapData turns a plan-view map into plot data: the outlines, the source
-// face and zone (one source width upgradient of the face, the convention of
-// the receptor_inside_source caveat) and the receptors by outcome.
-func mapData(mp *maps.Map, res *plume.Result, o figureOptions) plots.PlanMap {
+// mapData turns a plan-view map into plot data: the outlines, every
+// source's face and zone, and the receptors by outcome (the map and v are
+// of the scenario's first compound).
+func mapData(mp *maps.Map, v compoundView, sc plume.Scenario, o figureOptions) plots.PlanMap {
 	u := mp.Units
 	depth := fmt.Sprintf("%s %s below the water table", plots.FormatNumber(mp.Depth), u.Length)
 	if mp.Depth == 0 {
@@ -138,23 +140,15 @@ func mapData(mp *maps.Map, res *plume.Result, o figureOptions) plots.PlanMap {
 	}
 	g := mp.Grid
 	pm := plots.PlanMap{
-		Title:      fmt.Sprintf("Plume %s, %s (%s solution)", whenText(mp.Time, u.Time), depth, mp.Method),
+		Title:      compoundTitle(v.Name, fmt.Sprintf("Plume %s, %s (%s solution)", whenText(mp.Time, u.Time), depth, mp.Method)),
 		LengthUnit: u.Length, ConcUnit: u.Concentration, Labels: o.Labels,
 		XMin: g.X0, XMax: g.X(g.NX - 1), YMin: g.Y0, YMax: g.Y(g.NY - 1),
 		FlowAzimuthDeg: mp.Frame.AzimuthDeg,
 		Outlines:       sortedOutlines(mp),
-	}
-	site := func(px, py float64) orb.Point {
-		x, y := mp.Frame.ToSite(px, py)
-		return orb.Point{x, y}
-	}
-	w := mp.SourceWidth
-	pm.SourceFace = [2]orb.Point{site(0, -w/2), site(0, w/2)}
-	if w > 0 {
-		pm.SourceZone = orb.Ring{site(0, -w/2), site(0, w/2), site(-w, w/2), site(-w, -w/2), site(0, -w/2)}
+		Sources:        sourceShapes(sc),
 	}
 	for i, r := range mp.Receptors {
-		pm.Receptors = append(pm.Receptors, markOf(res.Receptors[i], r.X, r.Y))
+		pm.Receptors = append(pm.Receptors, markOf(v.Res.Receptors[i], r.X, r.Y))
 	}
 	return pm
 }
@@ -184,16 +178,16 @@ func sectionCorridor(mp *maps.Map) float64 {
 
 // sectionData turns a vertical section map into plot data: the receptors
 // within sectionCorridor of the axis, screens as bars.
-func sectionData(mp *maps.Map, res *plume.Result, sc plume.Scenario, o figureOptions) plots.Section {
-	u, g := mp.Units, mp.Grid
+func sectionData(mp *maps.Map, v compoundView, sc plume.Scenario, o figureOptions) plots.Section {
+	u, g, res := mp.Units, mp.Grid, v.Res
 	s := plots.Section{
-		Title:      fmt.Sprintf("Section along the plume axis %s (%s solution)", whenText(mp.Time, u.Time), mp.Method),
+		Title:      compoundTitle(v.Name, fmt.Sprintf("Section along the plume axis %s (%s solution)", whenText(mp.Time, u.Time), mp.Method)),
 		LengthUnit: u.Length, ConcUnit: u.Concentration, Labels: o.Labels,
 		Outlines: sortedOutlines(mp),
 		XMin:     g.X0, XMax: g.X(g.NX - 1), DepthMax: g.Y(g.NY - 1),
 	}
-	if res.Derived.SourceKind == plume.SourceKind3D && sc.Source.Depth != nil {
-		s.SourceDepth = *sc.Source.Depth
+	if src := sc.PrimarySource(); res.Derived.SourceKind == plume.SourceKind3D && src.Depth != nil {
+		s.SourceDepth = *src.Depth
 	}
 	corridor := sectionCorridor(mp)
 	for _, rr := range res.Receptors {

@@ -47,15 +47,35 @@ var sourceKeys = []string{
 	"source.x", "source.y", "source.flow_azimuth_deg", "source.concentration", "source.width",
 	"source.depth", "source.start", "source.duration", "source.half_life", "source.mass",
 	"source.release_depth", "source.inlet", "receptors", "times",
+	// Several compounds or sources: one text for all of them.
+	"contaminants", "sources",
 }
 
 // inputTable builds the input table of a scenario and its derived values;
 // sources are the request's sources_of_values.
 func inputTable(sc plume.Scenario, d plume.Derived, u plume.Units, sources map[string]string) []inputGroup {
-	groups := []inputGroup{
-		{Name: "Aquifer", Rows: aquiferRows(sc.Aquifer, d, u)},
-		{Name: "Contaminant", Rows: contaminantRows(sc.Contaminant, d, u)},
-		{Name: "Source", Rows: sourceRows(sc.Source, d, u)},
+	groups := []inputGroup{{Name: "Aquifer", Rows: aquiferRows(sc.Aquifer, d, u)}}
+	if len(d.Compounds) == 0 {
+		groups = append(groups, inputGroup{Name: "Contaminant", Rows: contaminantRows(sc.Contaminant, d, u)})
+	}
+	for i, cd := range d.Compounds {
+		if i < len(sc.Contaminants) {
+			groups = append(groups, inputGroup{Name: "Compound " + cd.Name, Rows: compoundRows(sc.Contaminants[i], cd, u)})
+		}
+	}
+	if len(sc.Sources) == 0 {
+		groups = append(groups, inputGroup{Name: "Source", Rows: sourceRows(sc.Source, d, u)})
+	}
+	for i, src := range sc.Sources {
+		rows := sourceRows(src, d, u)
+		for k := range rows {
+			rows[k].key = "sources"
+		}
+		name := src.ID
+		if name == "" {
+			name = fmt.Sprintf("S%d", i+1)
+		}
+		groups = append(groups, inputGroup{Name: "Source " + name, Rows: rows})
 	}
 	for gi := range groups {
 		for ri := range groups[gi].Rows {
@@ -225,6 +245,70 @@ func contaminantRows(k plume.Contaminant, d plume.Derived, u plume.Units) []inpu
 			continue
 		}
 		rows = append(rows, fromTable(inputRow{Name: lv.name, Value: fmtReportNumber(*lv.v), Unit: C, Basis: basisGiven, key: lv.key}))
+	}
+	return rows
+}
+
+// compoundRows are one compound's values of a scenario of several
+// (contaminants[]), all keyed "contaminants" for sources_of_values.
+func compoundRows(k plume.Constituent, cd plume.CompoundDerived, u plume.Units) []inputRow {
+	T, C := u.Time, u.Concentration
+	table := map[string]bool{}
+	for _, p := range cd.FromReferenceTable {
+		table[p[strings.LastIndex(p, ".")+1:]] = true
+	}
+	basis := func(field string, given bool) (string, string) {
+		switch {
+		case given:
+			return basisGiven, ""
+		case table[field]:
+			return basisTable, "entry " + cd.ReferenceCompound
+		}
+		return basisDerived, ""
+	}
+	rows := []inputRow{{Name: "Source concentration", Value: fmtReportNumber(cd.SourceConcentration), Unit: C, Basis: basisGiven}}
+	if cd.Koc != nil {
+		b, how := basis("koc", k.Koc != nil)
+		rows = append(rows, inputRow{Name: "Koc", Value: fmtReportNumber(*cd.Koc), Unit: "L/kg", Basis: b, How: how})
+	}
+	r := inputRow{Name: "Retardation factor", Value: fmtReportNumber(cd.Retardation), Unit: "–", Basis: basisGiven}
+	if cd.RetardationSource != plume.OriginGiven {
+		r.Basis, r.How = basisDerived, "linear sorption: R = 1 + ρb Koc foc / n_e"
+	}
+	rows = append(rows, r)
+	hl := inputRow{Name: "Half-life", Value: "none", Unit: T, Basis: basisDefault, How: "no decay"}
+	if cd.HalfLife != nil {
+		b, how := basis("half_life", k.HalfLife != nil)
+		hl = inputRow{Name: "Half-life", Value: fmtReportNumber(*cd.HalfLife), Unit: T, Basis: b, How: how}
+	}
+	rows = append(rows, hl)
+	if cd.DecaysTo != "" {
+		dt := inputRow{Name: "Decays to", Value: cd.DecaysTo, Basis: basisGiven}
+		if cd.Yield != nil {
+			dt.How = "yield " + fmtReportNumber(*cd.Yield)
+			if cd.YieldSource != plume.OriginGiven {
+				dt.How += " (ratio of molar masses)"
+			}
+		}
+		rows = append(rows, dt)
+	}
+	for _, lv := range []struct {
+		name, field, none string
+		v                 *float64
+		given             bool
+	}{
+		{"Screening level", "screening_level", "none given or found: nothing is compared", cd.ScreeningLevel, k.ScreeningLevel != nil},
+		{"Aqueous solubility", "solubility", "unknown", cd.Solubility, k.Solubility != nil},
+	} {
+		if lv.v == nil {
+			rows = append(rows, inputRow{Name: lv.name, Value: "none", Unit: C, Basis: basisDefault, How: lv.none})
+			continue
+		}
+		b, how := basis(lv.field, lv.given)
+		rows = append(rows, inputRow{Name: lv.name, Value: fmtReportNumber(*lv.v), Unit: C, Basis: b, How: how})
+	}
+	for i := range rows {
+		rows[i].key = "contaminants"
 	}
 	return rows
 }

@@ -355,3 +355,71 @@ func TestReportSourceKinds(t *testing.T) {
 		}
 	}
 }
+
+// A scenario of several compounds gets a row per receptor and compound
+// with a compound column, a breakthrough plot per row and an input group
+// per compound; one of several sources gets a group per source.
+func TestReportCompoundsAndSources(t *testing.T) {
+	ts := newTestServer(t, Config{})
+	read := func(name string) map[string]any {
+		b, err := os.ReadFile("../testdata/demo/" + name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var m map[string]any
+		if err := json.Unmarshal(b, &m); err != nil {
+			t.Fatal(err)
+		}
+		return m
+	}
+	dc := read("dry-cleaner.json")
+	dc["methods"] = []any{"exact"} // the closed forms only: quick
+	page := report(t, ts, "", mustJSON(t, dc))
+	rows := tableRows(t, page, "data results")
+	compounds, receptors := len(dc["contaminants"].([]any)), len(dc["receptors"].([]any))
+	if len(rows) != compounds*receptors || !strings.Contains(page, ">Compound</th>") {
+		t.Errorf("%d rows for %d compounds x %d receptors, or no compound column", len(rows), compounds, receptors)
+	}
+	for _, c := range dc["contaminants"].([]any) {
+		if name := c.(map[string]any)["name"].(string); !strings.Contains(page, "Compound "+html.EscapeString(name)) {
+			t.Errorf("no input group for %s", name)
+		}
+	}
+	if !strings.Contains(page, "PCE: plume") {
+		t.Error("the map does not name the compound it shows")
+	}
+	sb := read("sources-and-brook.json")
+	page = report(t, ts, "", mustJSON(t, sb))
+	for _, src := range sb["sources"].([]any) {
+		if id := src.(map[string]any)["id"].(string); !strings.Contains(page, "Source "+id) {
+			t.Errorf("no input group for source %s", id)
+		}
+	}
+}
+
+// /v1/plots names the compound of a breakthrough plot of several.
+func TestPlotCompound(t *testing.T) {
+	ts := newTestServer(t, Config{})
+	b, err := os.ReadFile("../testdata/demo/dry-cleaner.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var dc map[string]any
+	if err := json.Unmarshal(b, &dc); err != nil {
+		t.Fatal(err)
+	}
+	dc["methods"] = []any{"exact"}
+	body := mustJSON(t, dc)
+	rec := ts.call(t, http.MethodPost, "/v1/plots?kind=breakthrough&receptor=MW-3&compound=pce", body, nil)
+	if rec.Code != http.StatusOK || !strings.Contains(rec.Body.String(), "PCE at MW-3") {
+		t.Errorf("%d %.300s", rec.Code, rec.Body.String())
+	}
+	p := problemOf(t, ts.call(t, http.MethodPost, "/v1/plots?kind=breakthrough&compound=benzene", body, nil), http.StatusUnprocessableEntity)
+	if !hasField(p, "compound") {
+		t.Errorf("%+v", p.Errors)
+	}
+	p = problemOf(t, ts.call(t, http.MethodPost, "/v1/plots?kind=breakthrough&compound=benzene", demoBody(t), nil), http.StatusUnprocessableEntity)
+	if !hasField(p, "compound") {
+		t.Errorf("one compound: %+v", p.Errors)
+	}
+}

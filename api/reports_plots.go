@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"net/http"
 	"strconv"
 	"strings"
 
@@ -91,7 +90,11 @@ func (s *server) plotsHandler(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	ri, p := receptorParam(c, res)
+	views, err := compoundViews(res)
+	if err != nil {
+		return s.problemFromError(c.Request().Context(), err, nil)
+	}
+	ri, ci, p := plotTarget(c, views)
 	if p != nil {
 		return p
 	}
@@ -104,7 +107,7 @@ func (s *server) plotsHandler(c echo.Context) error {
 		if err != nil {
 			return nil, err
 		}
-		f, err := fi.figure(kind, ri, sc, opts)
+		f, err := fi.figure(kind, views, plotRow{ri, ci}, sc, opts)
 		if err != nil {
 			return nil, err
 		}
@@ -114,40 +117,72 @@ func (s *server) plotsHandler(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	ct := mimeSVG
+	r := &reply{contentType: mimeSVG, body: img, header: [][2]string{{headerCSP, contentPolicy}}}
 	if format == plots.PNG {
-		ct = mimePNG
+		r = &reply{contentType: mimePNG, body: img}
 	}
-	return c.Blob(http.StatusOK, ct, img)
+	return s.send(c, r)
 }
 
-// receptorParam is the index of the receptor the query names, or the first
-// of receptorOrder (exceeding, highest peak) when it names none.
-func receptorParam(c echo.Context, res *plume.Result) (int, *Problem) {
-	id := c.QueryParam("receptor")
-	if id == "" {
-		return receptorOrder(res)[0], nil
-	}
-	for i, rr := range res.Receptors {
-		if rr.ID == id {
-			return i, nil
+// plotTarget is the receptor (index of the screening) and the compound
+// (index of views) the query names: receptor by id, compound by name
+// (a scenario of several compounds); what is not named is the first of
+// the results table's order (reaching the level, highest peak).
+func plotTarget(c echo.Context, views []compoundView) (int, int, *Problem) {
+	ri, ci := -1, -1
+	if id := c.QueryParam("receptor"); id != "" {
+		for i, rr := range views[0].Res.Receptors {
+			if rr.ID == id {
+				ri = i
+				break
+			}
+		}
+		if ri < 0 {
+			return -1, -1, newProblem(kindInvalid, "no receptor has this id",
+				FieldProblem{Field: "receptor", Message: fmt.Sprintf("no receptor has the id %q", id)})
 		}
 	}
-	return -1, newProblem(kindInvalid, "no receptor has this id",
-		FieldProblem{Field: "receptor", Message: fmt.Sprintf("no receptor has the id %q", id)})
+	if name := c.QueryParam("compound"); name != "" {
+		var names []string
+		for i, v := range views {
+			names = append(names, fmt.Sprintf("%q", v.Name))
+			if v.Name != "" && strings.EqualFold(v.Name, name) {
+				ci = i
+			}
+		}
+		if ci < 0 {
+			msg := "the scenario has one compound: leave compound out"
+			if len(views) > 1 {
+				msg = fmt.Sprintf("names no compound of the scenario: %q (one of %s)", name, strings.Join(names, ", "))
+			}
+			return -1, -1, newProblem(kindInvalid, "no compound has this name", FieldProblem{Field: "compound", Message: msg})
+		}
+	}
+	for _, row := range append(plotRows(views), plotRow{0, 0}) {
+		if (ri < 0 || row.receptor == ri) && (ci < 0 || row.compound == ci) {
+			return row.receptor, row.compound, nil
+		}
+	}
+	return max(ri, 0), max(ci, 0), nil
 }
 
-// figure builds one figure.
-func (fi *figureInputs) figure(kind string, receptor int, sc plume.Scenario, o figureOptions) (*plots.Figure, error) {
+// figure builds one figure: a breakthrough plot of one receptor and
+// compound, or the profile, map or section of the first compound.
+func (fi *figureInputs) figure(kind string, views []compoundView, at plotRow, sc plume.Scenario, o figureOptions) (*plots.Figure, error) {
 	switch kind {
 	case kindBreakthrough:
-		return plots.BreakthroughFigure(breakthroughData(fi.res, fi.dense.Receptors[fi.denseIndex[receptor]], receptor, o))
+		v := views[at.compound]
+		dense, err := focusOn(fi.dense, v.Name)
+		if err != nil {
+			return nil, err
+		}
+		return plots.BreakthroughFigure(breakthroughData(v, dense.Receptors[fi.denseIndex[at.receptor]], at.receptor, o))
 	case kindProfile:
-		return plots.ProfileFigure(profileData(fi.profile, fi.res, o))
+		return plots.ProfileFigure(profileData(fi.profile, views[0], o))
 	case kindMap:
-		return plots.MapFigure(mapData(fi.planMap, fi.res, o))
+		return plots.MapFigure(mapData(fi.planMap, views[0], sc, o))
 	case kindSection:
-		return plots.SectionFigure(sectionData(fi.section, fi.res, sc, o))
+		return plots.SectionFigure(sectionData(fi.section, views[0], sc, o))
 	}
 	return nil, plume.Invalid("kind", "must be breakthrough, profile, map or section")
 }

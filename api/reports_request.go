@@ -60,13 +60,13 @@ func (s *server) decodeReportRequest(c echo.Context) (*reportRequest, *Problem) 
 		if p != nil {
 			return nil, p
 		}
-		return &reportRequest{body: sb, unc: &req, rename: renameOutside("realizations", "seed", "methods")}, nil
+		return &reportRequest{body: sb, unc: &req, rename: renameOutside("realizations", "seed", "methods", "compound")}, nil
 	}
 	if p := s.checkReportShape(c, body, "Scenario", "/v1/reports"); p != nil {
 		return nil, p
 	}
-	var sb scenarioBody
-	if p := decodeBody(body, &sb, true); p != nil {
+	sb, p := decodeScenarioBody(body)
+	if p != nil {
 		return nil, p
 	}
 	return &reportRequest{body: sb}, nil

@@ -28,12 +28,15 @@ type verdictTable struct {
 	ShowPeak bool
 	// ShowCompound adds a compound column (several compounds).
 	ShowCompound bool
-	Rows         []verdictRow
+	// ShowMethod adds a method column: the compounds' values come from
+	// different methods (a daughter only the finite-volume chain gives).
+	ShowMethod bool
+	Rows       []verdictRow
 }
 
 // verdictRow is one receptor's line.
 type verdictRow struct {
-	ID, Compound           string
+	ID, Compound, Method   string
 	X, Y, Depth, AlongFlow string
 	// One cell per shown time, then the steady state and the peak.
 	Values           []valueCell
@@ -104,10 +107,17 @@ func shownTimes(n int) []int {
 	return idx
 }
 
-// buildVerdict assembles the verdict table; caveatNo gives the numbers of
-// each receptor's own caveats in the caveat list.
-func buildVerdict(sc plume.Scenario, res *plume.Result, caveatNo map[string][]int) verdictTable {
-	vt := verdictTable{Method: primaryMethod(methodsRan(res))}
+// buildVerdict assembles the verdict table: a row per receptor, or per
+// receptor and compound for a scenario of several (views); caveatNo gives
+// the numbers of each receptor's own caveats in the caveat list.
+func buildVerdict(sc plume.Scenario, views []compoundView, caveatNo map[string][]int) verdictTable {
+	var vt verdictTable
+	methods := make([]string, len(views))
+	for k, v := range views {
+		methods[k] = primaryMethod(methodsRan(v.Res))
+		vt.ShowMethod = vt.ShowMethod || methods[k] != methods[0]
+	}
+	vt.Method, vt.ShowCompound = methods[0], len(views) > 1
 	vt.MethodName = methodNames[vt.Method]
 	times := shownTimes(len(sc.Times))
 	for _, i := range times {
@@ -121,14 +131,22 @@ func buildVerdict(sc plume.Scenario, res *plume.Result, caveatNo map[string][]in
 		xs[i], ys[i] = *r.X, *r.Y
 	}
 	dx, dy := coordDecimals(xs), coordDecimals(ys)
-	for i, rr := range res.Receptors {
-		if rr.Peak.Time != nil {
-			vt.ShowPeak = true
+	for k, v := range views {
+		for i, rr := range v.Res.Receptors {
+			if rr.Peak.Time != nil {
+				vt.ShowPeak = true
+			}
+			row := verdictRowOf(rr, v.Res.Derived.ScreeningLevel, methods[k], times)
+			row.Compound, row.Method = v.Name, methodNames[methods[k]]
+			row.X, row.Y = fmtCoord(xs[i], dx), fmtCoord(ys[i], dy)
+			nos := append(append([]int(nil), caveatNo[caveatKey(rr.ID, "")]...), caveatNo[caveatKey(rr.ID, v.Name)]...)
+			if v.Name == "" {
+				nos = caveatNo[caveatKey(rr.ID, "")]
+			}
+			sort.Ints(nos)
+			row.Caveats = joinInts(nos)
+			vt.Rows = append(vt.Rows, row)
 		}
-		row := verdictRowOf(rr, res.Derived.ScreeningLevel, vt.Method, times)
-		row.X, row.Y = fmtCoord(xs[i], dx), fmtCoord(ys[i], dy)
-		row.Caveats = joinInts(caveatNo[rr.ID])
-		vt.Rows = append(vt.Rows, row)
 	}
 	sortVerdict(vt.Rows)
 	return vt

@@ -84,7 +84,7 @@ type numberedCaveat struct {
 }
 
 // buildReport assembles the page's content.
-func buildReport(sb scenarioBody, res *plume.Result, fi *figureInputs, o figureOptions) (*reportView, error) {
+func buildReport(sb scenarioBody, res *plume.Result, views []compoundView, fi *figureInputs, o figureOptions) (*reportView, error) {
 	sc := sb.Scenario
 	u := res.Units
 	rv := &reportView{Style: template.CSS(reportStyle), Engine: res.Engine, Units: u, Caution: plume.ScreeningCaution,
@@ -101,7 +101,7 @@ func buildReport(sb scenarioBody, res *plume.Result, fi *figureInputs, o figureO
 	}
 	rv.Memo = memoFields(sb.Memo)
 	caveatNo := rv.addCaveats(res, fi)
-	rv.Verdict = buildVerdict(sc, res, caveatNo)
+	rv.Verdict = buildVerdict(sc, views, caveatNo)
 	rv.Inputs = inputTable(sc, res.Derived, u, sb.SourcesOfValues)
 	rv.Model = modelRows(res.Derived, u)
 	rv.Receptors = receptorInputs(sc, res)
@@ -121,7 +121,7 @@ func buildReport(sb scenarioBody, res *plume.Result, fi *figureInputs, o figureO
 	if fi.unc != nil {
 		rv.Uncertainty = buildUncertainty(fi.unc, res, inputNames(rv.Inputs))
 	}
-	if err := rv.addFigures(res, fi, sc, o); err != nil {
+	if err := rv.addFigures(views, fi, sc, o); err != nil {
 		return nil, err
 	}
 	return rv, nil
@@ -144,7 +144,8 @@ func memoFields(m *memoHeader) []memoField {
 
 // addCaveats numbers the screening's caveats, then those of the
 // uncertainty run that the screening has not already given (same code and
-// receptor), and returns the numbers of each receptor's own caveats.
+// receptor), and returns the numbers of each receptor's own caveats by
+// caveatKey (receptor and compound; "" for those of every compound).
 func (rv *reportView) addCaveats(res *plume.Result, fi *figureInputs) map[string][]int {
 	byReceptor := map[string][]int{}
 	add := func(cv plume.Caveat, run string) {
@@ -152,7 +153,8 @@ func (rv *reportView) addCaveats(res *plume.Result, fi *figureInputs) map[string
 		rv.Caveats = append(rv.Caveats, numberedCaveat{Caveat: cv, No: n, Run: run})
 		rv.Counts[cv.Severity]++
 		if cv.ReceptorID != "" {
-			byReceptor[cv.ReceptorID] = append(byReceptor[cv.ReceptorID], n)
+			k := caveatKey(cv.ReceptorID, cv.Compound)
+			byReceptor[k] = append(byReceptor[k], n)
 		}
 	}
 	seen := map[[2]string]bool{}
@@ -170,6 +172,9 @@ func (rv *reportView) addCaveats(res *plume.Result, fi *figureInputs) map[string
 	}
 	return byReceptor
 }
+
+// caveatKey keys a receptor's caveats about one compound ("": all).
+func caveatKey(receptor, compound string) string { return receptor + "\x00" + compound }
 
 // receptorInputs lists the receptors as given.
 func receptorInputs(sc plume.Scenario, res *plume.Result) []receptorInputRow {
@@ -220,13 +225,14 @@ func methodsInWords(ran []string, res *plume.Result, fi *figureInputs) []string 
 	return out
 }
 
-// addFigures renders the map, the section, the profile and the
-// breakthrough plots.
-func (rv *reportView) addFigures(res *plume.Result, fi *figureInputs, sc plume.Scenario, o figureOptions) error {
+// addFigures renders the map, the section and the profile (of the first
+// compound) and the breakthrough plots (plotRows).
+func (rv *reportView) addFigures(views []compoundView, fi *figureInputs, sc plume.Scenario, o figureOptions) error {
+	res := views[0].Res
 	L, C := res.Units.Length, res.Units.Concentration
 	fg := &rv.Figures
 	var err error
-	if fg.MapSVG, err = renderInline(plots.MapFigure(mapData(fi.planMap, res, o))); err != nil {
+	if fg.MapSVG, err = renderInline(plots.MapFigure(mapData(fi.planMap, views[0], sc, o))); err != nil {
 		return err
 	}
 	mp := fi.planMap
@@ -234,27 +240,48 @@ func (rv *reportView) addFigures(res *plume.Result, fi *figureInputs, sc plume.S
 	if o.atPeak {
 		fg.When += " (the time of the peak at the first receptor of the results table; the steady state of this source shows little)"
 	}
+	if views[0].Name != "" {
+		fg.When += fmt.Sprintf(", for %s, the first of the scenario's compounds", views[0].Name)
+	}
 	fg.MapNote = fmt.Sprintf("Grid of %d × %d nodes, %s %s apart; %s solution.", mp.Grid.NX, mp.Grid.NY,
 		fmtReportNumber(mp.Grid.DX), L, mp.Method)
 	rv.PlumeLength = plumeLengthText(mp, L, C)
-	if fg.SectionSVG, err = renderInline(plots.SectionFigure(sectionData(fi.section, res, sc, o))); err != nil {
+	if fg.SectionSVG, err = renderInline(plots.SectionFigure(sectionData(fi.section, views[0], sc, o))); err != nil {
 		return err
 	}
 	fg.SectionNote = fmt.Sprintf("Receptors within %s %s of the plume axis are projected onto the section.",
 		fmtReportNumber(roundSig(sectionCorridor(fi.section), 3)), L)
-	if fg.ProfileSVG, err = renderInline(plots.ProfileFigure(profileData(fi.profile, res, o))); err != nil {
+	if fg.ProfileSVG, err = renderInline(plots.ProfileFigure(profileData(fi.profile, views[0], o))); err != nil {
 		return err
 	}
-	shown := reportPlotReceptors(res)
-	if n := len(res.Receptors); len(shown) < n {
-		fg.PlotNote = fmt.Sprintf("Breakthrough plots are shown for %d of the %d receptors: in the order of the results table, modelled receptors only.", len(shown), n)
+	return rv.addBreakthroughs(views, fi, o)
+}
+
+// addBreakthroughs renders a breakthrough plot per row of plotRows.
+func (rv *reportView) addBreakthroughs(views []compoundView, fi *figureInputs, o figureOptions) error {
+	rows := plotRows(views)
+	if n := len(views) * len(views[0].Res.Receptors); len(rows) < n {
+		what := "receptors"
+		if len(views) > 1 {
+			what = "receptor and compound rows"
+		}
+		rv.Figures.PlotNote = fmt.Sprintf("Breakthrough plots are shown for %d of the %d %s: in the order of the results table, modelled receptors only.", len(rows), n, what)
 	}
-	for _, i := range shown {
-		svg, err := renderCompact(plots.BreakthroughFigure(breakthroughData(res, fi.dense.Receptors[fi.denseIndex[i]], i, o)))
+	for _, row := range rows {
+		v := views[row.compound]
+		dense, err := focusOn(fi.dense, v.Name)
 		if err != nil {
 			return err
 		}
-		fg.Breakthru = append(fg.Breakthru, reportFigure{Caption: res.Receptors[i].ID, SVG: svg})
+		svg, err := renderCompact(plots.BreakthroughFigure(breakthroughData(v, dense.Receptors[fi.denseIndex[row.receptor]], row.receptor, o)))
+		if err != nil {
+			return err
+		}
+		caption := v.Res.Receptors[row.receptor].ID
+		if v.Name != "" {
+			caption = v.Name + " at " + caption
+		}
+		rv.Figures.Breakthru = append(rv.Figures.Breakthru, reportFigure{Caption: caption, SVG: svg})
 	}
 	return nil
 }

@@ -6,8 +6,10 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
-	"net/http"
+	"reflect"
+	"sort"
 	"strings"
+	"unicode"
 
 	"github.com/labstack/echo/v4"
 
@@ -15,8 +17,9 @@ import (
 )
 
 // screenings is POST /v1/screenings: decode the scenario (already checked
-// against the OpenAPI schema by the validator), screen it within the
-// per-request deadline, and encode the result as JSON, CSV or GeoJSON.
+// against the OpenAPI schema by the validator), check its workload and the
+// size of its answer, then screen it and encode the result as JSON, CSV or
+// GeoJSON within the request's deadline.
 func (s *server) screenings(c echo.Context) error {
 	format, p := negotiate(c)
 	if p != nil {
@@ -27,17 +30,43 @@ func (s *server) screenings(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	res, p := s.screen(c.Request().Context(), sc, nil)
+	ctx := c.Request().Context()
+	if err := plume.CheckWorkload(sc, s.cfg.MaxEvaluations); err != nil {
+		return s.problemFromError(ctx, err, nil)
+	}
+	if p := s.checkOutput(screeningSize(sc, format), formatName[format], "receptors", "times", "methods"); p != nil {
+		return p
+	}
+	r, p := compute(ctx, s, nil, func(ctx context.Context) (*reply, error) {
+		res, err := s.screenWork(ctx, sc)
+		if err != nil {
+			return nil, err
+		}
+		return s.encodeScreening(ctx, format, sc, res)
+	})
 	if p != nil {
 		return p
 	}
+	return s.send(c, r)
+}
+
+// encodeScreening encodes a screening result in format within the output
+// budget.
+func (s *server) encodeScreening(ctx context.Context, format outputFormat, sc plume.Scenario, res *plume.Result) (*reply, error) {
+	runHook(&testHookEncode, ctx)
+	hint := screeningSize(sc, format)
 	switch format {
 	case formatCSV:
-		return writeCSV(c, sc, res)
+		b, ok := encodeCSV(sc, res)
+		if !ok {
+			return nil, &plume.Error{Kind: plume.KindInternal, Detail: "the result could not be encoded"}
+		}
+		return s.capBytes(&reply{contentType: mimeCSV + "; charset=utf-8; header=present", body: b,
+			header: [][2]string{{"Content-Disposition", `inline; filename="screening.csv"`}}}, "receptors", "times", "methods")
 	case formatGeoJSON:
-		return writeGeoJSON(c, sc, res)
+		return s.encodeJSON(buildGeoJSON(sc, res), mimeGeoJSON, hint, "receptors", "times", "methods")
 	}
-	return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, res)
+	return s.encodeJSON(res, echo.MIMEApplicationJSON, hint, "receptors", "times", "methods")
 }
 
 // scenarioBody is the request body: a scenario plus the free text the
@@ -57,9 +86,49 @@ type scenarioBody struct {
 
 // decodeScenario decodes a body that has passed schema validation.
 func decodeScenario(body []byte) (plume.Scenario, *Problem) {
-	var sb scenarioBody
-	p := decodeBody(body, &sb, true)
+	sb, p := decodeScenarioBody(body)
 	return sb.Scenario, p
+}
+
+// decodeScenarioBody decodes a scenario body with its description.
+func decodeScenarioBody(body []byte) (scenarioBody, *Problem) {
+	var sb scenarioBody
+	if p := decodeBody(body, &sb, true); p != nil {
+		return sb, p
+	}
+	return sb, sb.checkFreeText()
+}
+
+// checkFreeText refuses control characters in the free text a report
+// prints: the description and the sources of values (tabs and line breaks
+// allowed), the memo header (one line each).
+func (sb scenarioBody) checkFreeText() *Problem {
+	var fe plume.FieldErrors
+	if sb.Description != nil {
+		fe.CheckText("description", *sb.Description, true)
+	}
+	if m := sb.Memo; m != nil {
+		for _, f := range []struct{ name, v string }{{"project", m.Project}, {"site", m.Site},
+			{"prepared_by", m.PreparedBy}, {"checked_by", m.CheckedBy}, {"date", m.Date}} {
+			fe.CheckText("memo."+f.name, f.v, false)
+		}
+	}
+	keys := make([]string, 0, len(sb.SourcesOfValues))
+	for k := range sb.SourcesOfValues {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		fe.CheckText("sources_of_values."+k, sb.SourcesOfValues[k], true)
+	}
+	if len(fe) == 0 {
+		return nil
+	}
+	fps := make([]FieldProblem, len(fe))
+	for i, e := range fe {
+		fps[i] = FieldProblem{Field: e.Field, Message: e.Message}
+	}
+	return newProblem(kindInvalid, "free text holds control characters", fps...)
 }
 
 // decodeBody is the one body decoder: it decodes a body that has passed
@@ -77,14 +146,31 @@ func decodeBody(body []byte, v any, strict bool) *Problem {
 	}
 	var ute *json.UnmarshalTypeError
 	if errors.As(err, &ute) {
+		field := jsonFieldPath(ute.Field)
 		if strings.HasPrefix(ute.Value, "number") {
-			return newProblem(kindInvalid, "a number is out of the range of a 64-bit float",
-				FieldProblem{Field: ute.Field, Message: "number out of range: " + ute.Value})
+			msg := "out of range: not a finite 64-bit floating-point number"
+			if k := ute.Type.Kind(); k >= reflect.Int && k <= reflect.Int64 {
+				msg = "out of range: not an integer the service can hold (see the field's maximum in GET /openapi.yaml)"
+			}
+			return newProblem(kindInvalid, "a number is out of range", FieldProblem{Field: field, Message: msg})
 		}
 		return newProblem(kindMalformed, "wrong JSON type",
-			FieldProblem{Field: ute.Field, Message: fmt.Sprintf("wrong type: must be %s, got %s", ute.Type, ute.Value)})
+			FieldProblem{Field: field, Message: fmt.Sprintf("wrong type: must be %s, got %s", ute.Type, ute.Value)})
 	}
 	return newProblem(kindMalformed, "the body does not decode: "+err.Error(), FieldProblem{Field: "", Message: err.Error()})
+}
+
+// jsonFieldPath turns encoding/json's path of a field into the request's
+// JSON path: the names of embedded Go structs (capitalised, like
+// "MapOptions" or "Scenario"; the API's names are snake_case) are dropped.
+func jsonFieldPath(goPath string) string {
+	var out []string
+	for _, seg := range strings.Split(goPath, ".") {
+		if seg != "" && !unicode.IsUpper(rune(seg[0])) {
+			out = append(out, seg)
+		}
+	}
+	return strings.Join(out, ".")
 }
 
 // screen checks the workload and runs plume.Screen through compute; rename
@@ -93,11 +179,17 @@ func (s *server) screen(ctx context.Context, sc plume.Scenario, rename func(stri
 	if err := plume.CheckWorkload(sc, s.cfg.MaxEvaluations); err != nil {
 		return nil, s.problemFromError(ctx, err, nil)
 	}
-	res, p := compute(ctx, s, rename, func(ctx context.Context) (*plume.Result, error) {
-		return plume.Screen(ctx, sc, s.engineOptions())
+	return compute(ctx, s, rename, func(ctx context.Context) (*plume.Result, error) {
+		return s.screenWork(ctx, sc)
 	})
-	if p != nil {
-		return nil, p
+}
+
+// screenWork screens sc (inside compute) and counts its numeric cells and
+// caveats.
+func (s *server) screenWork(ctx context.Context, sc plume.Scenario) (*plume.Result, error) {
+	res, err := plume.Screen(ctx, sc, s.engineOptions())
+	if err != nil {
+		return nil, err
 	}
 	s.metrics.observeResult(res)
 	return res, nil

@@ -89,7 +89,11 @@ func TestDemoCSV(t *testing.T) {
 			t.Fatal(err)
 		}
 		want := []string{"receptor_id", "x_m", "y_m", "z_m", "plume_x_m", "plume_y_m", "time_d", "method", "concentration_mg_per_L",
-			"status", "screening_level_mg_per_L", "above_screening_level", "caveat_codes", "engine_version", "input_sha256"}
+			"status", "screening_level_mg_per_L", "above_screening_level",
+			"allowable_source_concentration_steady_mg_per_L", "allowable_source_concentration_within_times_mg_per_L",
+			"dilution_attenuation_factor_steady", "dilution_attenuation_factor_within_times",
+			"allowable_scale_factor_steady", "allowable_scale_factor_within_times",
+			"caveat_codes", "engine_version", "input_sha256"}
 		if strings.Join(rows[0], ",") != strings.Join(want, ",") {
 			t.Errorf("header %v", rows[0])
 		}
@@ -277,7 +281,7 @@ func TestUnitConversionEndToEnd(t *testing.T) {
 		t.Fatalf("%d %s", rec.Code, rec.Body.String())
 	}
 	conv := decodeResult(t, rec.Body.Bytes())
-	if conv.Units != (plume.Units{Length: "ft", Time: "yr", Concentration: "ug/L", Conductivity: "ft/yr"}) {
+	if conv.Units != (plume.Units{Length: "ft", Time: "yr", Concentration: "ug/L", Conductivity: "ft/yr", MassDischarge: "kg/yr"}) {
 		t.Errorf("units not echoed: %+v", conv.Units)
 	}
 	rel := func(a, b float64) float64 {

@@ -3,7 +3,6 @@ package api
 import (
 	"context"
 	"fmt"
-	"net/http"
 
 	"github.com/labstack/echo/v4"
 
@@ -16,6 +15,7 @@ type uncertaintyBody struct {
 	Realizations *int     `json:"realizations"`
 	Seed         *uint64  `json:"seed"`
 	Methods      []string `json:"methods"`
+	Compound     string   `json:"compound"`
 }
 
 // uncertainty is POST /v1/uncertainty: the scenario's distribution objects
@@ -32,19 +32,22 @@ func (s *server) uncertainty(c echo.Context) error {
 		return p
 	}
 	ctx := c.Request().Context()
-	res, p := compute(ctx, s, renameOutside("realizations", "seed", "methods"), func(ctx context.Context) (*uncertainty.UncertaintyResult, error) {
-		return uncertainty.RunUncertainty(ctx, req, s.engineOptions())
+	sc := req.Template
+	size := uncertaintySize(sc, len(req.Methods), len(req.Parameters), format)
+	if p := s.checkOutput(size, formatName[format], uncertaintyReduce...); p != nil {
+		return p
+	}
+	r, p := compute(ctx, s, renameOutside("realizations", "seed", "methods", "compound"), func(ctx context.Context) (*reply, error) {
+		res, err := uncertainty.RunUncertainty(ctx, req, s.engineOptions())
+		if err != nil {
+			return nil, err
+		}
+		return s.encodeUncertainty(ctx, format, sc, res, size)
 	})
 	if p != nil {
 		return p
 	}
-	switch format {
-	case formatCSV:
-		return writeUncertaintyCSV(c, req.Template, res)
-	case formatGeoJSON:
-		return writeJSON(c, http.StatusOK, mimeGeoJSON, buildUncertaintyGeoJSON(req.Template, res))
-	}
-	return writeJSON(c, http.StatusOK, echo.MIMEApplicationJSON, res)
+	return s.send(c, r)
 }
 
 // uncertaintyRun decodes the /v1/uncertainty envelope of c (distribution
@@ -79,7 +82,7 @@ func (s *server) uncertaintyRun(c echo.Context) (uncertainty.UncertaintyRequest,
 		return req, sb, s.problemFromError(ctx, dt.notNumbers.Err(), scenarioField)
 	}
 	sc := sb.Scenario
-	req = uncertainty.UncertaintyRequest{Template: sc, Parameters: dt.params, Methods: ub.Methods}
+	req = uncertainty.UncertaintyRequest{Template: sc, Parameters: dt.params, Methods: ub.Methods, Compound: ub.Compound}
 	if len(req.Methods) == 0 {
 		// The scenario's own closed forms, else exact (numeric only when asked
 		// for at the top level).
@@ -102,4 +105,21 @@ func (s *server) uncertaintyRun(c echo.Context) (uncertainty.UncertaintyRequest,
 		return req, sb, s.problemFromError(ctx, err, nil)
 	}
 	return req, sb, nil
+}
+
+// uncertaintyReduce are the fields that make an uncertainty answer large.
+var uncertaintyReduce = []string{"scenario.receptors", "scenario.times", "methods"}
+
+// encodeUncertainty encodes an uncertainty result in format within the
+// output budget.
+func (s *server) encodeUncertainty(ctx context.Context, format outputFormat, sc plume.Scenario, res *uncertainty.UncertaintyResult, hint float64) (*reply, error) {
+	runHook(&testHookEncode, ctx)
+	switch format {
+	case formatCSV:
+		return s.capBytes(&reply{contentType: mimeCSV + "; charset=utf-8; header=present", body: encodeUncertaintyCSV(sc, res),
+			header: [][2]string{{"Content-Disposition", `inline; filename="uncertainty.csv"`}}}, uncertaintyReduce...)
+	case formatGeoJSON:
+		return s.encodeJSON(buildUncertaintyGeoJSON(sc, res), mimeGeoJSON, hint, uncertaintyReduce...)
+	}
+	return s.encodeJSON(res, echo.MIMEApplicationJSON, hint, uncertaintyReduce...)
 }

@@ -3,9 +3,6 @@ package api
 import (
 	"bytes"
 	"encoding/csv"
-	"net/http"
-
-	"github.com/labstack/echo/v4"
 
 	"downgradient/plume"
 	"downgradient/plume/uncertainty"
@@ -61,35 +58,33 @@ func encodeUncertaintyCSV(sc plume.Scenario, res *uncertainty.UncertaintyResult)
 	return buf.Bytes()
 }
 
-func writeUncertaintyCSV(c echo.Context, sc plume.Scenario, res *uncertainty.UncertaintyResult) error {
-	c.Response().Header().Set("Content-Disposition", `inline; filename="uncertainty.csv"`)
-	return c.Blob(http.StatusOK, mimeCSV+"; charset=utf-8; header=present", encodeUncertaintyCSV(sc, res))
-}
-
 // uncertaintyFeatureCollection is the GeoJSON form of an uncertainty result:
 // receptor points (site frame, request length unit) with the peak summary
 // and the top driver as flat properties; the run's settings ride along.
 type uncertaintyFeatureCollection struct {
-	Type         string                        `json:"type"`
-	Features     []uncertaintyFeature          `json:"features"`
-	Units        plume.Units                   `json:"units"`
-	Engine       plume.Engine                  `json:"engine"`
-	Realizations int                           `json:"realizations"`
-	Seed         uint64                        `json:"seed"`
-	Methods      []string                      `json:"methods"`
-	Parameters   []uncertainty.ParameterSample `json:"parameters"`
-	Caveats      []plume.Caveat                `json:"caveats"`
+	Type            string                        `json:"type"`
+	Features        []uncertaintyFeature          `json:"features"`
+	CoordinateFrame string                        `json:"coordinate_frame"`
+	Units           plume.Units                   `json:"units"`
+	Engine          plume.Engine                  `json:"engine"`
+	Realizations    int                           `json:"realizations"`
+	Seed            uint64                        `json:"seed"`
+	Methods         []string                      `json:"methods"`
+	Parameters      []uncertainty.ParameterSample `json:"parameters"`
+	Caveats         []plume.Caveat                `json:"caveats"`
 }
 
 type uncertaintyFeature struct {
 	Type       string                 `json:"type"`
 	ID         string                 `json:"id"`
-	Geometry   pointGeometry          `json:"geometry"`
+	Geometry   *pointGeometry         `json:"geometry"`
 	Properties uncertaintyFeatureProp `json:"properties"`
 }
 
 type uncertaintyFeatureProp struct {
 	ID                          string                         `json:"id"`
+	SiteX                       float64                        `json:"site_x"`
+	SiteY                       float64                        `json:"site_y"`
 	Z                           float64                        `json:"z"`
 	PlumeX                      float64                        `json:"plume_x"`
 	PlumeY                      float64                        `json:"plume_y"`
@@ -111,18 +106,15 @@ func buildUncertaintyGeoJSON(sc plume.Scenario, res *uncertainty.UncertaintyResu
 	fc := uncertaintyFeatureCollection{Type: "FeatureCollection", Features: make([]uncertaintyFeature, 0, len(res.Receptors)),
 		Units: res.Units, Engine: res.Engine, Realizations: res.Realizations, Seed: res.Seed, Methods: res.Methods,
 		Parameters: res.Parameters, Caveats: res.Caveats}
+	site := plume.SiteCoordinates(sc)
+	toGeo := geoFrame(sc.CRS, res.Units, &fc.CoordinateFrame)
 	for i, rr := range res.Receptors {
 		var xy [2]float64
-		if i < len(sc.Receptors) {
-			if p := sc.Receptors[i].X; p != nil {
-				xy[0] = *p
-			}
-			if p := sc.Receptors[i].Y; p != nil {
-				xy[1] = *p
-			}
+		if i < len(site) {
+			xy = site[i]
 		}
 		pk := rr.Peak
-		props := uncertaintyFeatureProp{ID: rr.ID, Z: rr.Z, PlumeX: rr.PlumeX, PlumeY: rr.PlumeY,
+		props := uncertaintyFeatureProp{ID: rr.ID, SiteX: xy[0], SiteY: xy[1], Z: rr.Z, PlumeX: rr.PlumeX, PlumeY: rr.PlumeY,
 			PeakMethod: pk.Method, PeakMean: pk.Mean, PeakP05: pk.Percentiles.P05, PeakP50: pk.Percentiles.P50, PeakP95: pk.Percentiles.P95,
 			PeakExceedanceProbability: pk.ExceedanceProbability, PeakExceedanceProbabilityCI: pk.ExceedanceProbabilityCI,
 			Series: rr.Series, SteadyState: rr.SteadyState, Drivers: rr.Drivers}
@@ -131,7 +123,7 @@ func buildUncertaintyGeoJSON(sc plume.Scenario, res *uncertainty.UncertaintyResu
 			props.TopDriverRankCorrelation = &rr.Drivers[0].RankCorrelation
 		}
 		fc.Features = append(fc.Features, uncertaintyFeature{Type: "Feature", ID: rr.ID,
-			Geometry: pointGeometry{Type: "Point", Coordinates: xy}, Properties: props})
+			Geometry: toGeo(xy[0], xy[1]), Properties: props})
 	}
 	return fc
 }

@@ -3,6 +3,9 @@ package api
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
+	"sort"
+	"strconv"
 	"strings"
 
 	"github.com/getkin/kin-openapi/openapi3"
@@ -18,14 +21,46 @@ import (
 // of the OpenAPI document and decode it, naming bad fields
 // "scenario.<path>".
 
-// decodeBodyTree decodes a body (already syntax-checked) as generic JSON.
+// decodeBodyTree decodes a body (already syntax-checked) as generic JSON,
+// numbers as float64; a number beyond float64 (1e400) is named by its path.
 func decodeBodyTree(body []byte) (map[string]any, *Problem) {
 	var m map[string]any
 	dec := json.NewDecoder(bytes.NewReader(body))
+	dec.UseNumber()
 	if err := dec.Decode(&m); err != nil || m == nil {
 		return nil, newProblem(kindMalformed, "the body must be a JSON object", FieldProblem{Field: "", Message: "not a JSON object"})
 	}
+	var bad []FieldProblem
+	for k, v := range m {
+		m[k] = floatTree(v, k, &bad)
+	}
+	if len(bad) > 0 {
+		sort.Slice(bad, func(i, j int) bool { return bad[i].Field < bad[j].Field })
+		return nil, newProblem(kindInvalid, "a number is out of range", bad...)
+	}
 	return m, nil
+}
+
+// floatTree replaces the json.Numbers of a decoded tree by float64s,
+// reporting each one out of float64's range against its path.
+func floatTree(v any, path string, bad *[]FieldProblem) any {
+	switch x := v.(type) {
+	case json.Number:
+		f, err := strconv.ParseFloat(x.String(), 64)
+		if err != nil {
+			*bad = append(*bad, FieldProblem{Field: path, Message: "out of range: not a finite 64-bit floating-point number"})
+		}
+		return f
+	case map[string]any:
+		for k, e := range x {
+			x[k] = floatTree(e, joinFieldPath(path, k), bad)
+		}
+	case []any:
+		for i, e := range x {
+			x[i] = floatTree(e, fmt.Sprintf("%s[%d]", path, i), bad)
+		}
+	}
+	return v
 }
 
 // scenarioTree returns the body's "scenario" member as an object.
@@ -63,8 +98,8 @@ func (s *server) decodeScenarioBodyTree(tree map[string]any) (scenarioBody, *Pro
 	if err != nil {
 		return scenarioBody{}, newProblem(kindMalformed, "the scenario could not be read: "+err.Error())
 	}
-	var sb scenarioBody
-	if p := decodeBody(b, &sb, true); p != nil {
+	sb, p := decodeScenarioBody(b)
+	if p != nil {
 		return sb, p.under("scenario")
 	}
 	return sb, nil

@@ -100,13 +100,12 @@ func (s *server) readJSONBody(c echo.Context) ([]byte, *Problem) {
 			return nil, newProblem(kindMediaType, fmt.Sprintf("the body must be application/json, got %q", ct))
 		}
 	}
-	body, err := io.ReadAll(http.MaxBytesReader(c.Response(), req.Body, s.cfg.MaxBodyBytes))
-	if err != nil {
-		var mbe *http.MaxBytesError
-		if errors.As(err, &mbe) {
-			return nil, newProblem(kindTooLarge, fmt.Sprintf("the body is over the limit of %d bytes", s.cfg.MaxBodyBytes))
-		}
-		return nil, newProblem(kindMalformed, "the body could not be read: "+err.Error())
+	if p := checkContentEncoding(req); p != nil {
+		return nil, p
+	}
+	body, p := s.readBody(c)
+	if p != nil {
+		return nil, p
 	}
 	if p := checkJSONSyntax(body); p != nil {
 		return nil, p

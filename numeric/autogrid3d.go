@@ -80,6 +80,7 @@ func designGrid3(p *Problem3D, scale float64) design3 {
 			xrMin = math.Min(xrMin, r.X)
 		}
 	}
+	xrMax = math.Max(xrMax, transectX(p.Transects))
 	tl, steady := lastFinite(p.Times)
 	front := math.Inf(1)
 	if !steady {

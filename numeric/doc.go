@@ -68,7 +68,19 @@
 //     depth Z, on the inflow face x = 0), solved on half the domain (y >= 0,
 //     symmetric about the plume axis) with no flux through the water table,
 //     on a structured non-uniform grid designed automatically from the
-//     dispersion coefficients, the source and the receptors.
+//     dispersion coefficients, the source and the receptors; or several
+//     such sources, each with its own position, size, strength and
+//     history, on one grid (Problem3D.Sources: one field per source over
+//     the cells downstream of its face, so the result is the superposition
+//     of the closed forms; the whole width when a source is off the axis);
+//     and the advective mass discharge through rectangles of planes across
+//     flow (Problem3D.Transects).
+//
+// Source histories (History): continuous, switched off after a duration,
+// declining exponentially at a fixed rate, or depleting by mass with the
+// power-law source function of Falta, Rao & Basu (2005); each time step
+// applies the mean source concentration over the step at the inlet (for a
+// source depleting by mass, exactly the mass it lost).
 //
 // Bounded work. Every count derived from the inputs (cells of each axis,
 // time steps, cell-steps) is computed in float64 and checked against a
@@ -85,12 +97,24 @@
 // Files: problem1d.go and problem3d.go hold the two problems (types,
 // validation, driver); column.go (with autogrid1d.go) and engine3d.go (with
 // autogrid3d.go, receptor.go) their discretizations; steady*.go the direct
-// steady solvers; march.go the time driver and its schedule, settle.go when
-// to stop marching, workbudget.go and errors.go the budgets and errors;
-// shared pieces: grid.go (axes, locate), graded.go (graded axes, counted
-// before built), tvd.go (advection), tridiag.go and lu.go (line solvers),
-// interp.go (interpolation of sampled values), times.go (output times),
-// check.go (input checks), history.go, budget.go (mass budget), report.go.
+// steady solvers; sources3d.go (with multi3.go, autogrid_sources.go)
+// several sources on one grid, discharge.go the transects; march.go the
+// time driver and its schedule, settle.go when to stop marching,
+// workbudget.go and errors.go the budgets and errors; shared pieces:
+// grid.go (axes, locate), graded.go (graded axes, counted before built),
+// tvd.go (advection), tridiag.go and lu.go (line solvers), interp.go
+// (interpolation of sampled values), times.go (output times), check.go
+// (input checks), history.go and powerlaw.go (source histories), budget.go
+// (mass budget), report.go.
+//
+// Decay chains (ScreenChain1D, ScreenChain3D): several species with their
+// own retardation factors and decay rates, a parent forming its daughter
+// with a mass yield, each transported by the steps above and coupled by an
+// exact reaction step in place of the decay step (see chain.go); every
+// species' budget, and the chain's, closes to round-off counting the mass
+// passed down the chain (SpeciesBudget.Produced). Measured orders against
+// the closed forms of the chain (three grids, dt ~ dx^2): 2.0-2.5 in 1D,
+// 2.0 in 3D. The steady state of a chain is not solved directly.
 //
 // The package imports nothing of the project; it depends on the standard
 // library and gonum only.

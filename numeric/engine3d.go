@@ -33,6 +33,11 @@ type grid3 struct {
 	hist    History
 	acc     budgetAcc
 	rec     []receptor3
+	// fullY: the y axis spans the whole width (a source off the plume
+	// axis, see sources3d.go) instead of the half y >= 0 mirrored about
+	// the axis.
+	fullY bool
+	tr    []Transect // transects, x relative to the field's face
 }
 
 func newGrid3(x, y, z Axis, v, dxc, dyc, dzc, r, mu, halfWidth, depth float64, hist History) *grid3 {

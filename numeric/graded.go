@@ -27,7 +27,8 @@ type gradedAxis struct {
 	bs                  []float64 // segment ends: 0, the break points inside (0, hi), hi
 	pts                 []refinePoint
 	hmax, growth, scale float64
-	cells               float64 // number of cells, sum over segments of ceil(integral of 1/h), >= 1 each
+	cells               float64   // number of cells, sum over segments of ceil(integral of 1/h), >= 1 each
+	segCells            []float64 // cells of each segment
 }
 
 func newGradedAxis(hi float64, breaks []float64, pts []refinePoint, hmax, growth, scale float64) gradedAxis {
@@ -43,9 +44,27 @@ func newGradedAxis(hi float64, breaks []float64, pts []refinePoint, hmax, growth
 	g.bs = append(g.bs, hi)
 	var xs, phi [gradedSamples + 1]float64
 	for s := 0; s+1 < len(g.bs); s++ {
-		g.cells += g.segment(s, xs[:], phi[:])
+		n := g.segment(s, xs[:], phi[:])
+		g.segCells = append(g.segCells, n)
+		g.cells += n
 	}
 	return g
+}
+
+// cellsFrom is the number of cells from the segment end nearest to x to
+// the end of the axis (x a break point: the cells downstream of it).
+func (g *gradedAxis) cellsFrom(x float64) float64 {
+	best := 0
+	for s := 1; s+1 < len(g.bs); s++ {
+		if math.Abs(g.bs[s]-x) < math.Abs(g.bs[best]-x) {
+			best = s
+		}
+	}
+	n := 0.0
+	for _, c := range g.segCells[best:] {
+		n += c
+	}
+	return n
 }
 
 func (g *gradedAxis) size(x float64) float64 {

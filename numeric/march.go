@@ -24,10 +24,13 @@ type model interface {
 // marchPlan says where to stop, how long a step may be and how much work
 // the stepping may cost.
 type marchPlan struct {
-	times      []float64 // ascending output times, >= 0; the last may be +Inf
-	switchOff  float64   // source switch-off time (+Inf: none); a step boundary
-	dtMax      float64   // largest step (Courant limit)
-	steadyZero bool      // the source switches off or depletes: the steady state is 0
+	times     []float64 // ascending output times, >= 0; the last may be +Inf
+	switchOff float64   // source switch-off time (+Inf: none); a step boundary
+	// breaks are further step boundaries (the switch-off times of the
+	// other sources of a run with several).
+	breaks     []float64
+	dtMax      float64 // largest step (Courant limit)
+	steadyZero bool    // the source switches off or depletes: the steady state is 0
 	// settled: output times at or after it are answered with the long-time
 	// limit (the steady state, or 0 when steadyZero) instead of time
 	// stepping, which would change nothing (see settleTime); +Inf: never.
@@ -65,6 +68,11 @@ func (p *marchPlan) schedule() ([]piece, error) {
 			end := target
 			if p.switchOff > t && p.switchOff < end {
 				end = p.switchOff
+			}
+			for _, b := range p.breaks {
+				if b > t && b < end {
+					end = b
+				}
 			}
 			limit := p.dtMax
 			if p.minSteps > 0 {

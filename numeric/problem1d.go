@@ -238,7 +238,7 @@ func (p *Problem1D) setup(axis Axis, minSteps float64) (*column, marchPlan, floa
 	}
 	plan := marchPlan{
 		times: p.Times, switchOff: p.History.switchOff(), dtMax: dtMax,
-		steadyZero: p.History.switchOff() < math.Inf(1) || p.History.Depletion > 0,
+		steadyZero: p.History.fades(),
 		settled:    math.Inf(1), minSteps: minSteps,
 		cells: float64(n), workBudget: orDefault(p.WorkBudget, DefaultWorkBudget1D), field: "Problem1D",
 	}

@@ -47,8 +47,22 @@ type Problem3D struct {
 	Refine     float64 // divides every automatic spacing (convergence studies), in (0, 1000]; 0: 1
 
 	// Grid, when X has faces, is used as given instead of the automatic
-	// design (all three axes start at 0; Y covers the half domain y >= 0).
+	// design (all three axes start at 0; Y covers the half domain y >= 0;
+	// with Sources see sources3d.go).
 	Grid *Grid3D
+
+	// Sources, when not empty, gives several source faces on one grid
+	// instead of the one source of Width, Depth and History (which must
+	// then be zero): each with its own position in the plume frame, size,
+	// strength and history, all in the aquifer above; the values are then
+	// C/C_ref, the sum of every source's Strength times its own C/Cs. See
+	// sources3d.go.
+	Sources []SourceFace
+
+	// Transects, when given, ask for the advective mass discharge through
+	// rectangles of planes x = const at every output time (see
+	// discharge.go); the automatic grid reaches every transect.
+	Transects []Transect
 }
 
 // Grid3D is an explicit structured grid.
@@ -67,10 +81,18 @@ type Result3D struct {
 	// SteadyBudget is the budget (in rates) of the steady state when one
 	// was asked for and the source is constant; nil otherwise.
 	SteadyBudget *SteadyBudget
+	// Discharge is V times the integral of C/C0 (C/C_ref with Sources)
+	// over transect q at output time k, Discharge[q][k], L^3/T: times the
+	// effective porosity and the source concentration, the advective mass
+	// discharge (see discharge.go). Nil without Transects.
+	Discharge [][]float64
 }
 
 func (p *Problem3D) validate() error {
 	const pre = "Problem3D."
+	if len(p.Sources) > 0 {
+		return p.validateSources()
+	}
 	for _, f := range []struct {
 		name string
 		v    float64
@@ -91,22 +113,14 @@ func (p *Problem3D) validate() error {
 	if err := validateReceptors(pre+"Receptors", p.Receptors); err != nil {
 		return err
 	}
-	if err := validateTimes(pre+"Times", p.Times); err != nil {
+	xEnd := math.Inf(1)
+	if p.Grid != nil && len(p.Grid.X.Faces) > 0 {
+		xEnd = p.Grid.X.Faces[len(p.Grid.X.Faces)-1]
+	}
+	if err := validateTransects(pre+"Transects", p.Transects, 0, xEnd); err != nil {
 		return err
 	}
-	if p.CellBudget < 0 {
-		return invalid(pre+"CellBudget", "must be 0 (default %d) or > 0, got %d", DefaultCellBudget3D, p.CellBudget)
-	}
-	if err := checkOptional(pre+"WorkBudget", p.WorkBudget, 0, maxWorkBudget); err != nil {
-		return err
-	}
-	if err := checkOptional(pre+"Courant", p.Courant, 0, 1); err != nil {
-		return err
-	}
-	if err := checkOptional(pre+"PecletMax", p.PecletMax, 0, 100); err != nil {
-		return err
-	}
-	if err := checkOptional(pre+"Refine", p.Refine, 0, 1000); err != nil {
+	if err := p.validateSettings(); err != nil {
 		return err
 	}
 	if p.Grid != nil {
@@ -128,10 +142,38 @@ func (p *Problem3D) validate() error {
 	return nil
 }
 
+// validateSettings checks the output times and the optional settings
+// (budgets, Courant, PecletMax, Refine).
+func (p *Problem3D) validateSettings() error {
+	const pre = "Problem3D."
+	if err := validateTimes(pre+"Times", p.Times); err != nil {
+		return err
+	}
+	if p.CellBudget < 0 {
+		return invalid(pre+"CellBudget", "must be 0 (default %d) or > 0, got %d", DefaultCellBudget3D, p.CellBudget)
+	}
+	if err := checkOptional(pre+"WorkBudget", p.WorkBudget, 0, maxWorkBudget); err != nil {
+		return err
+	}
+	if err := checkOptional(pre+"Courant", p.Courant, 0, 1); err != nil {
+		return err
+	}
+	if err := checkOptional(pre+"PecletMax", p.PecletMax, 0, 100); err != nil {
+		return err
+	}
+	return checkOptional(pre+"Refine", p.Refine, 0, 1000)
+}
+
 // validateReceptors checks that there is at least one receptor, that every
 // coordinate is finite, that no receptor lies upgradient of the source face
 // (all of them are named) and that every screen has 0 <= Top <= Bottom.
 func validateReceptors(field string, rs []Receptor) error {
+	return validateReceptorsFrom(field, rs, 0, "the source face")
+}
+
+// validateReceptorsFrom is validateReceptors with the face at x = x0 (what
+// names it) as the upgradient limit.
+func validateReceptorsFrom(field string, rs []Receptor, x0 float64, face string) error {
 	if len(rs) == 0 {
 		return invalid(field, "need at least one receptor")
 	}
@@ -146,7 +188,7 @@ func validateReceptors(field string, rs []Receptor) error {
 				return invalid(f+"."+c.n, "must be finite, got %g", c.v)
 			}
 		}
-		if r.X < 0 {
+		if r.X < x0 {
 			up = append(up, fmt.Sprintf("%s.X = %g", f, r.X))
 		}
 		if !(r.Top >= 0) {
@@ -157,7 +199,7 @@ func validateReceptors(field string, rs []Receptor) error {
 		}
 	}
 	if len(up) > 0 {
-		return invalid(field, "upgradient of the source face (x < 0), outside the modelled aquifer: %v", up)
+		return invalid(field, "upgradient of %s (x < %g), outside the modelled aquifer: %v", face, x0, up)
 	}
 	return nil
 }
@@ -182,6 +224,9 @@ func maxOf(rs []Receptor, f func(Receptor) float64) float64 {
 // every step on grids of 32768 cells or more) and every steady-state
 // iteration; when it ends the error wraps ctx.Err().
 func Screen3D(ctx context.Context, p Problem3D) (*Result3D, error) {
+	if len(p.Sources) > 0 {
+		return runSources(ctx, p)
+	}
 	res, _, err := run3D(ctx, p)
 	return res, err
 }
@@ -193,10 +238,11 @@ func run3D(ctx context.Context, p Problem3D) (*Result3D, *grid3, error) {
 		return nil, nil, err
 	}
 	var marchedMass float64
-	vals, st, err := march(ctx, g, len(p.Receptors), plan, &marchedMass)
+	vals, st, err := march(ctx, g, len(p.Receptors)+len(p.Transects), plan, &marchedMass)
 	if err != nil {
 		return nil, nil, err
 	}
+	vals, disch := splitDischarge(vals, len(p.Receptors))
 	rep := report3(g, p.V, p.Dx)
 	rep.Steps = st.steps
 	rep.CellSteps = float64(rep.Cells) * float64(st.steps)
@@ -205,7 +251,7 @@ func run3D(ctx context.Context, p Problem3D) (*Result3D, *grid3, error) {
 		rep.TimeStep = plan.dtMax
 		rep.Courant = p.V * plan.dtMax / (p.R * rep.DXMin)
 	}
-	out := &Result3D{C: vals, Grid: rep, Budget: g.acc.result(marchedMass, 2)}
+	out := &Result3D{C: vals, Grid: rep, Budget: g.acc.result(marchedMass, 2), Discharge: disch}
 	if st.steady != nil {
 		b := st.steady.budget
 		out.SteadyBudget = &b
@@ -239,7 +285,7 @@ func setup3D(p *Problem3D) (*grid3, marchPlan, error) {
 		}
 	}
 	g := newGrid3(gx, gy, gz, p.V, p.Dx, p.Dy, p.Dz, p.R, p.Mu, 0.5*p.Width, p.Depth, p.History)
-	g.rec = p.Receptors
+	g.rec, g.tr = p.Receptors, p.Transects
 	courant := orDefault(p.Courant, 1)
 	dtMax := g.maxStep(courant)
 	if p.Grid == nil {
@@ -249,7 +295,7 @@ func setup3D(p *Problem3D) (*grid3, marchPlan, error) {
 	}
 	plan := marchPlan{
 		times: p.Times, switchOff: p.History.switchOff(), dtMax: dtMax,
-		steadyZero: p.History.switchOff() < math.Inf(1) || p.History.Depletion > 0,
+		steadyZero: p.History.fades(),
 		cells:      float64(g.nx) * float64(g.np), workBudget: orDefault(p.WorkBudget, DefaultWorkBudget3D), field: "Problem3D",
 	}
 	_, hMax := gx.minMax()

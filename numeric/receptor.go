@@ -22,6 +22,9 @@ func (g *grid3) sample(t float64, out []float64) {
 	for r, rc := range g.rec {
 		out[r] = clamp01(g.valueAt(rc, cb, prof))
 	}
+	for q, tr := range g.tr {
+		out[len(g.rec)+q] = g.discharge(tr, cb)
+	}
 }
 
 // valueAt interpolates (geometrically where positive, see mix): in x between cell centres (between the
@@ -31,7 +34,11 @@ func (g *grid3) sample(t float64, out []float64) {
 // no-flux), then averages over the depth interval.
 func (g *grid3) valueAt(rc Receptor, cb float64, prof []float64) float64 {
 	ix, wx := locate(g.xc, rc.X)
-	iy, wy := locate(g.yc, math.Abs(rc.Y))
+	yq := math.Abs(rc.Y)
+	if g.fullY {
+		yq = rc.Y
+	}
+	iy, wy := locate(g.yc, yq)
 	if iy < 0 {
 		iy, wy = 0, 0
 	}

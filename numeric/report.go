@@ -6,7 +6,7 @@ type GridReport struct {
 	NX, NY, NZ int     // cells along x (flow), y (transverse, half domain y >= 0), z (depth)
 	Cells      int     // NX*NY*NZ
 	XLength    float64 // domain extent along x from the inlet face
-	YLength    float64 // domain extent along y from the plume axis (half width)
+	YLength    float64 // domain extent along y from the plume axis (half width; the whole width when FullWidth)
 	ZLength    float64 // domain extent along z from the water table
 	DXMin      float64 // smallest and largest cell sizes along each axis
 	DXMax      float64
@@ -35,4 +35,19 @@ type GridReport struct {
 	// no longer changes by then, see settle.go); 0 when every finite time
 	// was reached by time stepping.
 	SteadyFrom float64
+
+	// Several sources (Problem3D.Sources; all zero without them): XStart
+	// and YStart are the plume-frame coordinates of the first x and y
+	// faces, so the grid spans [XStart, XStart + XLength] along flow and,
+	// when FullWidth, [YStart, YStart + YLength] across (YLength is then
+	// the whole width; without FullWidth the grid is the half y >= 0
+	// mirrored about the plume axis, as for one source). Sources is the
+	// number of source fields and FieldCells the cells they hold together
+	// (each source's field covers the grid downstream of its face); the
+	// cell budget bounds FieldCells, and CellSteps is FieldCells times
+	// Steps.
+	XStart, YStart float64
+	FullWidth      bool
+	Sources        int
+	FieldCells     int
 }

@@ -75,15 +75,22 @@ func settleTime(v, d, r, mu, l float64, acr []across, k float64) float64 {
 // the long-time limit of source history h (see settleTime): the steady
 // state of a constant source after t_36; 0 after the source stopped for
 // t_760, or after t_760 + 760/Depletion for a depleting source (the
-// emissions of the last t_760 are below exp(-760) of the first).
+// emissions of the last t_760 are below exp(-760) of the first), or after
+// t_760 plus the time a power-law source takes to fall below exp(-760).
 func settledFrom(h History, tk func(k float64) float64) float64 {
 	off := h.switchOff()
-	if math.IsInf(off, 1) && h.Depletion == 0 {
+	if !h.fades() {
 		return tk(settleEFolds)
 	}
 	t := off + tk(zeroEFolds)
 	if h.Depletion > 0 {
 		t = math.Min(t, tk(zeroEFolds)+zeroEFolds/h.Depletion)
+	}
+	if h.Rate > 0 {
+		// Power law: the source is below exp(-760) after powerBelow (which
+		// overflows to +Inf for large exponents: then only the stop, if
+		// any, settles it).
+		t = math.Min(t, tk(zeroEFolds)+h.powerBelow(zeroEFolds))
 	}
 	return t
 }

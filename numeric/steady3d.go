@@ -251,6 +251,6 @@ func (g *grid3) steadyBudget(cb float64) SteadyBudget {
 	b.InletAdvective, b.InletDispersive, b.Outflow = adv.sum, disp.sum, out.sum
 	b.Stored = stored
 	b.Decayed = g.mu * stored
-	b.close(2)
+	b.close(g.mirror())
 	return b
 }

@@ -13,6 +13,8 @@ import (
 type Breakthrough struct {
 	// Receptor identifier, for the title.
 	Receptor string
+	// Compound shown, named in the title when a scenario has several.
+	Compound string
 	// Units of time and concentration, for the axis labels.
 	TimeUnit, ConcUnit string
 	// Curves: every method (and, later, every compound), as lines (dense)
@@ -76,7 +78,11 @@ func BreakthroughFigure(b Breakthrough) (*Figure, error) {
 	if logAxis {
 		ylabel = fmt.Sprintf("Concentration (%s, log scale)", b.ConcUnit)
 	}
-	f := newFigure(fmt.Sprintf("Breakthrough at %s", b.Receptor),
+	title := fmt.Sprintf("Breakthrough at %s", b.Receptor)
+	if b.Compound != "" {
+		title = fmt.Sprintf("%s at %s", b.Compound, b.Receptor)
+	}
+	f := newFigure(title,
 		fmt.Sprintf("Time since the release began (%s)", b.TimeUnit), ylabel)
 	if b.Compact {
 		compact(f)

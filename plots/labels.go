@@ -207,7 +207,7 @@ func placeLabels(jobs []labelJob, area vg.Rectangle, obstacles, symbols []vg.Rec
 				continue
 			}
 			if k >= len(near) {
-				score += 5 // a leader line: only when nothing near fits
+				score += 100 // a leader line: only when nothing near fits
 			}
 			if bestScore < 0 || score < bestScore {
 				best, bestScore = placedLabel{job: j, at: at, box: box, leader: k >= adjacentPositions}, score
@@ -249,7 +249,7 @@ func placementScore(j labelJob, box, area vg.Rectangle, hard, symbols []vg.Recta
 		if n > 0 && j.clear && !j.must {
 			return 0, false
 		}
-		score += 10 * n
+		score += n
 	}
 	return score, true
 }

@@ -51,8 +51,8 @@ func crowdFigures(t *testing.T, policy string) map[string]*Figure {
 	inPlan := func(x, y float64) bool { return math.Pow((x-250)/260, 2)+math.Pow(y/40, 2) < 1 }
 	plan := crowd(500, -100, 1100, -240, 240, inPlan)
 	mp, err := MapFigure(PlanMap{Title: "crowd", LengthUnit: "m", ConcUnit: "mg/L", Labels: policy,
-		Outlines:   []Outline{{Level: 0.005, Geometry: orb.MultiPolygon{{ellipse(250, 0, 260, 40)}}}},
-		SourceFace: [2]orb.Point{{0, -7.5}, {0, 7.5}}, Receptors: plan,
+		Outlines: []Outline{{Level: 0.005, Geometry: orb.MultiPolygon{{ellipse(250, 0, 260, 40)}}}},
+		Sources:  []SourceShape{{Face: [2]orb.Point{{0, -7.5}, {0, 7.5}}}}, Receptors: plan,
 		XMin: -120, XMax: 1120, YMin: -260, YMax: 260, FlowAzimuthDeg: 90})
 	if err != nil {
 		t.Fatal(err)

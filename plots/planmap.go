@@ -25,10 +25,8 @@ type PlanMap struct {
 	LengthUnit, ConcUnit string
 	// Outlines, lowest level first.
 	Outlines []Outline
-	// Ends of the source's downgradient face; equal points for a point source.
-	SourceFace [2]orb.Point
-	// Footprint of the source zone (may be empty).
-	SourceZone orb.Ring
+	// The sources (one, or several superposed).
+	Sources []SourceShape
 	// Receptors with their ids and comparison outcomes.
 	Receptors []Mark
 	// Labels: LabelAuto (default), LabelAll, LabelExceedances or LabelNone.
@@ -54,16 +52,34 @@ func MapFigure(m PlanMap) (*Figure, error) {
 	if err := addOutlines(f, m.Outlines, m.ConcUnit, func(x, y float64) (float64, float64) { return x, y }); err != nil {
 		return nil, err
 	}
-	if err := addSource(f, m.SourceFace, m.SourceZone); err != nil {
-		return nil, err
+	for k, src := range m.Sources {
+		if err := addSource(f, src.Face, src.Zone, k == 0); err != nil {
+			return nil, err
+		}
 	}
 	ident := func(v float64) float64 { return v }
 	if err := addMarks(f, m.Receptors, ident); err != nil {
 		return nil, err
 	}
 	f.Overlays = append(f.Overlays, scaleBar(m.LengthUnit), northArrow(m.FlowAzimuthDeg),
-		markLabels(m.Receptors, labelSpec{policy: policyOr(m.Labels), tr: ident, obstacles: mapFurniture(m.LengthUnit), plume: lowestOutline(m.Outlines)}))
+		markLabels(m.Receptors, labelSpec{policy: policyOr(m.Labels), tr: ident, obstacles: mapObstacles(m), plume: lowestOutline(m.Outlines)}))
 	return f, nil
+}
+
+// mapObstacles are what receptor labels keep clear of on a map: the scale
+// bar, the north arrow and every source.
+func mapObstacles(m PlanMap) func(c draw.Canvas, x, y func(float64) vg.Length) []vg.Rectangle {
+	furniture := mapFurniture(m.LengthUnit)
+	return func(c draw.Canvas, x, y func(float64) vg.Length) []vg.Rectangle {
+		out := furniture(c, x, y)
+		for _, src := range m.Sources {
+			pts := append(orb.Ring{src.Face[0], src.Face[1]}, src.Zone...)
+			b := pts.Bound()
+			pad := vg.Points(3)
+			out = append(out, vg.Rectangle{Min: vg.Point{X: x(b.Min[0]) - pad, Y: y(b.Min[1]) - pad}, Max: vg.Point{X: x(b.Max[0]) + pad, Y: y(b.Max[1]) + pad}})
+		}
+		return out
+	}
 }
 
 // policyOr is the label policy, LabelAuto when empty.
@@ -120,9 +136,17 @@ func addOutlines(f *Figure, outlines []Outline, unit string, tr func(x, y float6
 	return nil
 }
 
+// SourceShape is a source in plan: the ends of its downgradient face
+// (equal points for a point source) and the footprint of its zone (may be
+// empty).
+type SourceShape struct {
+	Face [2]orb.Point
+	Zone orb.Ring
+}
+
 // addSource draws the source zone shaded dark and its downgradient face as
-// a thick bar (a square for a point source).
-func addSource(f *Figure, faceEnds [2]orb.Point, zone orb.Ring) error {
+// a thick bar (a square for a point source); legend: the first one only.
+func addSource(f *Figure, faceEnds [2]orb.Point, zone orb.Ring, legend bool) error {
 	p := f.Plot
 	if len(zone) > 2 {
 		xys := make(plotter.XYs, len(zone))
@@ -145,7 +169,9 @@ func addSource(f *Figure, faceEnds [2]orb.Point, zone orb.Ring) error {
 		}
 		sc.GlyphStyle = draw.GlyphStyle{Color: sourceInk, Radius: vg.Points(4.5), Shape: draw.BoxGlyph{}}
 		p.Add(sc)
-		f.addLegend("source", sc)
+		if legend {
+			f.addLegend("source", sc)
+		}
 		return nil
 	}
 	ln, err := plotter.NewLine(face)
@@ -154,7 +180,9 @@ func addSource(f *Figure, faceEnds [2]orb.Point, zone orb.Ring) error {
 	}
 	ln.LineStyle = draw.LineStyle{Color: sourceInk, Width: vg.Points(4)}
 	p.Add(ln)
-	f.addLegend("source (downgradient face)", ln)
+	if legend {
+		f.addLegend("source (downgradient face)", ln)
+	}
 	return nil
 }
 

@@ -51,7 +51,7 @@ func sampleFigures(t *testing.T) map[string]*Figure {
 			{Level: 0.05, Geometry: orb.MultiPolygon{{circle(20, true)}}},
 			{Level: 0.5},
 		},
-		SourceFace: [2]orb.Point{{60, 45}, {60, 55}}, SourceZone: orb.Ring{{60, 45}, {60, 55}, {50, 55}, {50, 45}, {60, 45}},
+		Sources:   []SourceShape{{Face: [2]orb.Point{{60, 45}, {60, 55}}, Zone: orb.Ring{{60, 45}, {60, 55}, {50, 55}, {50, 45}, {60, 45}}}},
 		Receptors: []Mark{{Label: "MW-1", X: 120, Y: 52}}, XMin: 0, XMax: 200, YMin: 0, YMax: 100, FlowAzimuthDeg: 90})
 	if err != nil {
 		t.Fatal(err)

@@ -12,6 +12,8 @@ type Profile struct {
 	LengthUnit, ConcUnit string
 	// Depth of the centreline below the water table, for the title.
 	Depth float64
+	// Compound shown, named in the title when a scenario has several.
+	Compound string
 	// One curve per time (Label "3650 d" or "steady state").
 	Curves []Curve
 	// Screening level, drawn as a horizontal line; nil for none.
@@ -34,6 +36,9 @@ func ProfileFigure(pr Profile) (*Figure, error) {
 	title := "Centreline profile at the water table"
 	if pr.Depth > 0 {
 		title = fmt.Sprintf("Centreline profile, %s %s below the water table", FormatNumber(pr.Depth), pr.LengthUnit)
+	}
+	if pr.Compound != "" {
+		title = pr.Compound + ": c" + title[1:]
 	}
 	f := newFigure(title,
 		fmt.Sprintf("Distance downgradient of the source face (%s)", pr.LengthUnit),

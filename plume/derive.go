@@ -1,6 +1,8 @@
 package plume
 
 import (
+	"downgradient/analytic"
+	"fmt"
 	"math"
 )
 
@@ -67,15 +69,19 @@ func LongitudinalDispersivity(travelDistance float64) float64 {
 
 // model holds the derived parameters of a scenario in canonical units (m, d,
 // mg/L, kg), in three parts: the aquifer (shared by every compound and
-// source), the compound and the source. Several sources will be a slice of
-// sourceParams whose closed forms superpose, and several compounds a slice of
-// compoundParams (each its own retardation and decay, linked by yields);
-// closedFormOf already takes the three parts separately.
+// source), the compound and the sources (the first embedded, the further
+// ones in extra; their closed forms superpose). Several compounds will be a
+// slice of compoundParams (each its own retardation and decay, linked by
+// yields); closedFormOf already takes the three parts separately.
 type model struct {
 	aquiferParams
-	compoundParams
-	sourceParams
-	derived Derived // canonical units; converted by the caller
+	compoundParams                  // the (first) compound
+	sourceParams                    // the first source
+	extra          []sourceParams   // further sources (sources[1:]), superposed
+	compounds      []compoundParams // several compounds (contaminants[]); nil for one
+	chain          analytic.Chain   // the compounds linked by decay (with compounds)
+	focus          int              // the compound closedForm gives (index into compounds; see Model.Focus)
+	derived        Derived          // canonical units; converted by the caller
 }
 
 // aquiferParams are the flow and dispersion parameters.
@@ -93,16 +99,23 @@ type aquiferParams struct {
 
 // compoundParams are one compound's sorption, decay and levels.
 type compoundParams struct {
+	cpath      string   // JSON path of the compound ("contaminant" or "contaminants[i]")
 	name       string   // as given
 	r          float64  // retardation
 	lambda     float64  // ln2 / half-life, 1/d
 	mu         float64  // decay rate in the retarded equation, 1/d
 	screening  *float64 // mg/L
 	solubility *float64 // mg/L
+	srcConc    float64  // source concentration of one of several compounds, mg/L
+	daughter   int      // index of the compound it decays to (analytic.NoDaughter: none)
+	yield      float64  // mass yield of that link
 }
 
 // sourceParams are one source's geometry, strength and history.
 type sourceParams struct {
+	id         string  // sources[i].id, default "S<i+1>"; "" for a lone source
+	frame      Frame   // canonical site -> this source's plume frame
+	lag        float64 // start - the first source's start, d
 	kind       string
 	c0         float64 // source concentration, mg/L
 	massKg     float64 // instantaneous mass, kg
@@ -124,7 +137,7 @@ func (s *sourceParams) continuous() bool {
 // derive computes the transport parameters of a validated canonical
 // scenario. Nothing in it depends on the receptors.
 func derive(c Scenario) *model {
-	m := &model{sourceParams: sourceParams{duration: math.Inf(1), width: math.Inf(1), depth: math.Inf(1)}}
+	m := &model{}
 	d := &m.derived
 	d.Estimated = []string{}
 	d.FromReferenceTable = []string{}
@@ -133,12 +146,25 @@ func derive(c Scenario) *model {
 		d.ReferenceCompound = ref.Name
 	}
 	m.deriveFlow(c.Aquifer)
-	m.name = c.Contaminant.Name
-	m.deriveSorption(c.Aquifer, c.Contaminant, ref)
-	m.deriveDecay(c.Contaminant, ref)
-	m.deriveLevels(c.Contaminant, ref)
+	m.cpath = "contaminant"
+	k := c.Contaminant
+	if len(c.Contaminants) > 0 {
+		k, m.cpath = c.Contaminants[0].contaminant(), "contaminants[0]"
+		ref, haveRef = lookupReference(k.Name)
+		if haveRef {
+			d.ReferenceCompound = ref.Name
+		}
+	}
+	m.name = k.Name
+	m.deriveSorption(c.Aquifer, k, ref)
+	m.deriveDecay(k, ref)
+	m.deriveLevels(k, ref)
 	m.deriveDispersion(c.Aquifer)
-	m.deriveSource(c.Source)
+	m.deriveSources(c)
+	if len(c.Contaminants) > 0 {
+		m.deriveCompounds(c)
+	}
+	m.deriveSourceReport()
 	return m
 }
 
@@ -168,7 +194,7 @@ func (m *model) deriveSorption(a Aquifer, k Contaminant, ref referenceValues) {
 	koc := k.Koc
 	if koc == nil && ref.Koc != nil {
 		koc = ref.Koc
-		d.FromReferenceTable = append(d.FromReferenceTable, "contaminant.koc")
+		d.FromReferenceTable = append(d.FromReferenceTable, m.cpath+".koc")
 	}
 	d.Koc = Ptr(*koc)
 	m.r = Retardation(*a.BulkDensity, *koc, *a.OrganicCarbonFraction, m.porosity)
@@ -181,7 +207,7 @@ func (m *model) deriveDecay(k Contaminant, ref referenceValues) {
 	hl := k.HalfLife
 	if hl == nil && k.UseTableHalfLife && ref.HalfLifeLong != nil {
 		hl = ref.HalfLifeLong
-		d.FromReferenceTable = append(d.FromReferenceTable, "contaminant.half_life")
+		d.FromReferenceTable = append(d.FromReferenceTable, m.cpath+".half_life")
 	}
 	if hl != nil {
 		m.lambda = DecayRate(*hl)
@@ -205,12 +231,12 @@ func (m *model) deriveLevels(k Contaminant, ref referenceValues) {
 	m.screening = k.ScreeningLevel
 	if m.screening == nil && ref.ScreeningLevel != nil {
 		m.screening = ref.ScreeningLevel
-		d.FromReferenceTable = append(d.FromReferenceTable, "contaminant.screening_level")
+		d.FromReferenceTable = append(d.FromReferenceTable, m.cpath+".screening_level")
 	}
 	m.solubility = k.Solubility
 	if m.solubility == nil && ref.Solubility != nil {
 		m.solubility = ref.Solubility
-		d.FromReferenceTable = append(d.FromReferenceTable, "contaminant.solubility")
+		d.FromReferenceTable = append(d.FromReferenceTable, m.cpath+".solubility")
 	}
 	d.ScreeningLevel = copyPtr(m.screening)
 	d.Solubility = copyPtr(m.solubility)
@@ -303,40 +329,62 @@ func (a *aquiferParams) dispersionAt(travel float64) (alpha, disp [3]float64) {
 	return alpha, disp
 }
 
-// deriveSource sets the source kind, strength, geometry and history.
-func (m *model) deriveSource(s Source) {
-	d := &m.derived
+// deriveSources sets the first source (source, or sources[0]) and the
+// further ones of a scenario with several.
+func (m *model) deriveSources(c Scenario) {
+	if len(c.Sources) == 0 {
+		m.sourceParams = newSourceParams(c.Source, "")
+	} else {
+		m.sourceParams = newSourceParams(c.Sources[0], "S1")
+		for i, src := range c.Sources[1:] {
+			sp := newSourceParams(src, fmt.Sprintf("S%d", i+2))
+			sp.lag = sp.start - m.start
+			m.extra = append(m.extra, sp)
+		}
+	}
+	m.derived.SourceKind = m.kind
+	if m.kind == SourceKind1D {
+		m.derived.Inlet = m.inlet
+	}
+}
+
+// newSourceParams derives one canonical source; defID names it when it
+// has no id of its own.
+func newSourceParams(s Source, defID string) sourceParams {
+	sp := sourceParams{id: s.ID, frame: frameOf(s), duration: math.Inf(1), width: math.Inf(1), depth: math.Inf(1)}
+	if sp.id == "" {
+		sp.id = defID
+	}
 	if s.Start != nil {
-		m.start = *s.Start
+		sp.start = *s.Start
 	}
 	switch {
 	case s.Mass != nil:
-		m.kind = SourceKindInstantaneous
-		m.massKg = *s.Mass
+		sp.kind = SourceKindInstantaneous
+		sp.massKg = *s.Mass
 		if s.ReleaseDepth != nil {
-			m.relDepth = *s.ReleaseDepth
+			sp.relDepth = *s.ReleaseDepth
 		}
-		m.geomUnused = s.Width != nil || s.Depth != nil
+		sp.geomUnused = s.Width != nil || s.Depth != nil
 	case s.Width != nil:
-		m.kind = SourceKind3D
-		m.c0 = *s.Concentration
-		m.width, m.depth = *s.Width, *s.Depth
+		sp.kind = SourceKind3D
+		sp.c0 = derefOr(s.Concentration, 0) // several compounds: set by deriveCompounds
+		sp.width, sp.depth = *s.Width, *s.Depth
 	default:
-		m.kind = SourceKind1D
-		m.c0 = *s.Concentration
-		m.inlet = s.Inlet
-		if m.inlet == "" {
-			m.inlet = InletConcentration
+		sp.kind = SourceKind1D
+		sp.c0 = derefOr(s.Concentration, 0)
+		sp.inlet = s.Inlet
+		if sp.inlet == "" {
+			sp.inlet = InletConcentration
 		}
-		d.Inlet = m.inlet
 	}
 	if s.Duration != nil {
-		m.duration = *s.Duration
+		sp.duration = *s.Duration
 	}
 	if s.HalfLife != nil {
-		m.depletion = DecayRate(*s.HalfLife)
+		sp.depletion = DecayRate(*s.HalfLife)
 	}
-	d.SourceKind = m.kind
+	return sp
 }
 
 // Ptr returns a pointer to a copy of v.

@@ -56,7 +56,7 @@ func ExampleValidate() {
 	// Output:
 	// aquifer.effective_porosity: must be in (0, 1), got 1.3
 	// source.concentration: must be > 0, got -1
-	// receptors[0].x: required: site x (east) of the receptor
+	// receptors[0].x: required: site x (east) of the receptor (or lon and lat with a crs)
 }
 
 // Flow toward the north-east (azimuth 45): a point 10 m north-east of the

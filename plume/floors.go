@@ -11,15 +11,24 @@ import "math"
 const ConcentrationFloorFraction = 1e-12
 
 // concentrationFloor is the floor in mg/L: ConcentrationFloorFraction of
-// the source concentration, or for an instantaneous release of the
-// concentration of its mass dissolved in 1 m^3 of pore water
+// the (largest) source concentration, or for an instantaneous release of
+// the concentration of its mass dissolved in 1 m^3 of pore water
 // (M [kg] * 1e6 mg / (n_e * 1000 L)).
 func (m *model) concentrationFloor() float64 {
-	ref := m.c0
+	return ConcentrationFloorFraction * m.referenceConcentration()
+}
+
+// referenceConcentration is the largest source concentration, mg/L (for an
+// instantaneous release, its mass dissolved in 1 m^3 of pore water).
+func (m *model) referenceConcentration() float64 {
 	if m.kind == SourceKindInstantaneous {
-		ref = m.massKg * 1000 / math.Max(m.porosity, 1e-3)
+		return m.massKg * 1000 / math.Max(m.porosity, 1e-3)
 	}
-	return ConcentrationFloorFraction * ref
+	ref := m.c0
+	for _, s := range m.extra {
+		ref = math.Max(ref, s.c0)
+	}
+	return ref
 }
 
 // inputUnits is the unit of every dimensional input, by JSON path ("[]"

@@ -15,20 +15,64 @@ import (
 // zone to be its footprint (|py| <= W/2, top <= source depth) from the
 // downgradient face back one source width upgradient (our convention, stated
 // in the caveat); for a 1D column every px <= 0 is the inlet.
+//
+// With several sources a place is inside the source zone when it is inside
+// any source's, modelled when it is downgradient of any source, and not
+// modelled only when it is upgradient of them all.
 func (m *model) classify(p *Point) {
-	p.Status = StatusModelled
 	p.aq = nil
 	if m.basis == BasisReceptorDistance {
 		p.aq = m.pointAquifer(*p)
 	}
-	if m.kind == SourceKindInstantaneous || p.X > 0 {
-		return
+	p.Status = m.sourceParams.status(*p)
+	for i := range m.extra {
+		switch st := m.extra[i].status(m.localPoint(*p, i+1)); {
+		case st == StatusInsideSource:
+			p.Status = st
+		case st == StatusModelled && p.Status == StatusUpgradient:
+			p.Status = st
+		}
 	}
-	if m.kind == SourceKind1D || (math.Abs(p.Y) <= m.width/2 && p.Top <= m.depth && p.X >= -m.width) {
-		p.Status = StatusInsideSource
-	} else {
-		p.Status = StatusUpgradient
+}
+
+// status classifies a place given in this source's own plume frame.
+func (s *sourceParams) status(p Point) Status {
+	if s.kind == SourceKindInstantaneous || p.X > 0 {
+		return StatusModelled
 	}
+	if s.kind == SourceKind1D || (math.Abs(p.Y) <= s.width/2 && p.Top <= s.depth && p.X >= -s.width) {
+		return StatusInsideSource
+	}
+	return StatusUpgradient
+}
+
+// source returns source i (0: the first).
+func (m *model) source(i int) *sourceParams {
+	if i == 0 {
+		return &m.sourceParams
+	}
+	return &m.extra[i-1]
+}
+
+// sourceCount is the number of sources.
+func (m *model) sourceCount() int { return 1 + len(m.extra) }
+
+// localPoint is p in the plume frame of source i, classified for that
+// source alone (with its own dispersion for BasisReceptorDistance).
+func (m *model) localPoint(p Point, i int) Point {
+	if i == 0 {
+		return p
+	}
+	s := &m.extra[i-1]
+	site := p.site
+	if !p.hasSite {
+		site[0], site[1] = m.frame.ToSite(p.X, p.Y)
+	}
+	q := p
+	q.X, q.Y = s.frame.ToPlume(site[0], site[1])
+	q.aq = nil
+	q.Status = s.status(q)
+	return q
 }
 
 // params are the closed forms' transport parameters of compound c in aquifer a.
@@ -90,8 +134,41 @@ func (s *sourceParams) strength(tau float64) float64 {
 // receptor at elapsed time tau since the source started, d (+Inf for the
 // steady state), in mg/L. Domenico is not defined for an instantaneous
 // release (returns 0).
+//
+// With several sources the value is the sum of each source's, in source
+// order, each in its own plume frame and on its own clock (tau minus the
+// source's lag behind the first).
 func (m *model) closedForm(exact bool, p Point, tau float64) float64 {
-	return closedFormOf(m.aquiferFor(p), &m.compoundParams, &m.sourceParams, exact, p, tau)
+	if len(m.compounds) > 0 {
+		// Several compounds: the focused one's value (Value of capability
+		// packages, see Model.Focus); the screening evaluates all of them
+		// at once.
+		out := make([]float64, len(m.compounds))
+		m.compoundValues(exact, p, tau, out)
+		if math.IsNaN(out[m.focus]) {
+			return 0
+		}
+		return out[m.focus]
+	}
+	if len(m.extra) == 0 {
+		return closedFormOf(m.aquiferFor(p), &m.compoundParams, &m.sourceParams, exact, p, tau)
+	}
+	c := 0.0
+	for i := range m.sourceCount() {
+		c += m.contribution(exact, p, tau, i)
+	}
+	return c
+}
+
+// contribution is source i's part of the value at p and tau (the first
+// source's clock), mg/L.
+func (m *model) contribution(exact bool, p Point, tau float64, i int) float64 {
+	s := m.source(i)
+	q := m.localPoint(p, i)
+	if i == 0 {
+		q.Status = s.status(p)
+	}
+	return closedFormOf(m.aquiferFor(q), &m.compoundParams, s, exact, q, tau-s.lag)
 }
 
 // closedFormOf is closedForm for compound c released by source s in aquifer a.

@@ -18,7 +18,8 @@ import (
 //
 // A Model is immutable after Prepare and safe for concurrent use.
 type Model struct {
-	sc    Scenario    // as given, request units
+	given Scenario    // as given (hashed as the input)
+	sc    Scenario    // as given, receptors given by lon/lat placed in the site frame; request units
 	units Units       // the request's units, defaults filled in
 	uf    unitFactors // request unit -> canonical
 	canon Scenario    // sc in canonical units
@@ -28,26 +29,33 @@ type Model struct {
 }
 
 // Prepare validates sc (every bad field at once, as an *Error of kind
-// KindInvalid) and derives its model.
+// KindInvalid), derives its model and checks that every converted and
+// derived value is finite (checkFinite).
 func Prepare(sc Scenario) (*Model, error) {
 	if err := Validate(sc); err != nil {
 		return nil, err
 	}
+	given := sc
+	sc = resolveLonLat(sc)
 	units := sc.Units.withDefaults()
 	uf, _ := units.factors()
 	c := toCanonical(sc)
-	md := &Model{sc: sc, units: units, uf: uf, canon: c, frame: frameOf(c.Source), pts: make([]Point, len(c.Receptors))}
+	md := &Model{sc: sc, given: given, units: units, uf: uf, canon: c, pts: make([]Point, len(c.Receptors))}
 	md.m = derive(c)
+	md.frame = md.m.frame
 	for i, r := range c.Receptors {
 		md.pts[i] = md.receptorPoint(r, i)
 		md.m.classify(&md.pts[i])
+	}
+	if err := md.checkFinite(); err != nil {
+		return nil, err
 	}
 	return md, nil
 }
 
 // receptorPoint places a canonical receptor in the plume frame (not yet classified).
 func (md *Model) receptorPoint(r Receptor, i int) Point {
-	p := Point{ID: r.ID}
+	p := Point{ID: r.ID, site: [2]float64{*r.X, *r.Y}, hasSite: true}
 	if p.ID == "" {
 		p.ID = fmt.Sprintf("R%d", i+1)
 	}
@@ -61,7 +69,8 @@ func (md *Model) receptorPoint(r Receptor, i int) Point {
 	return p
 }
 
-// Scenario returns the scenario as given (request units).
+// Scenario returns the scenario in request units, receptors given by
+// lon/lat placed in the site frame.
 func (md *Model) Scenario() Scenario { return md.sc }
 
 // Canonical returns the scenario in canonical units (m, d, mg/L).
@@ -76,8 +85,9 @@ func (md *Model) Factors() UnitFactors { return UnitFactors(md.uf) }
 // Frame is the site-to-plume frame in canonical units (m).
 func (md *Model) Frame() Frame { return md.frame }
 
-// SiteFrame is the site-to-plume frame in the request's length unit.
-func (md *Model) SiteFrame() Frame { return frameOf(md.sc.Source) }
+// SiteFrame is the site-to-plume frame in the request's length unit (of
+// the first source when there are several).
+func (md *Model) SiteFrame() Frame { return frameOf(md.sc.PrimarySource()) }
 
 // Receptors returns the receptors located and classified in the plume frame, m.
 func (md *Model) Receptors() []Point { return md.pts }
@@ -95,7 +105,7 @@ func (md *Model) Locate(x, y, top, bottom float64) Point {
 
 // LocateSite classifies a place given in canonical site coordinates, m.
 func (md *Model) LocateSite(id string, x, y, z float64) Point {
-	p := Point{ID: id, Top: z, Bottom: z}
+	p := Point{ID: id, Top: z, Bottom: z, site: [2]float64{x, y}, hasSite: true}
 	p.X, p.Y = md.frame.ToPlume(x, y)
 	md.m.classify(&p)
 	return p
@@ -135,11 +145,12 @@ func (md *Model) TransportAt(p Point) Transport {
 	return tr
 }
 
-// SourceTerm returns the source description, canonical units.
+// SourceTerm returns the source description (the first source's when
+// there are several; Continuous is true only when all are), canonical units.
 func (md *Model) SourceTerm() SourceTerm {
 	m := md.m
 	return SourceTerm{Kind: m.kind, Concentration: m.c0, Mass: m.massKg, Width: m.width, Depth: m.depth,
-		ReleaseDepth: m.relDepth, Start: m.start, Duration: m.duration, Depletion: m.depletion, Continuous: m.continuous()}
+		ReleaseDepth: m.relDepth, Start: m.start, Duration: m.duration, Depletion: m.depletion, Continuous: m.allContinuous()}
 }
 
 // ScreeningLevel is the screening level used, mg/L; ok is false when none is known.
@@ -161,6 +172,7 @@ type UnitFactors struct {
 	T float64 // days per request time unit
 	C float64 // mg/L per request concentration unit
 	K float64 // m/d per request conductivity unit
+	M float64 // g/d per request mass-discharge unit
 }
 
 // Transport holds the transport parameters of a model, canonical units.
@@ -210,7 +222,9 @@ type Point struct {
 	Screen bool    // a well screen rather than a point
 	Status Status  // set by the model; "" counts as modelled
 
-	aq *aquiferParams // the point's own dispersion (BasisReceptorDistance); set by the model
+	aq      *aquiferParams // the point's own dispersion (BasisReceptorDistance); set by the model
+	site    [2]float64     // canonical site coordinates, when known (hasSite)
+	hasSite bool
 }
 
 // mid is the reported depth: the point depth or the screen's mid-depth.

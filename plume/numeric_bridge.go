@@ -30,6 +30,11 @@ func (m *model) runNumeric(ctx context.Context, pts []Point, taus []float64, bud
 	if m.kind == SourceKindInstantaneous {
 		return nil, "the finite-volume solver models a continuous source, not an instantaneous release", nil
 	}
+	for i := range m.extra {
+		if m.extra[i].lag != 0 {
+			return nil, "the sources start at different times, which the finite-volume grid does not represent; check each source on its own", nil
+		}
+	}
 	idx, times, reason := m.numericTargets(pts, taus)
 	if reason != "" {
 		return nil, reason, nil
@@ -120,13 +125,37 @@ func (m *model) solveNumeric(ctx context.Context, aq *aquiferParams, pts []Point
 		p := pts[i]
 		rs[k] = numeric.Receptor{X: p.X, Y: p.Y, Top: p.Top, Bottom: p.Bottom}
 	}
-	r, err := numeric.Screen3D(ctx, numeric.Problem3D{
+	pb := numeric.Problem3D{
 		V: m.v, Dx: aq.disp[0], Dy: aq.disp[1], Dz: aq.disp[2], R: m.r, Mu: m.mu,
 		Width: m.width, Depth: m.depth, History: hist,
 		Receptors: rs, Times: times, CellBudget: budget,
-	})
+	}
+	scale := 1.0
+	if len(m.extra) > 0 {
+		// Several sources on one grid, in the first source's plume frame,
+		// each at its strength relative to the largest.
+		scale = m.referenceConcentration()
+		pb.Width, pb.Depth, pb.History = 0, 0, numeric.History{}
+		for i := range m.sourceCount() {
+			s := m.source(i)
+			x, y := 0.0, 0.0
+			if i > 0 {
+				x, y = m.frame.ToPlume(s.frame.X0, s.frame.Y0)
+			}
+			pb.Sources = append(pb.Sources, numeric.SourceFace{X: x, Y: y, Width: s.width, Depth: s.depth,
+				Strength: s.c0 / scale, History: numeric.History{Duration: s.duration, Depletion: s.depletion}})
+		}
+	}
+	r, err := numeric.Screen3D(ctx, pb)
 	if r == nil {
 		return numericOutput{}, err
+	}
+	if scale != 1 {
+		for k := range r.C {
+			for j := range r.C[k] {
+				r.C[k][j] *= scale / m.c0 // numericValues multiplies by the first source's c0
+			}
+		}
 	}
 	return numericOutput{solver: SourceKind3D, c: r.C, grid: r.Grid, budget: r.Budget}, err
 }
@@ -173,8 +202,8 @@ func numericReport(out numericOutput, budget int) *NumericReport {
 		TotalCells:       grid.Cells,
 		Spacing:          [3]float64{grid.DXMin, grid.DYMin, grid.DZMin},
 		MaxSpacing:       [3]float64{grid.DXMax, grid.DYMax, grid.DZMax},
-		XMin:             0,
-		XMax:             grid.XLength,
+		XMin:             grid.XStart,
+		XMax:             grid.XStart + grid.XLength,
 		YHalf:            grid.YLength,
 		ZMax:             grid.ZLength,
 		GridPeclet:       grid.PecletX,

@@ -1,5 +1,7 @@
 package plume
 
+import "math"
+
 // fromCanonical converts a result computed in m, d, mg/L into the request's
 // units (factors f: request unit -> canonical).
 func (r *Result) fromCanonical(f unitFactors) {
@@ -46,6 +48,58 @@ func (r *Result) fromCanonical(f unitFactors) {
 			a.Floor /= C
 			// a.Time is a requested time, already in the request's unit.
 		}
+		if a := rr.AllowableSourceConcentration; a != nil {
+			a.SteadyState, a.WithinTimes = conc(a.SteadyState), conc(a.WithinTimes)
+		}
+		for k := range rr.Contributions {
+			cb := &rr.Contributions[k]
+			for j := range cb.Series {
+				sp := &cb.Series[j]
+				sp.Exact, sp.Domenico = conc(sp.Exact), conc(sp.Domenico)
+			}
+			cb.SteadyState.Exact, cb.SteadyState.Domenico = conc(cb.SteadyState.Exact), conc(cb.SteadyState.Domenico)
+		}
+		for k := range rr.Compounds {
+			cr := &rr.Compounds[k]
+			for j := range cr.Series {
+				sp := &cr.Series[j]
+				sp.Exact, sp.Domenico, sp.Numeric = conc(sp.Exact), conc(sp.Domenico), conc(sp.Numeric)
+			}
+			ss := &cr.SteadyState
+			ss.Exact, ss.Domenico, ss.Numeric = conc(ss.Exact), conc(ss.Domenico), conc(ss.Numeric)
+			if cr.Peak != nil {
+				cr.Peak.Time = scaled(cr.Peak.Time, 1/T)
+				cr.Peak.Concentration /= C
+			}
+			cr.FirstExceedanceTime = scaled(cr.FirstExceedanceTime, 1/T)
+			cr.ScreeningLevel = conc(cr.ScreeningLevel)
+		}
+	}
+	for i := range d.Sources {
+		d.Sources[i].MassDischarge = scaled(d.Sources[i].MassDischarge, 1/f.M)
+	}
+	for i := range d.Compounds {
+		cd := &d.Compounds[i]
+		cd.SourceConcentration /= C
+		cd.HalfLife = scaled(cd.HalfLife, 1/T)
+		cd.DecayRate *= T
+		cd.EffectiveDecayRate *= T
+		cd.ScreeningLevel = scaled(cd.ScreeningLevel, 1/C)
+		cd.Solubility = scaled(cd.Solubility, 1/C)
+	}
+	for i := range r.Transects {
+		tr := &r.Transects[i]
+		tr.Length /= L
+		tr.Top /= L
+		tr.Bottom /= L
+		conv := func(v *TransectValue) {
+			v.MassDischarge /= f.M
+			v.StreamConcentration = scaled(v.StreamConcentration, 1/C)
+		}
+		for j := range tr.Series {
+			conv(&tr.Series[j].TransectValue)
+		}
+		conv(&tr.SteadyState)
 	}
 	if n := r.Numeric; n != nil {
 		for i := range n.Spacing {
@@ -71,6 +125,7 @@ func (r *Result) sanitize() {
 			*p = Clean(*p)
 		}
 	}
+	r.sanitizeExtras()
 	floor := r.Derived.ConcentrationFloor
 	conc := func(p *float64) {
 		if p != nil {
@@ -115,6 +170,37 @@ func (r *Result) sanitize() {
 		conc(&rr.Peak.Concentration)
 		fixP(rr.FirstExceedanceTime)
 		fixP(rr.DomenicoDeviation)
+		for _, al := range []*Allowance{rr.AllowableSourceConcentration, rr.DilutionAttenuationFactor, rr.AllowableScaleFactor} {
+			if al != nil {
+				fixP(al.SteadyState)
+				fixP(al.WithinTimes)
+			}
+		}
+		for k := range rr.Contributions {
+			cb := &rr.Contributions[k]
+			for j := range cb.Series {
+				conc(cb.Series[j].Exact)
+				conc(cb.Series[j].Domenico)
+			}
+			conc(cb.SteadyState.Exact)
+			conc(cb.SteadyState.Domenico)
+		}
+		for k := range rr.Compounds {
+			cr := &rr.Compounds[k]
+			for j := range cr.Series {
+				conc(cr.Series[j].Exact)
+				conc(cr.Series[j].Domenico)
+				conc(cr.Series[j].Numeric)
+			}
+			conc(cr.SteadyState.Exact)
+			conc(cr.SteadyState.Domenico)
+			conc(cr.SteadyState.Numeric)
+			if cr.Peak != nil {
+				conc(&cr.Peak.Concentration)
+				fixP(cr.Peak.Time)
+			}
+			fixP(cr.FirstExceedanceTime)
+		}
 		if a := rr.NumericAgreement; a != nil {
 			fix(&a.MaxRelativeDifference)
 			fix(&a.Time)
@@ -146,4 +232,32 @@ func FloorConcentration(c, floor float64) float64 {
 		return 0
 	}
 	return c
+}
+
+// sanitizeExtras is sanitize for the transects, the allowable scale factor
+// and the sources' mass discharges.
+func (r *Result) sanitizeExtras() {
+	cleanP := func(p *float64) {
+		if p != nil {
+			*p = Clean(*p)
+		}
+	}
+	for i := range r.Transects {
+		tr := &r.Transects[i]
+		vals := []*TransectValue{&tr.SteadyState}
+		for j := range tr.Series {
+			vals = append(vals, &tr.Series[j].TransectValue)
+		}
+		for _, v := range vals {
+			v.MassDischarge = math.Max(Clean(v.MassDischarge), 0)
+			cleanP(v.StreamConcentration)
+		}
+	}
+	if a := r.AllowableScaleFactor; a != nil {
+		cleanP(a.SteadyState)
+		cleanP(a.WithinTimes)
+	}
+	for i := range r.Derived.Sources {
+		cleanP(r.Derived.Sources[i].MassDischarge)
+	}
 }

@@ -27,38 +27,62 @@ type setter func(sc *Scenario, index int, v float64) error
 
 // paramSetters is the table of every number a scenario holds, by path.
 var paramSetters = map[string]setter{
-	"aquifer.hydraulic_conductivity":    func(sc *Scenario, _ int, v float64) error { sc.Aquifer.HydraulicConductivity = &v; return nil },
-	"aquifer.hydraulic_gradient":        func(sc *Scenario, _ int, v float64) error { sc.Aquifer.HydraulicGradient = &v; return nil },
-	"aquifer.effective_porosity":        func(sc *Scenario, _ int, v float64) error { sc.Aquifer.EffectivePorosity = &v; return nil },
-	"aquifer.seepage_velocity":          func(sc *Scenario, _ int, v float64) error { sc.Aquifer.SeepageVelocity = &v; return nil },
-	"aquifer.bulk_density":              func(sc *Scenario, _ int, v float64) error { sc.Aquifer.BulkDensity = &v; return nil },
-	"aquifer.organic_carbon_fraction":   func(sc *Scenario, _ int, v float64) error { sc.Aquifer.OrganicCarbonFraction = &v; return nil },
-	"aquifer.effective_diffusion":       func(sc *Scenario, _ int, v float64) error { sc.Aquifer.EffectiveDiffusion = &v; return nil },
-	"aquifer.dispersivity_scale":        func(sc *Scenario, _ int, v float64) error { sc.Aquifer.DispersivityScale = &v; return nil },
-	"aquifer.dispersivity.longitudinal": func(sc *Scenario, _ int, v float64) error { ownDispersivity(sc).Longitudinal = &v; return nil },
-	"aquifer.dispersivity.transverse":   func(sc *Scenario, _ int, v float64) error { ownDispersivity(sc).Transverse = &v; return nil },
-	"aquifer.dispersivity.vertical":     func(sc *Scenario, _ int, v float64) error { ownDispersivity(sc).Vertical = &v; return nil },
-	"contaminant.koc":                   func(sc *Scenario, _ int, v float64) error { sc.Contaminant.Koc = &v; return nil },
-	"contaminant.half_life":             func(sc *Scenario, _ int, v float64) error { sc.Contaminant.HalfLife = &v; return nil },
-	"contaminant.retardation":           func(sc *Scenario, _ int, v float64) error { sc.Contaminant.Retardation = &v; return nil },
-	"contaminant.screening_level":       func(sc *Scenario, _ int, v float64) error { sc.Contaminant.ScreeningLevel = &v; return nil },
-	"contaminant.solubility":            func(sc *Scenario, _ int, v float64) error { sc.Contaminant.Solubility = &v; return nil },
-	"source.x":                          func(sc *Scenario, _ int, v float64) error { sc.Source.X = &v; return nil },
-	"source.y":                          func(sc *Scenario, _ int, v float64) error { sc.Source.Y = &v; return nil },
-	"source.flow_azimuth_deg":           func(sc *Scenario, _ int, v float64) error { sc.Source.FlowAzimuthDeg = &v; return nil },
-	"source.concentration":              func(sc *Scenario, _ int, v float64) error { sc.Source.Concentration = &v; return nil },
-	"source.width":                      func(sc *Scenario, _ int, v float64) error { sc.Source.Width = &v; return nil },
-	"source.depth":                      func(sc *Scenario, _ int, v float64) error { sc.Source.Depth = &v; return nil },
-	"source.start":                      func(sc *Scenario, _ int, v float64) error { sc.Source.Start = &v; return nil },
-	"source.duration":                   func(sc *Scenario, _ int, v float64) error { sc.Source.Duration = &v; return nil },
-	"source.half_life":                  func(sc *Scenario, _ int, v float64) error { sc.Source.HalfLife = &v; return nil },
-	"source.mass":                       func(sc *Scenario, _ int, v float64) error { sc.Source.Mass = &v; return nil },
-	"source.release_depth":              func(sc *Scenario, _ int, v float64) error { sc.Source.ReleaseDepth = &v; return nil },
-	"receptors[].x":                     receptorSetter(func(r *Receptor, v *float64) { r.X = v }),
-	"receptors[].y":                     receptorSetter(func(r *Receptor, v *float64) { r.Y = v }),
-	"receptors[].z":                     receptorSetter(func(r *Receptor, v *float64) { r.Z = v }),
-	"receptors[].screen_top":            receptorSetter(func(r *Receptor, v *float64) { r.ScreenTop = v }),
-	"receptors[].screen_bottom":         receptorSetter(func(r *Receptor, v *float64) { r.ScreenBottom = v }),
+	"aquifer.hydraulic_conductivity":      func(sc *Scenario, _ int, v float64) error { sc.Aquifer.HydraulicConductivity = &v; return nil },
+	"aquifer.hydraulic_gradient":          func(sc *Scenario, _ int, v float64) error { sc.Aquifer.HydraulicGradient = &v; return nil },
+	"aquifer.effective_porosity":          func(sc *Scenario, _ int, v float64) error { sc.Aquifer.EffectivePorosity = &v; return nil },
+	"aquifer.seepage_velocity":            func(sc *Scenario, _ int, v float64) error { sc.Aquifer.SeepageVelocity = &v; return nil },
+	"aquifer.bulk_density":                func(sc *Scenario, _ int, v float64) error { sc.Aquifer.BulkDensity = &v; return nil },
+	"aquifer.organic_carbon_fraction":     func(sc *Scenario, _ int, v float64) error { sc.Aquifer.OrganicCarbonFraction = &v; return nil },
+	"aquifer.effective_diffusion":         func(sc *Scenario, _ int, v float64) error { sc.Aquifer.EffectiveDiffusion = &v; return nil },
+	"aquifer.dispersivity_scale":          func(sc *Scenario, _ int, v float64) error { sc.Aquifer.DispersivityScale = &v; return nil },
+	"aquifer.dispersivity.longitudinal":   func(sc *Scenario, _ int, v float64) error { ownDispersivity(sc).Longitudinal = &v; return nil },
+	"aquifer.dispersivity.transverse":     func(sc *Scenario, _ int, v float64) error { ownDispersivity(sc).Transverse = &v; return nil },
+	"aquifer.dispersivity.vertical":       func(sc *Scenario, _ int, v float64) error { ownDispersivity(sc).Vertical = &v; return nil },
+	"contaminant.koc":                     func(sc *Scenario, _ int, v float64) error { sc.Contaminant.Koc = &v; return nil },
+	"contaminant.half_life":               func(sc *Scenario, _ int, v float64) error { sc.Contaminant.HalfLife = &v; return nil },
+	"contaminant.retardation":             func(sc *Scenario, _ int, v float64) error { sc.Contaminant.Retardation = &v; return nil },
+	"contaminant.screening_level":         func(sc *Scenario, _ int, v float64) error { sc.Contaminant.ScreeningLevel = &v; return nil },
+	"contaminant.solubility":              func(sc *Scenario, _ int, v float64) error { sc.Contaminant.Solubility = &v; return nil },
+	"source.x":                            func(sc *Scenario, _ int, v float64) error { sc.Source.X = &v; return nil },
+	"source.y":                            func(sc *Scenario, _ int, v float64) error { sc.Source.Y = &v; return nil },
+	"source.flow_azimuth_deg":             func(sc *Scenario, _ int, v float64) error { sc.Source.FlowAzimuthDeg = &v; return nil },
+	"source.concentration":                func(sc *Scenario, _ int, v float64) error { sc.Source.Concentration = &v; return nil },
+	"source.width":                        func(sc *Scenario, _ int, v float64) error { sc.Source.Width = &v; return nil },
+	"source.depth":                        func(sc *Scenario, _ int, v float64) error { sc.Source.Depth = &v; return nil },
+	"source.start":                        func(sc *Scenario, _ int, v float64) error { sc.Source.Start = &v; return nil },
+	"source.duration":                     func(sc *Scenario, _ int, v float64) error { sc.Source.Duration = &v; return nil },
+	"source.half_life":                    func(sc *Scenario, _ int, v float64) error { sc.Source.HalfLife = &v; return nil },
+	"source.mass":                         func(sc *Scenario, _ int, v float64) error { sc.Source.Mass = &v; return nil },
+	"source.release_depth":                func(sc *Scenario, _ int, v float64) error { sc.Source.ReleaseDepth = &v; return nil },
+	"receptors[].x":                       receptorSetter(func(r *Receptor, v *float64) { r.X = v }),
+	"receptors[].y":                       receptorSetter(func(r *Receptor, v *float64) { r.Y = v }),
+	"receptors[].z":                       receptorSetter(func(r *Receptor, v *float64) { r.Z = v }),
+	"receptors[].screen_top":              receptorSetter(func(r *Receptor, v *float64) { r.ScreenTop = v }),
+	"receptors[].screen_bottom":           receptorSetter(func(r *Receptor, v *float64) { r.ScreenBottom = v }),
+	"receptors[].lon":                     receptorSetter(func(r *Receptor, v *float64) { r.Lon = v }),
+	"receptors[].lat":                     receptorSetter(func(r *Receptor, v *float64) { r.Lat = v }),
+	"sources[].x":                         sourceSetter(func(s *Source, v *float64) { s.X = v }),
+	"sources[].y":                         sourceSetter(func(s *Source, v *float64) { s.Y = v }),
+	"sources[].flow_azimuth_deg":          sourceSetter(func(s *Source, v *float64) { s.FlowAzimuthDeg = v }),
+	"sources[].concentration":             sourceSetter(func(s *Source, v *float64) { s.Concentration = v }),
+	"sources[].width":                     sourceSetter(func(s *Source, v *float64) { s.Width = v }),
+	"sources[].depth":                     sourceSetter(func(s *Source, v *float64) { s.Depth = v }),
+	"sources[].start":                     sourceSetter(func(s *Source, v *float64) { s.Start = v }),
+	"sources[].duration":                  sourceSetter(func(s *Source, v *float64) { s.Duration = v }),
+	"sources[].half_life":                 sourceSetter(func(s *Source, v *float64) { s.HalfLife = v }),
+	"sources[].mass":                      sourceSetter(func(s *Source, v *float64) { s.Mass = v }),
+	"sources[].release_depth":             sourceSetter(func(s *Source, v *float64) { s.ReleaseDepth = v }),
+	"transects[].top":                     transectSetter(func(t *Transect, v *float64) { t.Top = v }),
+	"transects[].bottom":                  transectSetter(func(t *Transect, v *float64) { t.Bottom = v }),
+	"transects[].stream_flow":             transectSetter(func(t *Transect, v *float64) { t.StreamFlow = v }),
+	"transects[].screening_level":         transectSetter(func(t *Transect, v *float64) { t.ScreeningLevel = v }),
+	"contaminants[].source_concentration": constituentSetter(func(k *Constituent, v *float64) { k.SourceConcentration = v }),
+	"contaminants[].koc":                  constituentSetter(func(k *Constituent, v *float64) { k.Koc = v }),
+	"contaminants[].half_life":            constituentSetter(func(k *Constituent, v *float64) { k.HalfLife = v }),
+	"contaminants[].retardation":          constituentSetter(func(k *Constituent, v *float64) { k.Retardation = v }),
+	"contaminants[].screening_level":      constituentSetter(func(k *Constituent, v *float64) { k.ScreeningLevel = v }),
+	"contaminants[].solubility":           constituentSetter(func(k *Constituent, v *float64) { k.Solubility = v }),
+	"contaminants[].yield":                constituentSetter(func(k *Constituent, v *float64) { k.Yield = v }),
 	"times[]": func(sc *Scenario, i int, v float64) error {
 		if i >= len(sc.Times) {
 			return fmt.Errorf("index %d out of range (%d times)", i, len(sc.Times))
@@ -82,13 +106,39 @@ func ownDispersivity(sc *Scenario) *Dispersivity {
 // receptorSetter sets one field of receptor i on sc's own copy of the receptors.
 func receptorSetter(set func(r *Receptor, v *float64)) setter {
 	return func(sc *Scenario, i int, v float64) error {
-		if i >= len(sc.Receptors) {
-			return fmt.Errorf("index %d out of range (%d receptors)", i, len(sc.Receptors))
-		}
-		sc.Receptors = append([]Receptor(nil), sc.Receptors...)
-		set(&sc.Receptors[i], &v)
-		return nil
+		return setAt(&sc.Receptors, i, "receptors", func(r *Receptor) { set(r, &v) })
 	}
+}
+
+// sourceSetter sets one field of source i of several.
+func sourceSetter(set func(s *Source, v *float64)) setter {
+	return func(sc *Scenario, i int, v float64) error {
+		return setAt(&sc.Sources, i, "sources", func(s *Source) { set(s, &v) })
+	}
+}
+
+// constituentSetter sets one field of compound i of several.
+func constituentSetter(set func(k *Constituent, v *float64)) setter {
+	return func(sc *Scenario, i int, v float64) error {
+		return setAt(&sc.Contaminants, i, "contaminants", func(k *Constituent) { set(k, &v) })
+	}
+}
+
+// transectSetter sets one field of transect i.
+func transectSetter(set func(t *Transect, v *float64)) setter {
+	return func(sc *Scenario, i int, v float64) error {
+		return setAt(&sc.Transects, i, "transects", func(t *Transect) { set(t, &v) })
+	}
+}
+
+// setAt edits item i of *items on a copy of the slice (copy on write).
+func setAt[T any](items *[]T, i int, what string, edit func(*T)) error {
+	if i >= len(*items) {
+		return fmt.Errorf("index %d out of range (%d %s)", i, len(*items), what)
+	}
+	*items = append([]T(nil), *items...)
+	edit(&(*items)[i])
+	return nil
 }
 
 // ParamPaths lists the paths a Param may name ("[]" stands for an index).

@@ -2,6 +2,7 @@ package plume
 
 import (
 	"reflect"
+	"strings"
 	"testing"
 )
 
@@ -43,13 +44,11 @@ func TestParamSetCopyOnWrite(t *testing.T) {
 // agree (a new field without a setter fails here).
 func TestParamTableCoversScenario(t *testing.T) {
 	sc := demoScenario()
+	sc.Sources = []Source{sc.Source}
+	sc.Transects = []Transect{{}}
+	sc.Contaminants = []Constituent{{}}
 	for _, path := range ParamPaths() {
-		concrete := path
-		if i := len("receptors[]"); len(path) > i && path[:i] == "receptors[]" {
-			concrete = "receptors[0]" + path[i:]
-		} else if path == "times[]" {
-			concrete = "times[0]"
-		}
+		concrete := strings.Replace(path, "[]", "[0]", 1)
 		p, err := ParseParam(concrete)
 		if err != nil {
 			t.Fatalf("%s: %v", path, err)

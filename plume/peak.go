@@ -2,6 +2,7 @@ package plume
 
 import (
 	"math"
+	"slices"
 	"sort"
 
 	"downgradient/internal/roots"
@@ -26,6 +27,18 @@ type timeline struct {
 // charTime is the characteristic time of a receptor, d: the retarded
 // advective travel time to it, at least the travel time over alpha_L.
 func (m *model) charTime(p Point) float64 {
+	if len(m.extra) > 0 {
+		// Several sources: the earliest arrival of any of them, on the
+		// first source's clock.
+		t := math.Inf(1)
+		for i := range m.sourceCount() {
+			s := m.source(i)
+			q := m.localPoint(p, i)
+			one := model{aquiferParams: m.aquiferParams, compoundParams: m.compoundParams, sourceParams: *s}
+			t = math.Min(t, s.lag+one.charTime(q))
+		}
+		return math.Max(t, 1e-9)
+	}
 	dist := math.Max(p.X, 0)
 	if m.kind == SourceKindInstantaneous {
 		dist = math.Hypot(p.X, p.Y)
@@ -39,27 +52,33 @@ func (m *model) sample(f func(float64) float64, p Point, extra []float64) timeli
 	t0 := m.charTime(p)
 	lo := 1e-3 * t0
 	hi := 1e3 * t0
-	if !math.IsInf(m.duration, 1) {
-		hi = math.Max(hi, 10*(m.duration+t0))
+	for i := range m.sourceCount() {
+		s := m.source(i)
+		if !math.IsInf(s.duration, 1) {
+			hi = math.Max(hi, 10*(s.lag+s.duration+t0))
+		}
+		if s.depletion > 0 {
+			hi = math.Max(hi, s.lag+50/s.depletion)
+		}
 	}
-	if m.depletion > 0 {
-		hi = math.Max(hi, 50/m.depletion)
-	}
-	const perDecade = 8
-	n := int(math.Ceil(perDecade*math.Log10(hi/lo))) + 1
-	taus := make([]float64, 0, n+8+len(extra))
-	for i := range n {
+	taus := make([]float64, 0, scanSamples(lo, hi)+8+len(extra))
+	for i := range scanSamples(lo, hi) {
 		taus = append(taus, lo*math.Pow(10, float64(i)/perDecade))
 	}
 	taus = append(taus, t0)
-	if !math.IsInf(m.duration, 1) {
-		taus = append(taus, t0+m.duration/2, t0+m.duration, m.duration)
-	}
-	for _, e := range extra {
-		if e > 0 && Finite(e) {
-			taus = append(taus, e)
+	for i := range m.sourceCount() {
+		s := m.source(i)
+		if !math.IsInf(s.duration, 1) {
+			taus = append(taus, s.lag+t0+s.duration/2, s.lag+t0+s.duration, s.lag+s.duration)
+		}
+		if s.lag > 0 {
+			taus = append(taus, s.lag)
 		}
 	}
+	for _, e := range extra {
+		taus = append(taus, e)
+	}
+	taus = slices.DeleteFunc(taus, func(t float64) bool { return !(t > 0) || !Finite(t) })
 	sort.Float64s(taus)
 	tl := timeline{tau: taus[:0], c: make([]float64, 0, len(taus))}
 	prev := math.NaN()
@@ -72,6 +91,28 @@ func (m *model) sample(f func(float64) float64, p Point, extra []float64) timeli
 		tl.c = append(tl.c, f(t))
 	}
 	return tl
+}
+
+// Samples per decade of the peak scan, and the most decades it covers.
+const (
+	perDecade      = 8
+	maxScanDecades = 40
+)
+
+// scanSamples is the number of log-spaced samples from lo to hi, counted
+// in float64 first: at most maxScanDecades decades (a span beyond that,
+// from a near-zero velocity or decay rate, would be a count beyond int;
+// the times past it are beyond any physical meaning), none when lo is not
+// a positive finite time.
+func scanSamples(lo, hi float64) int {
+	if !(lo > 0) || !Finite(lo) {
+		return 0
+	}
+	decades := math.Log10(hi / lo)
+	if !(decades <= maxScanDecades) { // also NaN and +Inf
+		decades = maxScanDecades
+	}
+	return int(math.Ceil(perDecade*max(decades, 0))) + 1
 }
 
 // peakResult is the peak of one receptor in elapsed time (d) and mg/L.
@@ -87,12 +128,15 @@ func (m *model) findPeak(f func(float64) float64, p Point, steady float64, extra
 	switch {
 	case p.upgradient():
 		return peakResult{tau: math.Inf(1), c: 0}
-	case p.inside():
+	case p.inside() && len(m.extra) == 0:
 		return peakResult{tau: 0, c: m.c0}
-	case m.continuous():
+	case m.allContinuous():
 		return peakResult{tau: math.Inf(1), c: steady}
 	}
 	tl := m.sample(f, p, extra)
+	if len(tl.c) == 0 {
+		return peakResult{tau: math.Inf(1), c: 0, timeline: tl}
+	}
 	best := 0
 	for i, c := range tl.c {
 		if c > tl.c[best] {
@@ -131,12 +175,12 @@ func (m *model) firstExceedance(f func(float64) float64, p Point, pk peakResult,
 	if !(pk.c >= level) || p.upgradient() {
 		return 0, false
 	}
-	if p.inside() {
+	if p.inside() && len(m.extra) == 0 {
 		return 0, true
 	}
 	g := func(t float64) float64 { return f(t) - level }
 	const rel = 1e-7
-	if m.continuous() {
+	if m.allContinuous() {
 		// Monotone in t. Bracket from the known samples (the requested
 		// times) when they straddle the level; otherwise double up from the
 		// characteristic time until the level is reached, then halve down.
@@ -192,4 +236,15 @@ func (m *model) firstExceedance(f func(float64) float64, p Point, pk peakResult,
 		}
 	}
 	return 0, false
+}
+
+// allContinuous reports whether every source is constant forever (the
+// value at any place then rises monotonically to its steady state).
+func (m *model) allContinuous() bool {
+	for i := range m.sourceCount() {
+		if !m.source(i).continuous() {
+			return false
+		}
+	}
+	return true
 }

@@ -1,5 +1,10 @@
 package plume
 
+import (
+	"bytes"
+	"encoding/json"
+)
+
 // Result is the response of a screening (DESIGN.md section 4). Lengths, times
 // and concentrations are in the request's units (echoed in Units); every
 // number is finite.
@@ -8,6 +13,8 @@ type Result struct {
 	Engine Engine `json:"engine"`
 	// Units of every number in the result (the request's, defaults filled in).
 	Units Units `json:"units"`
+	// The site frame's coordinate reference system, when the request named one.
+	CRS string `json:"crs,omitempty"`
 	// The receptors counted by outcome, and the verdict in one sentence.
 	Summary Summary `json:"summary"`
 	// Derived transport parameters and where each came from.
@@ -16,6 +23,12 @@ type Result struct {
 	Receptors []ReceptorResult `json:"receptors"`
 	// Report of the finite-volume grid when the numeric method ran; omitted otherwise.
 	Numeric *NumericReport `json:"numeric,omitempty"`
+	// Mass discharge through each transect; omitted when none was asked for.
+	Transects []TransectResult `json:"transects,omitempty"`
+	// With several sources and a screening level: the common factor by
+	// which every source concentration may be scaled so that the worst
+	// receptor just reaches the level.
+	AllowableScaleFactor *Allowance `json:"allowable_scale_factor,omitempty"`
 	// Cautions and notes; always holds the general screening caution.
 	Caveats []Caveat `json:"caveats"`
 }
@@ -113,6 +126,11 @@ type Derived struct {
 	// The unit of every dimensional input, by its JSON path, as the engine
 	// read it (for example "aquifer.hydraulic_conductivity": "ft/d").
 	InputUnits map[string]string `json:"input_units"`
+	// Each source's strength and depletion (an array even for one source).
+	Sources []SourceDerived `json:"sources"`
+	// Each compound of several (contaminants[]); omitted for one. The
+	// single-compound fields above then describe the first compound.
+	Compounds []CompoundDerived `json:"compounds,omitempty"`
 }
 
 // ReceptorDispersivity is a receptor's own dispersivities, L, estimated at
@@ -149,6 +167,9 @@ type DispersionValues struct {
 type ReceptorResult struct {
 	// Receptor identifier from the request (or "R<index+1>").
 	ID string `json:"id"`
+	// Site coordinates, L (as given, or projected from lon and lat).
+	X float64 `json:"x"`
+	Y float64 `json:"y"`
 	// Distance along flow from the centre of the source's downgradient face, L.
 	PlumeX float64 `json:"plume_x"`
 	// Transverse offset, positive to the left of the flow direction, L.
@@ -184,6 +205,88 @@ type ReceptorResult struct {
 	DomenicoDeviation *float64 `json:"domenico_deviation,omitempty"`
 	// Agreement of the numeric cross-check with the exact solution; null when not run.
 	NumericAgreement *Agreement `json:"numeric_agreement,omitempty"`
+	// The source concentration at which this receptor would just reach the
+	// screening level (one source; null where not defined), C.
+	AllowableSourceConcentration *Allowance `json:"allowable_source_concentration,omitempty"`
+	// Source concentration / receptor concentration, dimensionless (one
+	// source; null where the receptor's value is 0 or not modelled).
+	DilutionAttenuationFactor *Allowance `json:"dilution_attenuation_factor,omitempty"`
+	// With several sources, the factor by which every source concentration
+	// may be scaled so that this receptor just reaches the level.
+	AllowableScaleFactor *Allowance `json:"allowable_scale_factor,omitempty"`
+	// Each source's contribution (several sources and contributions: true).
+	Contributions []Contribution `json:"contributions,omitempty"`
+	// Each compound's answer (several compounds); the receptor's own
+	// series, steady state, peak and first exceedance are then left out,
+	// and its exceeds_screening_level is true if any compound's is, else
+	// null if any compound's is, else false.
+	Compounds []CompoundResult `json:"compounds,omitempty"`
+}
+
+// Allowance is a quantity that bounds the source, at steady state and
+// within the requested times; a member is null where it is not defined
+// (the receptor's value is 0, the receptor is not modelled, or no level).
+type Allowance struct {
+	SteadyState *float64 `json:"steady_state"`
+	WithinTimes *float64 `json:"within_times"`
+}
+
+// Contribution is one source's part of a receptor's values.
+type Contribution struct {
+	SourceID    string        `json:"source_id"`
+	Series      []SeriesPoint `json:"series"`
+	SteadyState MethodValues  `json:"steady_state"`
+}
+
+// SourceDerived describes one source's strength and depletion.
+type SourceDerived struct {
+	// The source's id ("" for a lone source).
+	ID string `json:"id,omitempty"`
+	// Initial mass discharge out of the source face, Q C0, with Q the Darcy
+	// flux through the face (n_e v W D), mass per time (units.mass_discharge);
+	// null for a 1D column, an instantaneous release or without porosity.
+	MassDischarge *float64 `json:"mass_discharge"`
+	// Depletion rate Q C0 / M0 of a source with a given mass, 1/T; null otherwise.
+	DepletionRate *float64 `json:"depletion_rate"`
+	// Time, on the scenario's clock, when the source concentration falls
+	// below the screening level, T; null when it never does or is unknown.
+	TimeBelowScreeningLevel *float64 `json:"time_below_screening_level"`
+	// Time, on the scenario's clock, when the source's mass is exhausted, T;
+	// null when it never is.
+	TimeMassExhausted *float64 `json:"time_mass_exhausted"`
+}
+
+// TransectResult is the mass discharge through one transect.
+type TransectResult struct {
+	ID string `json:"id"`
+	// Length of the line, L, and the depth interval, L.
+	Length float64 `json:"length"`
+	Top    float64 `json:"top"`
+	Bottom float64 `json:"bottom"`
+	// Method the discharge is computed with ("exact", else "domenico").
+	Method string `json:"method"`
+	// One item per requested time.
+	Series []TransectPoint `json:"series"`
+	// As t -> infinity (0 for a source that stops or depletes).
+	SteadyState TransectValue `json:"steady_state"`
+}
+
+// TransectValue is the mass discharge through a transect and, for a
+// stream, the fully mixed stream concentration.
+type TransectValue struct {
+	// Advective mass discharge, mass per time (units.mass_discharge).
+	MassDischarge float64 `json:"mass_discharge"`
+	// Mass discharge / stream flow, C; null without a stream flow.
+	StreamConcentration *float64 `json:"stream_concentration"`
+	// Stream concentration compared with the transect's screening level;
+	// null without both.
+	ExceedsScreeningLevel *bool `json:"exceeds_screening_level"`
+}
+
+// TransectPoint is TransectValue at one requested time, T.
+type TransectPoint struct {
+	Time float64 `json:"time"`
+	TransectValue
 }
 
 // SeriesPoint holds the concentrations at one time, C; a method not run is omitted.
@@ -295,6 +398,9 @@ type Caveat struct {
 	Message string `json:"message"`
 	// Receptor concerned; empty when the caveat concerns the whole result.
 	ReceptorID string `json:"receptor_id,omitempty"`
+	// Compound concerned, for a scenario of several compounds
+	// (contaminants[].name); empty when the caveat concerns all of them.
+	Compound string `json:"compound,omitempty"`
 }
 
 // MethodValue returns the value of method m in a per-method triple (nil
@@ -309,4 +415,28 @@ func MethodValue(m string, exact, domenico, numeric *float64) *float64 {
 		return numeric
 	}
 	return nil
+}
+
+// MarshalJSON writes the receptor; with several compounds its own series,
+// steady state, peak and first exceedance (which belong to each compound)
+// are left out.
+func (r ReceptorResult) MarshalJSON() ([]byte, error) {
+	type plain ReceptorResult
+	var v any = plain(r)
+	if len(r.Compounds) > 0 {
+		v = struct {
+			plain
+			Series              *struct{} `json:"series,omitempty"`
+			SteadyState         *struct{} `json:"steady_state,omitempty"`
+			Peak                *struct{} `json:"peak,omitempty"`
+			FirstExceedanceTime *struct{} `json:"first_exceedance_time,omitempty"`
+		}{plain: plain(r)}
+	}
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(v); err != nil {
+		return nil, err
+	}
+	return bytes.TrimRight(buf.Bytes(), "\n"), nil
 }

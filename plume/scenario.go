@@ -11,8 +11,26 @@ type Scenario struct {
 	Aquifer Aquifer `json:"aquifer"`
 	// Contaminant properties; Name may pick defaults from the reference table.
 	Contaminant Contaminant `json:"contaminant"`
+	// Several compounds instead of Contaminant, each with its own source
+	// concentration, sorption, decay and level, optionally linked by decay
+	// (decays_to, yield).
+	Contaminants []Constituent `json:"contaminants,omitempty"`
 	// Source geometry, strength and history, in site coordinates.
 	Source Source `json:"source"`
+	// Several sources instead of Source (3D planar sources sharing the
+	// aquifer and the flow direction); results are their superposition.
+	Sources []Source `json:"sources,omitempty"`
+	// Transects (a creek reach, a property line) through which the
+	// advective mass discharge is reported.
+	Transects []Transect `json:"transects,omitempty"`
+	// With several sources, report each source's contribution at each
+	// receptor (receptors[].contributions).
+	Contributions bool `json:"contributions,omitempty"`
+	// Coordinate reference system of the site frame, "EPSG:NNNN": a
+	// projected CRS whose linear unit matches units.length (metre: m; US
+	// survey or international foot: ft). With it GeoJSON outputs are in WGS
+	// 84 longitude/latitude and receptors may be given as lon, lat.
+	CRS string `json:"crs,omitempty"`
 	// Receptors (wells, parcels, stream points) in site coordinates; at least one.
 	Receptors []Receptor `json:"receptors"`
 	// Times at which to report concentrations, T, each >= 0 and finite, on
@@ -39,6 +57,10 @@ type Units struct {
 	// over time: "m/d", "ft/d", "m/s", "cm/s", "m/yr", "ft/yr" or "gpd/ft2"
 	// (US gallons per day per square foot). Default: length/time.
 	Conductivity string `json:"conductivity,omitempty"`
+	// Unit of mass discharge in responses: "g/d" with times in days,
+	// "kg/yr" with times in years. Set by the engine; a request may leave it
+	// out or give that same value.
+	MassDischarge string `json:"mass_discharge,omitempty"`
 }
 
 // Aquifer holds the hydraulic and sorption properties of the saturated zone.
@@ -107,11 +129,41 @@ type Contaminant struct {
 	DecayAppliesTo string `json:"decay_applies_to,omitempty"`
 }
 
+// Constituent is one compound of a scenario with several: the fields of
+// Contaminant, its source concentration, and the compound it decays to.
+type Constituent struct {
+	// Name of the compound (required, unique in the scenario); matched
+	// against the reference table as Contaminant.Name is.
+	Name string `json:"name"`
+	// Concentration at the source, C, >= 0 (a daughter may have none of its own).
+	SourceConcentration *float64 `json:"source_concentration"`
+	Koc                 *float64 `json:"koc"`
+	HalfLife            *float64 `json:"half_life"`
+	UseTableHalfLife    bool     `json:"use_table_half_life,omitempty"`
+	Retardation         *float64 `json:"retardation"`
+	ScreeningLevel      *float64 `json:"screening_level"`
+	Solubility          *float64 `json:"solubility"`
+	DecayAppliesTo      string   `json:"decay_applies_to,omitempty"`
+	// Name of the compound of this scenario this one decays to ("" none).
+	DecaysTo string `json:"decays_to,omitempty"`
+	// Mass of daughter formed per mass of this compound degraded, >= 0;
+	// default the ratio of molar masses (both in the reference table).
+	Yield *float64 `json:"yield"`
+}
+
+// contaminant is the Contaminant form of a constituent (its properties).
+func (k Constituent) contaminant() Contaminant {
+	return Contaminant{Name: k.Name, Koc: k.Koc, HalfLife: k.HalfLife, UseTableHalfLife: k.UseTableHalfLife,
+		Retardation: k.Retardation, ScreeningLevel: k.ScreeningLevel, Solubility: k.Solubility, DecayAppliesTo: k.DecayAppliesTo}
+}
+
 // Source describes the release. A continuous source has Concentration; an
 // instantaneous release (spill) has Mass instead. A source with Width and
 // Depth is a vertical rectangle (3D methods); with neither it is a 1D column
 // (Ogata-Banks) whose inlet type is Inlet.
 type Source struct {
+	// Identifier of the source in a list of several (sources[]); default "S<index+1>".
+	ID string `json:"id,omitempty"`
 	// Site x (east) of the centre of the source's downgradient face, L; default 0.
 	X *float64 `json:"x"`
 	// Site y (north) of the centre of the source's downgradient face, L; default 0.
@@ -139,15 +191,37 @@ type Source struct {
 	Inlet string `json:"inlet,omitempty"`
 }
 
+// Transect is a vertical rectangle standing on a line in the site frame
+// (a creek reach, a property boundary) through which the advective mass
+// discharge is reported.
+type Transect struct {
+	// Identifier echoed in the response; default "T<index+1>".
+	ID string `json:"id,omitempty"`
+	// Site coordinates of the line's ends, L.
+	From [2]float64 `json:"from"`
+	To   [2]float64 `json:"to"`
+	// Depth interval below the water table, L; top default 0, bottom required.
+	Top    *float64 `json:"top"`
+	Bottom *float64 `json:"bottom"`
+	// Flow of the stream that receives the discharge, L^3/T; with it the
+	// fully mixed stream concentration is reported.
+	StreamFlow *float64 `json:"stream_flow"`
+	// Surface-water screening level of the stream concentration, C.
+	ScreeningLevel *float64 `json:"screening_level"`
+}
+
 // Receptor is a point of interest in site coordinates: a point at depth Z or
 // a well screen from ScreenTop to ScreenBottom (depth-averaged).
 type Receptor struct {
 	// Identifier echoed in the response; default "R<index+1>".
 	ID string `json:"id,omitempty"`
-	// Site x (east), L, required.
+	// Site x (east), L; required unless lon and lat are given.
 	X *float64 `json:"x"`
-	// Site y (north), L, required.
+	// Site y (north), L; required unless lon and lat are given.
 	Y *float64 `json:"y"`
+	// WGS 84 longitude and latitude, degrees, instead of x and y (with crs).
+	Lon *float64 `json:"lon,omitempty"`
+	Lat *float64 `json:"lat,omitempty"`
 	// Depth below the water table, L, >= 0; default 0. Ignored when a screen is given.
 	Z *float64 `json:"z"`
 	// Depth of the top of the well screen below the water table, L, >= 0.
@@ -177,3 +251,11 @@ const (
 	InletConcentration = "concentration"
 	InletFlux          = "flux"
 )
+
+// PrimarySource is the scenario's source, or the first of several.
+func (sc Scenario) PrimarySource() Source {
+	if len(sc.Sources) > 0 {
+		return sc.Sources[0]
+	}
+	return sc.Source
+}

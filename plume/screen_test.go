@@ -193,7 +193,7 @@ func TestScreenUnitsEquivalent(t *testing.T) {
 			ft := toUnits(m, L, T, C)
 			ft.Units = Units{Length: "ft", Time: "yr", Concentration: "ug/L"}
 			rm, rf := screenOK(t, m), screenOK(t, ft)
-			if want := (Units{Length: "ft", Time: "yr", Concentration: "ug/L", Conductivity: "ft/yr"}); rf.Units != want {
+			if want := (Units{Length: "ft", Time: "yr", Concentration: "ug/L", Conductivity: "ft/yr", MassDischarge: "kg/yr"}); rf.Units != want {
 				t.Errorf("units not echoed: %+v", rf.Units)
 			}
 			near := func(what string, gotFt, wantM, k, tol float64) {

@@ -47,6 +47,7 @@ type unitFactors struct {
 	T float64 // days per request time unit
 	C float64 // mg/L per request concentration unit
 	K float64 // m/d per request conductivity unit
+	M float64 // g/d per request mass-discharge unit
 }
 
 // withDefaults fills empty unit names with m, d, mg/L.
@@ -63,7 +64,16 @@ func (u Units) withDefaults() Units {
 	if u.Conductivity == "" {
 		u.Conductivity = u.Length + "/" + u.Time
 	}
+	u.MassDischarge = massDischargeUnit(u.Time)
 	return u
+}
+
+// massDischargeUnit is the mass-discharge unit of a time unit.
+func massDischargeUnit(time string) string {
+	if time == TimeYear {
+		return "kg/yr"
+	}
+	return "g/d"
 }
 
 // factors returns the conversion factors of u; ok is false when a name is unknown.
@@ -95,6 +105,10 @@ func (u Units) factors() (f unitFactors, ok bool) {
 		ok = false
 	}
 	f.K = f.L / f.T
+	f.M = 1
+	if u.Time == TimeYear {
+		f.M = 1000 / DaysPerYear // kg/yr -> g/d
+	}
 	if k, given := conductivityUnits[u.Conductivity]; given {
 		f.K = k
 	} else if u.Conductivity != u.Length+"/"+u.Time {
@@ -152,20 +166,36 @@ func toCanonical(sc Scenario) Scenario {
 		DecayAppliesTo:   c.DecayAppliesTo,
 	}
 
-	s := sc.Source
-	out.Source = Source{
-		X:              scaled(s.X, L),
-		Y:              scaled(s.Y, L),
-		FlowAzimuthDeg: scaled(s.FlowAzimuthDeg, 1),
-		Concentration:  scaled(s.Concentration, C),
-		Width:          scaled(s.Width, L),
-		Depth:          scaled(s.Depth, L),
-		Start:          scaled(s.Start, T),
-		Duration:       scaled(s.Duration, T),
-		HalfLife:       scaled(s.HalfLife, T),
-		Mass:           scaled(s.Mass, 1),
-		ReleaseDepth:   scaled(s.ReleaseDepth, L),
-		Inlet:          s.Inlet,
+	if len(sc.Contaminants) > 0 {
+		out.Contaminants = make([]Constituent, len(sc.Contaminants))
+		for i, k := range sc.Contaminants {
+			out.Contaminants[i] = k
+			out.Contaminants[i].SourceConcentration = scaled(k.SourceConcentration, C)
+			out.Contaminants[i].HalfLife = scaled(k.HalfLife, T)
+			out.Contaminants[i].ScreeningLevel = scaled(k.ScreeningLevel, C)
+			out.Contaminants[i].Solubility = scaled(k.Solubility, C)
+		}
+	}
+	out.Source = canonicalSource(sc.Source, f)
+	if len(sc.Sources) > 0 {
+		out.Sources = make([]Source, len(sc.Sources))
+		for i, src := range sc.Sources {
+			out.Sources[i] = canonicalSource(src, f)
+		}
+	}
+	if len(sc.Transects) > 0 {
+		out.Transects = make([]Transect, len(sc.Transects))
+		for i, tr := range sc.Transects {
+			out.Transects[i] = Transect{
+				ID:             tr.ID,
+				From:           [2]float64{tr.From[0] * L, tr.From[1] * L},
+				To:             [2]float64{tr.To[0] * L, tr.To[1] * L},
+				Top:            scaled(tr.Top, L),
+				Bottom:         scaled(tr.Bottom, L),
+				StreamFlow:     scaled(tr.StreamFlow, L*L*L/T),
+				ScreeningLevel: scaled(tr.ScreeningLevel, C),
+			}
+		}
 	}
 
 	out.Receptors = make([]Receptor, len(sc.Receptors))
@@ -203,4 +233,24 @@ func Clean(x float64) float64 {
 		return -math.MaxFloat64
 	}
 	return x
+}
+
+// canonicalSource is s in m, d, mg/L.
+func canonicalSource(s Source, f unitFactors) Source {
+	L, T, C := f.L, f.T, f.C
+	return Source{
+		ID:             s.ID,
+		X:              scaled(s.X, L),
+		Y:              scaled(s.Y, L),
+		FlowAzimuthDeg: scaled(s.FlowAzimuthDeg, 1),
+		Concentration:  scaled(s.Concentration, C),
+		Width:          scaled(s.Width, L),
+		Depth:          scaled(s.Depth, L),
+		Start:          scaled(s.Start, T),
+		Duration:       scaled(s.Duration, T),
+		HalfLife:       scaled(s.HalfLife, T),
+		Mass:           scaled(s.Mass, 1),
+		ReleaseDepth:   scaled(s.ReleaseDepth, L),
+		Inlet:          s.Inlet,
+	}
 }

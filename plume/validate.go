@@ -24,6 +24,8 @@ import (
 //     instantaneous mass needs effective_porosity and no duration or half-life;
 //   - at least one receptor, each with finite x and y, depths >= 0, both
 //     screen ends or neither with bottom >= top, unique ids;
+//   - no control characters in receptor ids or the contaminant's name
+//     (CheckText);
 //   - times >= 0 and finite; methods from exact, domenico, numeric.
 func Validate(sc Scenario) error {
 	var fe FieldErrors
@@ -32,6 +34,8 @@ func Validate(sc Scenario) error {
 	validateContaminant(&fe, sc)
 	validateSource(&fe, sc)
 	validateReceptors(&fe, sc.Receptors)
+	validateCRS(&fe, sc)
+	validateTransects(&fe, sc)
 	for i, t := range sc.Times {
 		if !Finite(t) || t < 0 {
 			fe.Add(fmt.Sprintf("times[%d]", i), fmt.Sprintf("must be a finite number >= 0, got %g", t))
@@ -136,6 +140,9 @@ func validateUnits(fe *FieldErrors, u Units) {
 	default:
 		fe.Add("units.concentration", fmt.Sprintf("must be %q or %q, got %q", ConcMgL, ConcUgL, u.Concentration))
 	}
+	if want := massDischargeUnit(u.Time); u.MassDischarge != "" && u.MassDischarge != want {
+		fe.Add("units.mass_discharge", fmt.Sprintf("is set by the engine from units.time: %q here; leave it out, got %q", want, u.MassDischarge))
+	}
 	if _, ok := conductivityUnits[u.Conductivity]; !ok && u.Conductivity != "" {
 		fe.Add("units.conductivity", fmt.Sprintf("must be one of %s, got %q", strings.Join(ConductivityUnits(), ", "), u.Conductivity))
 	}
@@ -171,23 +178,34 @@ func validateAquifer(fe *FieldErrors, sc Scenario) {
 }
 
 func validateContaminant(fe *FieldErrors, sc Scenario) {
-	c, a := sc.Contaminant, sc.Aquifer
-	fe.Check("contaminant.koc", c.Koc, NonNegative)
-	fe.Check("contaminant.half_life", c.HalfLife, Positive)
-	fe.Check("contaminant.retardation", c.Retardation, atLeastOne)
-	fe.Check("contaminant.screening_level", c.ScreeningLevel, Positive)
-	fe.Check("contaminant.solubility", c.Solubility, Positive)
+	if len(sc.Contaminants) > 0 {
+		validateContaminants(fe, sc)
+		return
+	}
+	validateOneContaminant(fe, sc.Aquifer, "contaminant", sc.Contaminant)
+}
+
+// validateOneContaminant checks one compound's properties; at is its JSON
+// path ("contaminant" or "contaminants[i]").
+func validateOneContaminant(fe *FieldErrors, a Aquifer, at string, c Contaminant) {
+	path := func(f string) string { return at + "." + f }
+	fe.CheckText(path("name"), c.Name, false)
+	fe.Check(path("koc"), c.Koc, NonNegative)
+	fe.Check(path("half_life"), c.HalfLife, Positive)
+	fe.Check(path("retardation"), c.Retardation, atLeastOne)
+	fe.Check(path("screening_level"), c.ScreeningLevel, Positive)
+	fe.Check(path("solubility"), c.Solubility, Positive)
 	switch c.DecayAppliesTo {
 	case "", DecayTotal, DecayDissolved:
 	default:
-		fe.Add("contaminant.decay_applies_to", fmt.Sprintf("must be %q or %q, got %q", DecayTotal, DecayDissolved, c.DecayAppliesTo))
+		fe.Add(path("decay_applies_to"), fmt.Sprintf("must be %q or %q, got %q", DecayTotal, DecayDissolved, c.DecayAppliesTo))
 	}
 	if c.Retardation == nil {
-		const why = "required unless contaminant.retardation is given (R = 1 + rho_b Koc f_oc / n_e)"
+		why := "required unless " + path("retardation") + " is given (R = 1 + rho_b Koc f_oc / n_e)"
 		if c.Koc == nil {
 			ref, ok := lookupReference(c.Name)
 			if !ok || ref.Koc == nil {
-				fe.Add("contaminant.koc", "required unless contaminant.retardation is given or contaminant.name is in the reference table with a Koc")
+				fe.Add(path("koc"), "required unless "+path("retardation")+" is given or "+path("name")+" is in the reference table with a Koc")
 			}
 		}
 		if a.OrganicCarbonFraction == nil {
@@ -202,59 +220,106 @@ func validateContaminant(fe *FieldErrors, sc Scenario) {
 	}
 }
 
-func validateSource(fe *FieldErrors, sc Scenario) {
-	s := sc.Source
-	fe.Check("source.x", s.X, AnyFinite)
-	fe.Check("source.y", s.Y, AnyFinite)
-	fe.Check("source.flow_azimuth_deg", s.FlowAzimuthDeg, AnyFinite)
-	fe.Check("source.concentration", s.Concentration, Positive)
-	fe.Check("source.width", s.Width, Positive)
-	fe.Check("source.depth", s.Depth, Positive)
-	fe.Check("source.start", s.Start, NonNegative)
-	fe.Check("source.duration", s.Duration, Positive)
-	fe.Check("source.half_life", s.HalfLife, Positive)
-	fe.Check("source.mass", s.Mass, Positive)
-	fe.Check("source.release_depth", s.ReleaseDepth, NonNegative)
+// validateOneSource checks one source; at is its JSON path ("source" or
+// "sources[i]").
+func validateOneSource(fe *FieldErrors, sc Scenario, at string, s Source) {
+	path := func(f string) string { return at + "." + f }
+	fe.Check(path("x"), s.X, AnyFinite)
+	fe.Check(path("y"), s.Y, AnyFinite)
+	fe.Check(path("flow_azimuth_deg"), s.FlowAzimuthDeg, AnyFinite)
+	fe.Check(path("concentration"), s.Concentration, Positive)
+	fe.Check(path("width"), s.Width, Positive)
+	fe.Check(path("depth"), s.Depth, Positive)
+	fe.Check(path("start"), s.Start, NonNegative)
+	fe.Check(path("duration"), s.Duration, Positive)
+	fe.Check(path("half_life"), s.HalfLife, Positive)
+	fe.Check(path("mass"), s.Mass, Positive)
+	fe.Check(path("release_depth"), s.ReleaseDepth, NonNegative)
 	switch {
+	case len(sc.Contaminants) > 0:
+		if s.Concentration != nil {
+			fe.Add(path("concentration"), "with contaminants, give each compound's source_concentration instead")
+		}
+		if s.Mass != nil {
+			fe.Add(path("mass"), "several compounds need a continuous source (each compound's source_concentration), not an instantaneous release")
+		}
 	case s.Concentration == nil && s.Mass == nil:
-		fe.Add("source.concentration", "required (or source.mass for an instantaneous release)")
+		fe.Add(path("concentration"), "required (or source.mass for an instantaneous release)")
 	case s.Concentration != nil && s.Mass != nil:
-		fe.Add("source.mass", "give either source.concentration (continuous source) or source.mass (instantaneous release), not both")
+		fe.Add(path("mass"), "give either source.concentration (continuous source) or source.mass (instantaneous release), not both")
 	}
 	if s.Mass != nil {
 		if s.Duration != nil {
-			fe.Add("source.duration", "must be null for an instantaneous release (source.mass)")
+			fe.Add(path("duration"), "must be null for an instantaneous release (source.mass)")
 		}
 		if s.HalfLife != nil {
-			fe.Add("source.half_life", "must be null for an instantaneous release (source.mass)")
+			fe.Add(path("half_life"), "must be null for an instantaneous release (source.mass)")
 		}
 		if sc.Aquifer.EffectivePorosity == nil {
 			fe.Add("aquifer.effective_porosity", "required for an instantaneous release (source.mass)")
 		}
 		if s.Inlet != "" {
-			fe.Add("source.inlet", "applies only to a continuous 1D column source")
+			fe.Add(path("inlet"), "applies only to a continuous 1D column source")
 		}
 		return
 	}
 	if s.ReleaseDepth != nil {
-		fe.Add("source.release_depth", "applies only to an instantaneous release (source.mass)")
+		fe.Add(path("release_depth"), "applies only to an instantaneous release (source.mass)")
 	}
 	if (s.Width == nil) != (s.Depth == nil) {
 		if s.Width == nil {
-			fe.Add("source.width", "give both source.width and source.depth (3D source) or neither (1D column)")
+			fe.Add(path("width"), "give both source.width and source.depth (3D source) or neither (1D column)")
 		} else {
-			fe.Add("source.depth", "give both source.width and source.depth (3D source) or neither (1D column)")
+			fe.Add(path("depth"), "give both source.width and source.depth (3D source) or neither (1D column)")
 		}
 	}
 	switch s.Inlet {
 	case "", InletConcentration:
 	case InletFlux:
 		if s.Width != nil || s.Depth != nil {
-			fe.Add("source.inlet", `"flux" applies only to a 1D column source (no width and depth)`)
+			fe.Add(path("inlet"), `"flux" applies only to a 1D column source (no width and depth)`)
 		}
 	default:
-		fe.Add("source.inlet", fmt.Sprintf("must be %q or %q, got %q", InletConcentration, InletFlux, s.Inlet))
+		fe.Add(path("inlet"), fmt.Sprintf("must be %q or %q, got %q", InletConcentration, InletFlux, s.Inlet))
 	}
+}
+
+// validateSource checks source, or each of sources and how they fit
+// together: at most MaxSources, all planar 3D sources with one flow
+// direction, no two source zones overlapping.
+func validateSource(fe *FieldErrors, sc Scenario) {
+	if len(sc.Sources) == 0 {
+		if sc.Source == (Source{}) && len(sc.Contaminants) == 0 {
+			fe.Add("source", "required: the release, as source (one) or sources (several), with a concentration (or a mass for an instantaneous release)")
+			return
+		}
+		validateOneSource(fe, sc, "source", sc.Source)
+		return
+	}
+	if sc.Source != (Source{}) {
+		fe.Add("sources", "give source (one) or sources (several), not both")
+	}
+	if len(sc.Sources) > MaxSources {
+		fe.Add("sources", fmt.Sprintf("%d sources; at most %d allowed", len(sc.Sources), MaxSources))
+		return
+	}
+	ids := map[string]int{}
+	for i, src := range sc.Sources {
+		at := fmt.Sprintf("sources[%d]", i)
+		validateOneSource(fe, sc, at, src)
+		if src.Mass != nil || src.Width == nil || src.Depth == nil {
+			fe.Add(at, "each of several sources must be a planar 3D source with width, depth and concentration (an instantaneous release or a 1D column is screened on its own)")
+		}
+		if j, dup := ids[src.ID]; dup && src.ID != "" {
+			fe.Add(at+".id", fmt.Sprintf("repeats the id of sources[%d]", j))
+		}
+		ids[src.ID] = i
+		az, az0 := derefOr(src.FlowAzimuthDeg, DefaultFlowAzimuthDeg), derefOr(sc.Sources[0].FlowAzimuthDeg, DefaultFlowAzimuthDeg)
+		if i > 0 && az != az0 {
+			fe.Add(at+".flow_azimuth_deg", fmt.Sprintf("all sources share the aquifer and the flow direction: must equal sources[0]'s %g, got %g", az0, az))
+		}
+	}
+	validateSourceOverlap(fe, sc.Sources)
 }
 
 func validateReceptors(fe *FieldErrors, rs []Receptor) {
@@ -265,11 +330,11 @@ func validateReceptors(fe *FieldErrors, rs []Receptor) {
 	seen := make(map[string]int, len(rs))
 	for i, r := range rs {
 		p := fmt.Sprintf("receptors[%d]", i)
-		if r.X == nil {
-			fe.Add(p+".x", "required: site x (east) of the receptor")
+		if r.X == nil && !r.hasLonLat() {
+			fe.Add(p+".x", "required: site x (east) of the receptor (or lon and lat with a crs)")
 		}
-		if r.Y == nil {
-			fe.Add(p+".y", "required: site y (north) of the receptor")
+		if r.Y == nil && !r.hasLonLat() {
+			fe.Add(p+".y", "required: site y (north) of the receptor (or lon and lat with a crs)")
 		}
 		fe.Check(p+".x", r.X, AnyFinite)
 		fe.Check(p+".y", r.Y, AnyFinite)
@@ -286,12 +351,106 @@ func validateReceptors(fe *FieldErrors, rs []Receptor) {
 		case r.ScreenTop != nil && Finite(*r.ScreenTop) && Finite(*r.ScreenBottom) && *r.ScreenBottom < *r.ScreenTop:
 			fe.Add(p+".screen_bottom", fmt.Sprintf("must be >= screen_top (%g), got %g", *r.ScreenTop, *r.ScreenBottom))
 		}
+		fe.CheckText(p+".id", r.ID, false)
 		if r.ID != "" {
 			if j, dup := seen[r.ID]; dup {
 				fe.Add(p+".id", fmt.Sprintf("must be unique; %q is also receptors[%d].id", r.ID, j))
 			} else {
 				seen[r.ID] = i
 			}
+		}
+	}
+}
+
+// MaxSources is the most sources one scenario may hold.
+const MaxSources = 100
+
+// validateSourceOverlap refuses two sources whose zones overlap in plan:
+// each zone is the source's footprint, its width across the flow from its
+// downgradient face back one width upgradient (the convention of
+// receptor_inside_source), in the common flow frame.
+func validateSourceOverlap(fe *FieldErrors, srcs []Source) {
+	type zone struct{ x0, x1, y0, y1 float64 }
+	fr := frameOf(srcs[0])
+	var zs []zone
+	for _, s := range srcs {
+		if s.Width == nil {
+			zs = append(zs, zone{})
+			continue
+		}
+		w := *s.Width
+		px, py := fr.ToPlume(derefOr(s.X, 0), derefOr(s.Y, 0))
+		zs = append(zs, zone{px - w, px, py - w/2, py + w/2})
+	}
+	for i := range zs {
+		for j := range i {
+			a, b := zs[i], zs[j]
+			if srcs[i].Width == nil || srcs[j].Width == nil {
+				continue
+			}
+			if a.x0 < b.x1 && b.x0 < a.x1 && a.y0 < b.y1 && b.y0 < a.y1 {
+				fe.Add(fmt.Sprintf("sources[%d]", i), fmt.Sprintf(
+					"its source zone overlaps that of sources[%d] (each zone is the source's width across the flow, reaching one width upgradient of its face): merge them into one source or move them apart", j))
+			}
+		}
+	}
+}
+
+// derefOr is *p, or d when p is nil.
+func derefOr(p *float64, d float64) float64 {
+	if p == nil {
+		return d
+	}
+	return *p
+}
+
+// MaxTransects is the most transects one scenario may hold.
+const MaxTransects = 100
+
+// validateTransects checks each transect: a line of positive length, a
+// depth interval with bottom below top, a positive stream flow and level,
+// unique ids; the mass discharge needs the effective porosity (the Darcy
+// flux is n_e v) and a source with a width (a 1D column has none).
+func validateTransects(fe *FieldErrors, sc Scenario) {
+	if len(sc.Transects) == 0 {
+		return
+	}
+	if len(sc.Transects) > MaxTransects {
+		fe.Add("transects", fmt.Sprintf("%d transects; at most %d allowed", len(sc.Transects), MaxTransects))
+		return
+	}
+	if sc.Aquifer.EffectivePorosity == nil {
+		fe.Add("aquifer.effective_porosity", "required for a transect's mass discharge (the Darcy flux is n_e v)")
+	}
+	if src := sc.PrimarySource(); src.Mass == nil && src.Width == nil {
+		fe.Add("transects", "a 1D column source has no width, so no mass discharge through a transect: give source.width and source.depth")
+	}
+	ids := map[string]int{}
+	for i, t := range sc.Transects {
+		at := func(f string) string { return fmt.Sprintf("transects[%d].%s", i, f) }
+		for k, v := range []float64{t.From[0], t.From[1], t.To[0], t.To[1]} {
+			if !Finite(v) {
+				fe.Add(at([]string{"from", "from", "to", "to"}[k]), "coordinates must be finite numbers")
+			}
+		}
+		if t.From == t.To {
+			fe.Add(at("to"), "must differ from from: a transect of zero length carries no discharge")
+		}
+		fe.Check(at("top"), t.Top, NonNegative)
+		switch {
+		case t.Bottom == nil:
+			fe.Add(at("bottom"), "required: the depth of the transect's bottom below the water table, L")
+		case !Finite(*t.Bottom) || *t.Bottom <= derefOr(t.Top, 0):
+			fe.Add(at("bottom"), fmt.Sprintf("must be a finite number > top (%g), got %g", derefOr(t.Top, 0), *t.Bottom))
+		}
+		fe.Check(at("stream_flow"), t.StreamFlow, Positive)
+		fe.Check(at("screening_level"), t.ScreeningLevel, Positive)
+		if j, dup := ids[t.ID]; dup && t.ID != "" {
+			fe.Add(at("id"), fmt.Sprintf("repeats the id of transects[%d]", j))
+		}
+		ids[t.ID] = i
+		if len(t.ID) > 200 {
+			fe.Add(at("id"), "at most 200 characters")
 		}
 	}
 }

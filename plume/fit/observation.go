@@ -47,6 +47,7 @@ func ValidateObservations(obs []Observation, needTime bool) error {
 	}
 	for i, o := range obs {
 		at := func(f string) string { return fmt.Sprintf("observations[%d].%s", i, f) }
+		fe.CheckText(at("well_id"), o.WellID, false)
 		if o.X == nil {
 			fe.Add(at("x"), "required field is missing")
 		}

@@ -122,9 +122,11 @@ type Map struct {
 	// Source width (0 for a column or a spill), L.
 	SourceWidth float64 `json:"-"`
 	// Receptors in the map's frame (site x, y; for a section plume_x, depth).
-	Receptors []MapPoint     `json:"-"`
-	Derived   plume.Derived  `json:"derived"`
-	Caveats   []plume.Caveat `json:"caveats"`
+	Receptors []MapPoint `json:"-"`
+	// The site frame's coordinate reference system ("" without one).
+	CRS     string         `json:"-"`
+	Derived plume.Derived  `json:"derived"`
+	Caveats []plume.Caveat `json:"caveats"`
 }
 
 // MapPoint is a labelled point of a map.
@@ -216,11 +218,17 @@ func validateMapOptions(mo MapOptions) (bad, over plume.FieldErrors) {
 				bad.Add(v.name, "must be a finite number")
 			}
 		}
-		if !(e.XMax > e.XMin) {
+		switch {
+		case !(e.XMax > e.XMin):
 			bad.Add("extent.x_max", fmt.Sprintf("must be > extent.x_min (%g), got %g", e.XMin, e.XMax))
+		case !plume.Finite(e.XMax - e.XMin):
+			bad.Add("extent.x_max", fmt.Sprintf("the width x_max - x_min (%g - %g) must be a finite number", e.XMax, e.XMin))
 		}
-		if !(e.YMax > e.YMin) {
+		switch {
+		case !(e.YMax > e.YMin):
 			bad.Add("extent.y_max", fmt.Sprintf("must be > extent.y_min (%g), got %g", e.YMin, e.YMax))
+		case !plume.Finite(e.YMax - e.YMin):
+			bad.Add("extent.y_max", fmt.Sprintf("the height y_max - y_min (%g - %g) must be a finite number", e.YMax, e.YMin))
 		}
 		if mo.View == ViewSection && e.YMin < 0 {
 			bad.Add("extent.y_min", fmt.Sprintf("a section's depth must be >= 0, got %g", e.YMin))

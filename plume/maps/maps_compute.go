@@ -92,6 +92,9 @@ func prepareMap(sc plume.Scenario, mo MapOptions) (*plume.Model, error) {
 			return nil, err
 		}
 	}
+	if len(bad) == 0 {
+		bad = checkOptionsFinite(md, mo)
+	}
 	if len(bad) > 0 {
 		return nil, bad.Err()
 	}
@@ -99,6 +102,29 @@ func prepareMap(sc plume.Scenario, mo MapOptions) (*plume.Model, error) {
 		return nil, over.OverLimit("the map is over the limits")
 	}
 	return md, nil
+}
+
+// checkOptionsFinite refuses options that are valid one by one but whose
+// canonical values overflow: a time beyond float64 once in days, and a
+// plan-view extent whose corners overflow in the plume frame (far from
+// the source).
+func checkOptionsFinite(md *plume.Model, mo MapOptions) plume.FieldErrors {
+	var bad plume.FieldErrors
+	uf := md.Factors()
+	if t := mo.Time; t != nil && !t.Steady && !plume.Finite(md.Elapsed(t.Value)) {
+		bad.Add("time", fmt.Sprintf("out of range: %g %s is beyond the floating-point range in days", t.Value, md.Units().Time))
+	}
+	if e := mo.Extent; e != nil && mo.View != ViewSection {
+		fr := md.Frame()
+		for _, c := range [][2]float64{{e.XMin, e.YMin}, {e.XMax, e.YMin}, {e.XMin, e.YMax}, {e.XMax, e.YMax}} {
+			px, py := fr.ToPlume(c[0]*uf.L, c[1]*uf.L)
+			if !plume.Finite(px) || !plume.Finite(py) || !plume.Finite(px-py) {
+				bad.Add("extent", "the extent lies too far from the source: its distances from the source overflow")
+				break
+			}
+		}
+	}
+	return bad
 }
 
 // mapLevels are the outline levels, canonical: the given ones, else the
@@ -174,6 +200,7 @@ func newMap(md *plume.Model, res *plume.Result, mo MapOptions, view string, mt M
 		Derived:   res.Derived,
 		Caveats:   res.Caveats,
 		Frame:     md.SiteFrame(),
+		CRS:       sc.CRS,
 		Receptors: make([]MapPoint, len(res.Receptors)),
 	}
 	if mo.DepthBottom != nil && view == ViewPlan {
@@ -408,7 +435,9 @@ func layout(e Extent, view string, mo MapOptions, uf plume.UnitFactors) (contour
 		// Rounding the origin down added a row or column: drop it.
 		nxf = math.Min(nxf, math.Floor(float64(budget)/nyf))
 	}
-	if nxf*nyf > MaxMapCells || nxf > MaxMapCells || nyf > MaxMapCells {
+	// Negated so that a NaN (an origin or a count that overflowed) is over.
+	if !(nxf*nyf <= MaxMapCells && nxf <= MaxMapCells && nyf <= MaxMapCells) ||
+		!plume.Finite(x0+nxf*dx) || !plume.Finite(y0+nyf*dy) {
 		return contour.Grid{}, plume.FieldErrors{{Field: "spacing", Message: fmt.Sprintf(
 			"the grid would hold %.0f x %.0f nodes; at most %d allowed: give a larger spacing or a smaller extent", nxf, nyf, MaxMapCells)}}.OverLimit("the map is over the limits")
 	}

@@ -13,6 +13,7 @@ import (
 	"strings"
 	"sync"
 	"sync/atomic"
+	"time"
 
 	"downgradient/plume"
 )
@@ -42,6 +43,9 @@ type UncertaintyRequest struct {
 	Methods []string
 	// Parallel workers; 0 means runtime.GOMAXPROCS(0).
 	Workers int
+	// The compound analysed, for a scenario of several (contaminants[]);
+	// "" for a scenario of one. See plume.Model.Focus.
+	Compound string
 }
 
 type UncertaintyResult struct {
@@ -202,6 +206,9 @@ func RunUncertainty(ctx context.Context, req UncertaintyRequest, opt plume.Optio
 	if err != nil {
 		return nil, err
 	}
+	if base, err = base.Focus(req.Compound); err != nil {
+		return nil, err
+	}
 	samples := SampleLatinHypercube(req.Parameters, n, req.Seed)
 	if err := checkSampleRange(tmpl, req.Parameters, samples); err != nil {
 		return nil, err
@@ -223,20 +230,23 @@ func RunUncertainty(ctx context.Context, req UncertaintyRequest, opt plume.Optio
 }
 
 type run struct {
-	req        UncertaintyRequest
-	tmpl       plume.Scenario
-	opt        plume.Options
-	methods    []string
-	numeric    bool
-	samples    [][]float64
-	n, nr, nt  int       // realizations, receptors, times
-	vals       []float64 // see at
-	peaks      []float64 // [r*n+k]: peak of receptor r in realization k, request unit
-	levels     []float64 // screening level per realization (request unit), NaN when none
-	workers    int
-	failed     atomic.Bool
-	once       sync.Once
-	firstError error
+	req       UncertaintyRequest
+	tmpl      plume.Scenario
+	opt       plume.Options
+	methods   []string
+	numeric   bool
+	samples   [][]float64
+	n, nr, nt int       // realizations, receptors, times
+	vals      []float64 // see at
+	peaks     []float64 // [r*n+k]: peak of receptor r in realization k, request unit
+	levels    []float64 // screening level per realization (request unit), NaN when none
+	workers   int
+	start     time.Time // of the evaluation
+	failed    atomic.Bool
+	// project runs once, after the first numeric realization.
+	projectOnce sync.Once
+	once        sync.Once
+	firstError  error
 }
 
 func (r *run) at(mi, rc, j, k int) *float64 {
@@ -254,6 +264,8 @@ func (r *run) evaluate(ctx context.Context) error {
 		workers = runtime.GOMAXPROCS(0)
 	}
 	workers = max(1, min(workers, r.n))
+	r.workers = workers
+	r.start = time.Now()
 	var next atomic.Int64
 	var wg sync.WaitGroup
 	for range workers {
@@ -278,11 +290,40 @@ func (r *run) evaluate(ctx context.Context) error {
 					r.fail(err)
 					return
 				}
+				if r.numeric {
+					r.projectOnce.Do(func() {
+						if err := r.project(ctx); err != nil {
+							r.fail(err)
+						}
+					})
+				}
 			}
 		}()
 	}
 	wg.Wait()
 	return r.firstError
+}
+
+// project refuses a numeric run that cannot finish within ctx's deadline:
+// from the time its first realization took (every worker started one at
+// the same time), each worker has ceil(n / workers) to run one after the
+// other. The error names realizations and says how many would fit.
+func (r *run) project(ctx context.Context) error {
+	deadline, ok := ctx.Deadline()
+	if !ok {
+		return nil
+	}
+	each := time.Since(r.start)
+	rounds := (r.n + r.workers - 1) / r.workers
+	if r.start.Add(time.Duration(rounds) * each).Before(deadline) {
+		return nil
+	}
+	fit := int(deadline.Sub(r.start)/max(each, time.Nanosecond)) * r.workers
+	var fe plume.FieldErrors
+	fe.Add("realizations", fmt.Sprintf(
+		"each numeric realization takes about %.2g s here; %d of them (%d at a time) cannot finish within the deadline, about %d could: ask for fewer realizations or the closed forms (exact, domenico)",
+		each.Seconds(), r.n, r.workers, max(fit, 1)))
+	return fe.OverLimit("the numeric realizations cannot finish within the deadline")
 }
 
 func (r *run) realize(ctx context.Context, k int) error {
@@ -412,6 +453,9 @@ func drivers(params []UncertainParameter, paramRanks [][]float64, pr []float64) 
 
 func (r *run) realizeClosed(sc plume.Scenario, k int) error {
 	md, err := plume.Prepare(sc)
+	if err == nil {
+		md, err = md.Focus(r.req.Compound)
+	}
 	if err != nil {
 		return err
 	}
@@ -469,6 +513,9 @@ func (r *run) realizeClosed(sc plume.Scenario, k int) error {
 
 func (r *run) realizeScreen(ctx context.Context, sc plume.Scenario, k int) error {
 	res, err := plume.Screen(ctx, sc, r.opt)
+	if err == nil {
+		res, err = res.Focus(r.req.Compound)
+	}
 	if err != nil {
 		return err
 	}

@@ -1,0 +1,144 @@
+package plume
+
+import "math"
+
+// deriveSourceReport lists each source's initial mass discharge Q C0, with
+// Q the Darcy flux through its face n_e v W D (canonical g/d), in
+// Derived.Sources; the depletion fields stay null without a source mass.
+func (m *model) deriveSourceReport() {
+	m.derived.Sources = make([]SourceDerived, m.sourceCount())
+	for i := range m.sourceCount() {
+		s := m.source(i)
+		sd := SourceDerived{ID: s.id}
+		if q := m.faceFlow(s); q > 0 {
+			sd.MassDischarge = Ptr(q * s.c0)
+		}
+		m.derived.Sources[i] = sd
+	}
+}
+
+// faceFlow is the water flux through a planar source's face, n_e v W D,
+// m^3/d; 0 for a column, an instantaneous release or without porosity.
+func (m *model) faceFlow(s *sourceParams) float64 {
+	if s.kind != SourceKind3D || !(m.porosity > 0) {
+		return 0
+	}
+	return m.porosity * m.v * s.width * s.depth
+}
+
+// primaryValues are the primary method's values of a receptor: at the
+// requested times (canonical) and at steady state.
+func primaryValues(rr *ReceptorResult, exact bool) (times []float64, steady float64) {
+	pick := func(e, d *float64) float64 {
+		v := d
+		if exact {
+			v = e
+		}
+		if v == nil {
+			return 0
+		}
+		return *v
+	}
+	for _, sp := range rr.Series {
+		times = append(times, pick(sp.Exact, sp.Domenico))
+	}
+	return times, pick(rr.SteadyState.Exact, rr.SteadyState.Domenico)
+}
+
+// allowances sets, for each receptor compared with a screening level, the
+// allowable source concentration and the dilution attenuation factor (one
+// source) or the allowable scale factor of every source (several), at
+// steady state and within the requested times: the model is linear in the
+// source concentrations, so the receptor just reaches the level at C0
+// level / C. A member is null where the receptor's value is 0, the
+// receptor is not modelled, or (steady state) the sources are not constant.
+func (m *model) allowances(res *Result, pts []Point, sp screenPlan) {
+	if m.screening == nil || m.kind == SourceKindInstantaneous {
+		return
+	}
+	level := *m.screening
+	several := len(m.extra) > 0
+	var worst Allowance
+	for i := range res.Receptors {
+		rr := &res.Receptors[i]
+		if pts[i].upgradient() {
+			continue
+		}
+		times, steady := primaryValues(rr, sp.primaryExact)
+		within := 0.0
+		for _, c := range times {
+			within = math.Max(within, c)
+		}
+		if !m.allContinuous() {
+			steady = 0
+		}
+		scale := Allowance{SteadyState: ratio(level, steady), WithinTimes: ratio(level, within)}
+		if several {
+			rr.AllowableScaleFactor = &scale
+			worst.SteadyState = minPtr(worst.SteadyState, scale.SteadyState)
+			worst.WithinTimes = minPtr(worst.WithinTimes, scale.WithinTimes)
+			continue
+		}
+		rr.AllowableSourceConcentration = &Allowance{SteadyState: times0(scale.SteadyState, m.c0), WithinTimes: times0(scale.WithinTimes, m.c0)}
+		rr.DilutionAttenuationFactor = &Allowance{SteadyState: ratio(m.c0, steady), WithinTimes: ratio(m.c0, within)}
+	}
+	if several {
+		res.AllowableScaleFactor = &worst
+	}
+}
+
+// ratio is a/b, nil when b is not positive.
+func ratio(a, b float64) *float64 {
+	if !(b > 0) {
+		return nil
+	}
+	return Ptr(a / b)
+}
+
+// times0 is f*c0, nil with f.
+func times0(f *float64, c0 float64) *float64 {
+	if f == nil {
+		return nil
+	}
+	return Ptr(*f * c0)
+}
+
+// minPtr is the smaller of two optional values.
+func minPtr(a, b *float64) *float64 {
+	switch {
+	case a == nil:
+		return b
+	case b == nil:
+		return a
+	}
+	return Ptr(math.Min(*a, *b))
+}
+
+// contributions lists each source's part of every receptor's values, with
+// the methods run (several sources, asked for with contributions: true).
+func (m *model) contributions(res *Result, pts []Point, sp screenPlan) {
+	inf := math.Inf(1)
+	for r := range res.Receptors {
+		rr := &res.Receptors[r]
+		for i := range m.sourceCount() {
+			c := Contribution{SourceID: m.source(i).id, Series: make([]SeriesPoint, len(sp.taus))}
+			value := func(exact bool, tau float64) *float64 { return Ptr(m.contribution(exact, pts[r], tau, i)) }
+			for j, tau := range sp.taus {
+				c.Series[j] = SeriesPoint{Time: sp.reqTimes[j]}
+				if sp.run.exact {
+					c.Series[j].Exact = value(true, tau)
+				}
+				if sp.run.domenico {
+					c.Series[j].Domenico = value(false, tau)
+				}
+			}
+			if sp.run.exact {
+				c.SteadyState.Exact = value(true, inf)
+			}
+			if sp.run.domenico {
+				c.SteadyState.Domenico = value(false, inf)
+			}
+			rr.Contributions = append(rr.Contributions, c)
+		}
+	}
+}
