@@ -62,7 +62,7 @@ func (s *server) reports(c echo.Context) error {
 	}
 	page, p := compute(ctx, s, rename, func(ctx context.Context) ([]byte, error) {
 		opts.compact = true
-		views, err := compoundViews(res)
+		views, err := memoViews(res)
 		if err != nil {
 			return nil, err
 		}
@@ -70,7 +70,7 @@ func (s *server) reports(c echo.Context) error {
 			opts.Time = peakMapTime(views[0].Res)
 			opts.atPeak = opts.Time != nil
 		}
-		needs := figureNeeds{breakthrough: plotReceptors(plotRows(views)), profile: true, planMap: true, section: true,
+		needs := figureNeeds{breakthrough: plotReceptors(plotRows(views)), profile: true, planMap: true, section: true, compound: views[0].Name,
 			mapCells: reportMapCells, sectionCells: reportSectionCells, opts: opts, unc: rq.unc}
 		fi, err := s.computeFigures(ctx, sc, res, needs)
 		if err != nil {

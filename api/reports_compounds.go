@@ -10,26 +10,26 @@ import (
 	"downgradient/plume"
 )
 
-// compoundView is a screening seen through one compound of several
+// memoView is a screening seen through one compound of several
 // (plume's Result.Focus), or as it is for a scenario of one compound.
-type compoundView struct {
+type memoView struct {
 	// Name of the compound; "" for a scenario of one compound.
 	Name string
 	Res  *plume.Result
 }
 
 // compoundViews are the screening's compounds, in the scenario's order.
-func compoundViews(res *plume.Result) ([]compoundView, error) {
+func memoViews(res *plume.Result) ([]memoView, error) {
 	if len(res.Derived.Compounds) == 0 {
-		return []compoundView{{Res: res}}, nil
+		return []memoView{{Res: res}}, nil
 	}
-	out := make([]compoundView, 0, len(res.Derived.Compounds))
+	out := make([]memoView, 0, len(res.Derived.Compounds))
 	for _, cd := range res.Derived.Compounds {
 		f, err := res.Focus(cd.Name)
 		if err != nil {
 			return nil, err
 		}
-		out = append(out, compoundView{Name: cd.Name, Res: f})
+		out = append(out, memoView{Name: cd.Name, Res: f})
 	}
 	return out, nil
 }
@@ -50,7 +50,7 @@ type plotRow struct{ receptor, compound int }
 // plotRows are the plots of the memo: every modelled receptor and
 // compound, in the results table's order (reaching the level first, then
 // by peak concentration), at most maxReportReceptorPlots.
-func plotRows(views []compoundView) []plotRow {
+func plotRows(views []memoView) []plotRow {
 	type keyed struct {
 		plotRow
 		exceeds bool

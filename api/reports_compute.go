@@ -31,6 +31,8 @@ type figureNeeds struct {
 	// Node budgets of the map and the section; 0: the maps default.
 	mapCells, sectionCells int
 	opts                   figureOptions
+	// compound the map and section show (the first of several; "" for one).
+	compound string
 	// unc, when set, is run beside the pictures.
 	unc *uncertainty.UncertaintyRequest
 }
@@ -80,14 +82,14 @@ func (s *server) computeFigures(ctx context.Context, sc plume.Scenario, res *plu
 	}
 	if needs.planMap {
 		parts = append(parts, func() (err error) {
-			mo := maps.MapOptions{Levels: levels, Time: needs.opts.Time, Cells: cellsOpt(needs.mapCells)}
+			mo := maps.MapOptions{Levels: levels, Time: needs.opts.Time, Cells: cellsOpt(needs.mapCells), Compound: needs.compound}
 			fi.planMap, err = maps.PlumeMap(ctx, sc, mo, opt)
 			return err
 		})
 	}
 	if needs.section {
 		parts = append(parts, func() (err error) {
-			mo := maps.MapOptions{View: maps.ViewSection, Levels: levels, Time: needs.opts.Time, Cells: cellsOpt(needs.sectionCells)}
+			mo := maps.MapOptions{View: maps.ViewSection, Levels: levels, Time: needs.opts.Time, Cells: cellsOpt(needs.sectionCells), Compound: needs.compound}
 			fi.section, err = maps.PlumeMap(ctx, sc, mo, opt)
 			return err
 		})

@@ -65,7 +65,7 @@ func markOf(rr plume.ReceptorResult, x, y float64) plots.Mark {
 // screening at denseTimes, seen through the same compound), the numeric
 // values at the requested times as markers (when it ran), the first
 // exceedance of the primary method.
-func breakthroughData(v compoundView, dr plume.ReceptorResult, i int, o figureOptions) plots.Breakthrough {
+func breakthroughData(v memoView, dr plume.ReceptorResult, i int, o figureOptions) plots.Breakthrough {
 	res := v.Res
 	rr := res.Receptors[i]
 	b := plots.Breakthrough{Receptor: rr.ID, Compound: v.Name, TimeUnit: res.Units.Time, ConcUnit: res.Units.Concentration,
@@ -99,7 +99,7 @@ func breakthroughData(v compoundView, dr plume.ReceptorResult, i int, o figureOp
 
 // profileData turns a centreline profile into plot data (the profile of
 // the scenario's first compound, v).
-func profileData(pr *maps.Profile, v compoundView, o figureOptions) plots.Profile {
+func profileData(pr *maps.Profile, v memoView, o figureOptions) plots.Profile {
 	res := v.Res
 	p := plots.Profile{LengthUnit: res.Units.Length, ConcUnit: res.Units.Concentration, Depth: pr.Depth, Compound: v.Name,
 		ScreeningLevel: pr.ScreeningLevel, Labels: o.Labels, Floor: res.Derived.ConcentrationFloor}
@@ -129,7 +129,7 @@ func whenText(t maps.MapTime, timeUnit string) string {
 // mapData turns a plan-view map into plot data: the outlines, every
 // source's face and zone, and the receptors by outcome (the map and v are
 // of the scenario's first compound).
-func mapData(mp *maps.Map, v compoundView, sc plume.Scenario, o figureOptions) plots.PlanMap {
+func mapData(mp *maps.Map, v memoView, sc plume.Scenario, o figureOptions) plots.PlanMap {
 	u := mp.Units
 	depth := fmt.Sprintf("%s %s below the water table", plots.FormatNumber(mp.Depth), u.Length)
 	if mp.Depth == 0 {
@@ -178,7 +178,7 @@ func sectionCorridor(mp *maps.Map) float64 {
 
 // sectionData turns a vertical section map into plot data: the receptors
 // within sectionCorridor of the axis, screens as bars.
-func sectionData(mp *maps.Map, v compoundView, sc plume.Scenario, o figureOptions) plots.Section {
+func sectionData(mp *maps.Map, v memoView, sc plume.Scenario, o figureOptions) plots.Section {
 	u, g, res := mp.Units, mp.Grid, v.Res
 	s := plots.Section{
 		Title:      compoundTitle(v.Name, fmt.Sprintf("Section along the plume axis %s (%s solution)", whenText(mp.Time, u.Time), mp.Method)),

@@ -90,7 +90,7 @@ func (s *server) plotsHandler(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	views, err := compoundViews(res)
+	views, err := memoViews(res)
 	if err != nil {
 		return s.problemFromError(c.Request().Context(), err, nil)
 	}
@@ -98,7 +98,7 @@ func (s *server) plotsHandler(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	needs := figureNeeds{opts: opts, profile: kind == kindProfile, planMap: kind == kindMap, section: kind == kindSection}
+	needs := figureNeeds{opts: opts, profile: kind == kindProfile, planMap: kind == kindMap, section: kind == kindSection, compound: views[0].Name}
 	if kind == kindBreakthrough {
 		needs.breakthrough = []int{ri}
 	}
@@ -128,7 +128,7 @@ func (s *server) plotsHandler(c echo.Context) error {
 // (index of views) the query names: receptor by id, compound by name
 // (a scenario of several compounds); what is not named is the first of
 // the results table's order (reaching the level, highest peak).
-func plotTarget(c echo.Context, views []compoundView) (int, int, *Problem) {
+func plotTarget(c echo.Context, views []memoView) (int, int, *Problem) {
 	ri, ci := -1, -1
 	if id := c.QueryParam("receptor"); id != "" {
 		for i, rr := range views[0].Res.Receptors {
@@ -168,7 +168,7 @@ func plotTarget(c echo.Context, views []compoundView) (int, int, *Problem) {
 
 // figure builds one figure: a breakthrough plot of one receptor and
 // compound, or the profile, map or section of the first compound.
-func (fi *figureInputs) figure(kind string, views []compoundView, at plotRow, sc plume.Scenario, o figureOptions) (*plots.Figure, error) {
+func (fi *figureInputs) figure(kind string, views []memoView, at plotRow, sc plume.Scenario, o figureOptions) (*plots.Figure, error) {
 	switch kind {
 	case kindBreakthrough:
 		v := views[at.compound]

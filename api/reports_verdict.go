@@ -110,7 +110,7 @@ func shownTimes(n int) []int {
 // buildVerdict assembles the verdict table: a row per receptor, or per
 // receptor and compound for a scenario of several (views); caveatNo gives
 // the numbers of each receptor's own caveats in the caveat list.
-func buildVerdict(sc plume.Scenario, views []compoundView, caveatNo map[string][]int) verdictTable {
+func buildVerdict(sc plume.Scenario, views []memoView, caveatNo map[string][]int) verdictTable {
 	var vt verdictTable
 	methods := make([]string, len(views))
 	for k, v := range views {

@@ -84,7 +84,7 @@ type numberedCaveat struct {
 }
 
 // buildReport assembles the page's content.
-func buildReport(sb scenarioBody, res *plume.Result, views []compoundView, fi *figureInputs, o figureOptions) (*reportView, error) {
+func buildReport(sb scenarioBody, res *plume.Result, views []memoView, fi *figureInputs, o figureOptions) (*reportView, error) {
 	sc := sb.Scenario
 	u := res.Units
 	rv := &reportView{Style: template.CSS(reportStyle), Engine: res.Engine, Units: u, Caution: plume.ScreeningCaution,
@@ -227,7 +227,7 @@ func methodsInWords(ran []string, res *plume.Result, fi *figureInputs) []string 
 
 // addFigures renders the map, the section and the profile (of the first
 // compound) and the breakthrough plots (plotRows).
-func (rv *reportView) addFigures(views []compoundView, fi *figureInputs, sc plume.Scenario, o figureOptions) error {
+func (rv *reportView) addFigures(views []memoView, fi *figureInputs, sc plume.Scenario, o figureOptions) error {
 	res := views[0].Res
 	L, C := res.Units.Length, res.Units.Concentration
 	fg := &rv.Figures
@@ -258,7 +258,7 @@ func (rv *reportView) addFigures(views []compoundView, fi *figureInputs, sc plum
 }
 
 // addBreakthroughs renders a breakthrough plot per row of plotRows.
-func (rv *reportView) addBreakthroughs(views []compoundView, fi *figureInputs, o figureOptions) error {
+func (rv *reportView) addBreakthroughs(views []memoView, fi *figureInputs, o figureOptions) error {
 	rows := plotRows(views)
 	if n := len(views) * len(views[0].Res.Receptors); len(rows) < n {
 		what := "receptors"

@@ -71,15 +71,16 @@ func (m *model) screenReceptorCompounds(ctx context.Context, p Point, sp screenP
 	if !ok {
 		return rr
 	}
+	memo := compoundMemo{m: m, p: p, exact: sp.primaryExact, vals: map[float64][]float64{}}
 	for i := range m.compounds {
-		rr.Compounds = append(rr.Compounds, m.screenCompound(ctx, p, sp, cs, i))
+		rr.Compounds = append(rr.Compounds, m.screenCompound(ctx, p, sp, cs, i, &memo))
 	}
 	rr.ExceedsScreeningLevel = aggregateExceeds(rr.Compounds)
 	return rr
 }
 
 // screenCompound is compound i's answer at p.
-func (m *model) screenCompound(ctx context.Context, p Point, sp screenPlan, cs compoundSeries, i int) CompoundResult {
+func (m *model) screenCompound(ctx context.Context, p Point, sp screenPlan, cs compoundSeries, i int, memo *compoundMemo) CompoundResult {
 	cp := &m.compounds[i]
 	cr := CompoundResult{Name: cp.name, Status: p.Status, Series: make([]SeriesPoint, len(sp.taus)), ScreeningLevel: copyPtr(cp.screening)}
 	for j := range sp.taus {
@@ -110,9 +111,7 @@ func (m *model) screenCompound(ctx context.Context, p Point, sp screenPlan, cs c
 		if ctx.Err() != nil {
 			return 0
 		}
-		out := make([]float64, len(m.compounds))
-		m.compoundValues(exact, p, tau, out)
-		return out[i]
+		return memo.at(tau)[i]
 	}
 	var known timeline
 	for j, tau := range sp.taus {
@@ -161,4 +160,27 @@ func aggregateExceeds(cs []CompoundResult) *bool {
 		return nil
 	}
 	return new(false)
+}
+
+// compoundMemo remembers every compound's primary closed-form values at a
+// receptor by elapsed time: the peak and first-exceedance searches of the
+// compounds share the times they start from (the requested times, the
+// characteristic time and its doublings and halvings), and one evaluation
+// gives all compounds.
+type compoundMemo struct {
+	m     *model
+	p     Point
+	exact bool
+	vals  map[float64][]float64
+}
+
+// at returns the compounds' values at elapsed time tau, d.
+func (c *compoundMemo) at(tau float64) []float64 {
+	if v, ok := c.vals[tau]; ok {
+		return v
+	}
+	v := make([]float64, len(c.m.compounds))
+	c.m.compoundValues(c.exact, c.p, tau, v)
+	c.vals[tau] = v
+	return v
 }
