@@ -81,7 +81,7 @@ func chromiumPath(t *testing.T) string {
 			return p
 		}
 	}
-	if os.Getenv("CI") == "true" {
+	if inCI() {
 		t.Fatal("chromium is missing in CI: .ci/run installs the Debian packages chromium and chromium-driver")
 	}
 	t.Skip("chromium not installed: apt-get install -y chromium chromium-driver to run the browser check")
