@@ -284,7 +284,7 @@ func (m *model) receptorPeak(ctx context.Context, p Point, sp screenPlan, rr *Re
 		// Compared: a modelled value (or, inside the source zone, the
 		// source's own concentration) against a known level.
 		rr.ExceedsScreeningLevel = new(pk.c >= *m.screening && pk.c > 0)
-		if tau, ok := m.firstExceedance(f, p, pk, known, *m.screening); ok {
+		if tau, ok := m.firstExceedance(f, sp.primaryExact, p, pk, known, *m.screening); ok {
 			rr.FirstExceedanceTime = Ptr(m.start + tau)
 		}
 	}
