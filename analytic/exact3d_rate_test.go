@@ -15,8 +15,8 @@ func TestExact3DRateReference(t *testing.T) {
 	var f struct {
 		Cases []struct {
 			X, Y, Top, Bottom, T, V, Dx, Dy, Dz, R, Mu float64
-			Width, Depth                                *float64
-			Rate                                        string
+			Width, Depth                               *float64
+			Rate                                       string
 		}
 	}
 	refLoad(t, "exact3d_rate.json", &f)
