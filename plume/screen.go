@@ -324,7 +324,7 @@ func (m *model) screenNumeric(ctx context.Context, res *Result, pts []Point, sp 
 			return nil
 		}
 		res.Numeric = rep
-		m.attachNumericCompounds(res, values, pts, sp)
+		m.attachNumericCompounds(res, values, pts, sp, opt.NumericTolerance)
 		return nil
 	}
 	nr, reason, err := m.runNumeric(ctx, pts, sp.taus, opt.CellBudget)
