@@ -55,6 +55,15 @@ var goldenBodies = map[string]func(testing.TB) []byte{
 	"demo-spill":   func(t testing.TB) []byte { return mustJSON(t, goldenSpill(t)) },
 	"demo-numeric": func(t testing.TB) []byte { return mustJSON(t, goldenNumeric(t)) },
 	"imperial":     func(t testing.TB) []byte { return []byte(goldenImperial) },
+	// The invented dry-cleaner chain, closed forms only (the numeric chain
+	// takes seconds), and the same with one retardation factor so that the
+	// chain's closed forms give every compound.
+	"dry-cleaner": func(t testing.TB) []byte { return mustJSON(t, dryCleanerMapB(t)) },
+	"dry-cleaner-equal-r": func(t testing.TB) []byte {
+		m := dryCleanerMapB(t)
+		equalRChain(m)
+		return mustJSON(t, m)
+	},
 	"uncertainty": func(t testing.TB) []byte {
 		m := uncertaintyMap(t)
 		m["realizations"], m["methods"] = 50, []any{"exact"}
@@ -86,6 +95,9 @@ var goldenCases = []goldenCase{
 	{name: "screenings-imperial-csv", ext: "csv", method: "POST", target: "/v1/screenings?format=csv", body: "imperial"},
 	{name: "screenings-imperial-geojson", ext: "geojson", method: "POST", target: "/v1/screenings?format=geojson", body: "imperial"},
 	{name: "screenings-numeric", ext: "json", method: "POST", target: "/v1/screenings", body: "demo-numeric"},
+	{name: "screenings-dry-cleaner", ext: "json", method: "POST", target: "/v1/screenings", body: "dry-cleaner"},
+	{name: "screenings-dry-cleaner-equal-r-csv", ext: "csv", method: "POST", target: "/v1/screenings?format=csv", body: "dry-cleaner-equal-r"},
+	{name: "screenings-dry-cleaner-equal-r-geojson", ext: "geojson", method: "POST", target: "/v1/screenings?format=geojson", body: "dry-cleaner-equal-r"},
 	// The spreadsheet GET (text/plain is its only representation).
 	{name: "concentration-demo-365", ext: "txt", method: "GET", target: concentrationQuery(1287.6, 816.3, 1, "365", "exact")},
 	{name: "concentration-demo-steady", ext: "txt", method: "GET", target: concentrationQuery(1449.4, 763.8, 5, "steady", "domenico")},
