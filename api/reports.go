@@ -376,18 +376,7 @@ func derivedRows(d plume.Derived, u plume.Units) []reportRow {
 		reportRow{Name: "Half-life used", Value: hl, Unit: T, Origin: o, Estimated: e},
 		reportRow{Name: "Decay rate in the retarded equation", Value: fmtReportNumber(d.EffectiveDecayRate), Unit: "1/" + T,
 			Origin: "ln 2 / half-life, acting on " + map[string]string{"total": "dissolved and sorbed mass", "dissolved": "the dissolved phase only (divided by R)"}[d.DecayAppliesTo]})
-	for _, dv := range []struct {
-		name, path string
-		v, disp    float64
-	}{
-		{"Longitudinal dispersivity", "aquifer.dispersivity.longitudinal", d.Dispersivity.Longitudinal, d.Dispersion.Longitudinal},
-		{"Transverse dispersivity", "aquifer.dispersivity.transverse", d.Dispersivity.Transverse, d.Dispersion.Transverse},
-		{"Vertical dispersivity", "aquifer.dispersivity.vertical", d.Dispersivity.Vertical, d.Dispersion.Vertical},
-	} {
-		o, e := origin(dv.path, "given")
-		rows = append(rows, reportRow{Name: dv.name, Value: fmtReportNumber(dv.v), Unit: L, Origin: o, Estimated: e})
-	}
-	rows = append(rows, reportRow{Name: "Longitudinal dispersion coefficient", Value: fmtReportNumber(d.Dispersion.Longitudinal), Unit: L + "²/" + T, Origin: "α_L v + D_e"})
+	rows = append(rows, dispersivityRows(d, L, T, origin)...)
 	sl := "none"
 	if d.ScreeningLevel != nil {
 		sl = fmtReportNumber(*d.ScreeningLevel)
@@ -399,4 +388,27 @@ func derivedRows(d plume.Derived, u plume.Units) []reportRow {
 	rows = append(rows, reportRow{Name: "Screening level", Value: sl, Unit: u.Concentration, Origin: o, Estimated: e})
 	rows = append(rows, reportRow{Name: "Source model", Value: map[string]string{"3d": "vertical rectangle (3D)", "1d": "column (1D)", "instantaneous": "instantaneous release"}[d.SourceKind], Origin: "from the source fields given"})
 	return rows
+}
+
+// dispersivityRows are the model-wide dispersivities and the longitudinal
+// dispersion coefficient; when each receptor has its own (estimated at its
+// own travel distance) one row says so.
+func dispersivityRows(d plume.Derived, L, T string, origin func(path, computed string) (string, bool)) []reportRow {
+	if d.Dispersivity == nil || d.Dispersion == nil {
+		return []reportRow{{Name: "Dispersivities", Value: "per receptor", Unit: L, Estimated: true,
+			Origin: "estimated at each receptor's own travel distance (Xu & Eckstein 1995; ratios common practice)"}}
+	}
+	var rows []reportRow
+	for _, dv := range []struct {
+		name, path string
+		v          float64
+	}{
+		{"Longitudinal dispersivity", "aquifer.dispersivity.longitudinal", d.Dispersivity.Longitudinal},
+		{"Transverse dispersivity", "aquifer.dispersivity.transverse", d.Dispersivity.Transverse},
+		{"Vertical dispersivity", "aquifer.dispersivity.vertical", d.Dispersivity.Vertical},
+	} {
+		o, e := origin(dv.path, "given")
+		rows = append(rows, reportRow{Name: dv.name, Value: fmtReportNumber(dv.v), Unit: L, Origin: o, Estimated: e})
+	}
+	return append(rows, reportRow{Name: "Longitudinal dispersion coefficient", Value: fmtReportNumber(d.Dispersion.Longitudinal), Unit: L + "²/" + T, Origin: "α_L v + D_e"})
 }
