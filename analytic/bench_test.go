@@ -6,61 +6,82 @@ import (
 	"time"
 )
 
-// assertPerOp fails a benchmark whose mean time per operation exceeds
-// limit, once enough iterations have run for the mean to mean something
-// (the speed targets of DESIGN.md section 7 live here, not in unit tests).
-func assertPerOp(b *testing.B, limit time.Duration) {
+// Speed targets (DESIGN.md section 7) live here, not in unit tests, and are
+// asserted as ratios to a floor measured in the same run: two math.Erfc
+// calls (BenchmarkErfcPair). A busy machine slows the floor and the
+// workload alike, so the ratio holds where an absolute time would not.
+
+var sink float64
+
+// erfcPair is the floor: two math.Erfc calls, at arguments that move so
+// that nothing is hoisted out of the loop.
+func erfcPair(i int) {
+	x := 0.3 + float64(i&1023)*1e-9
+	sink += math.Erfc(x) + math.Erfc(x+1.1)
+}
+
+// BenchmarkErfcPair is the floor the targets are measured against.
+func BenchmarkErfcPair(b *testing.B) {
+	for i := 0; i < b.N; i++ {
+		erfcPair(i)
+	}
+}
+
+// costRatio returns the cost of one call of work over the cost of the
+// floor, both timed in turn in the same process: rounds chunks of each,
+// interleaved, and the ratio of the fastest chunk of work to the fastest
+// chunk of the floor (per call), so that a machine busy for part of the
+// measurement slows neither minimum.
+func costRatio(work func(i int), n int) float64 {
+	const rounds = 25
+	chunk := func(f func(i int), m int) time.Duration {
+		start := time.Now()
+		for i := 0; i < m; i++ {
+			f(i)
+		}
+		return time.Since(start) / time.Duration(m)
+	}
+	floor, cost := time.Duration(math.MaxInt64), time.Duration(math.MaxInt64)
+	for r := 0; r < rounds; r++ {
+		floor = min(floor, chunk(erfcPair, 20000))
+		cost = min(cost, chunk(work, n))
+	}
+	return float64(cost) / float64(max(floor, 1))
+}
+
+// assertRatio fails the benchmark if work costs more than limit times the
+// floor, once the benchmark itself has run long enough to be a real run
+// (not the single-iteration probe), and reports the ratio.
+func assertRatio(b *testing.B, work func(i int), n int, limit float64) {
 	b.Helper()
 	if b.N < 1000 {
 		return
 	}
-	per := b.Elapsed() / time.Duration(b.N)
-	b.ReportMetric(float64(limit.Nanoseconds()), "target-ns/op")
-	if per > limit {
-		b.Errorf("%v per evaluation, target %v", per, limit)
-	}
-}
-
-// erfcPairCost times two math.Erfc calls, the floor of the 1D target.
-func erfcPairCost() time.Duration {
-	const n = 2_000_000
-	x := 0.3
-	start := time.Now()
-	for i := 0; i < n; i++ {
-		sink += math.Erfc(x) + math.Erfc(x+1.1)
-		x += 1e-9
-	}
-	return time.Since(start) / n
-}
-
-var sink float64
-
-// BenchmarkErfcPair is the floor the 1D target is measured against: two
-// math.Erfc calls.
-func BenchmarkErfcPair(b *testing.B) {
-	x := 0.3
-	for i := 0; i < b.N; i++ {
-		sink += math.Erfc(x) + math.Erfc(x+1.1)
-		x += 1e-9
-	}
-}
-
-// BenchmarkOgataBanks evaluates the 1D value over a spread of Peclet numbers
-// and times (target: within 3x of BenchmarkErfcPair).
-func BenchmarkOgataBanks(b *testing.B) {
-	ps := []Params{{V: 0.1, Dx: 1, R: 1.4, Mu: 1e-3}, {V: 0.1, Dx: 0.01, R: 1}, {V: 1, Dx: 1e-4, R: 2, Mu: 1e-4}}
-	xs := []float64{5, 50, 300}
-	ts := []float64{100, 1000, 3650}
-	b.ResetTimer()
-	for i := 0; i < b.N; i++ {
-		k := i % 27
-		sink += OgataBanks(xs[k%3], ts[(k/3)%3], ps[k/9])
-	}
 	b.StopTimer()
-	if b.N >= 1000 {
-		// Target: within 3x of the cost of two math.Erfc calls.
-		assertPerOp(b, 3*erfcPairCost())
+	r := costRatio(work, n)
+	b.ReportMetric(r, "x-floor")
+	b.ReportMetric(limit, "limit-x-floor")
+	if r > limit {
+		b.Errorf("%.1f times the cost of two math.Erfc calls, target at most %v", r, limit)
 	}
+}
+
+// ogataBanksMix evaluates the 1D value over a spread of Peclet numbers and
+// times.
+func ogataBanksMix(i int) {
+	ps := [3]Params{{V: 0.1, Dx: 1, R: 1.4, Mu: 1e-3}, {V: 0.1, Dx: 0.01, R: 1}, {V: 1, Dx: 1e-4, R: 2, Mu: 1e-4}}
+	xs := [3]float64{5, 50, 300}
+	ts := [3]float64{100, 1000, 3650}
+	k := i % 27
+	sink += OgataBanks(xs[k%3], ts[(k/3)%3], ps[k/9])
+}
+
+// BenchmarkOgataBanks: the 1D value (target: at most 3 times the floor).
+func BenchmarkOgataBanks(b *testing.B) {
+	for i := 0; i < b.N; i++ {
+		ogataBanksMix(i)
+	}
+	assertRatio(b, ogataBanksMix, 2700, 3)
 }
 
 // demoParams is a typical screening case (alpha_L 10 m, alpha_T 1 m,
@@ -68,27 +89,39 @@ func BenchmarkOgataBanks(b *testing.B) {
 var demoParams = Params{V: 0.1, Dx: 1, Dy: 0.1, Dz: 0.01, R: 1.4, Mu: math.Ln2 / 720}
 var demoSource = Source{Width: 15, Depth: 3}
 
-// BenchmarkExact3D evaluates the exact 3D value at receptors on and off the
-// centreline, transient and steady (target: under 20 us).
-func BenchmarkExact3D(b *testing.B) {
-	pts := [][3]float64{{50, 0, 1}, {210, 6, 2}, {100, 20, 0}, {300, 0, 5}, {30, 5, 1}}
-	ts := []float64{365, 3650, math.Inf(1)}
-	b.ResetTimer()
-	for i := 0; i < b.N; i++ {
-		q := pts[i%5]
-		sink += Exact3D(q[0], q[1], q[2], ts[(i/5)%3], demoParams, demoSource)
-	}
-	assertPerOp(b, 20*time.Microsecond)
+// benchPoints and benchTimes are the receptors (x, y, z) and times of the
+// 3D benchmarks: on and off the axis, inside and below the source, early,
+// late and steady.
+var (
+	benchPoints = [5][3]float64{{50, 0, 1}, {210, 6, 2}, {100, 20, 0}, {300, 0, 5}, {30, 5, 1}}
+	benchTimes  = [3]float64{365, 3650, math.Inf(1)}
+)
+
+func exact3DMix(i int) {
+	q := benchPoints[i%5]
+	sink += Exact3D(q[0], q[1], q[2], benchTimes[(i/5)%3], demoParams, demoSource)
 }
 
-// BenchmarkDomenico evaluates the Domenico value (target: under 1 us).
-func BenchmarkDomenico(b *testing.B) {
-	pts := [][3]float64{{50, 0, 1}, {210, 6, 2}, {100, 20, 0}, {300, 0, 5}, {30, 5, 1}}
-	ts := []float64{365, 3650, math.Inf(1)}
-	b.ResetTimer()
+// BenchmarkExact3D: the exact 3D value at 1e-7 relative accuracy (target:
+// at most 100 times the floor, on average over the receptors and times).
+func BenchmarkExact3D(b *testing.B) {
 	for i := 0; i < b.N; i++ {
-		q := pts[i%5]
-		sink += Domenico(q[0], q[1], q[2], ts[(i/5)%3], demoParams, demoSource)
+		exact3DMix(i)
 	}
-	assertPerOp(b, time.Microsecond)
+	assertRatio(b, exact3DMix, 300, 100)
+}
+
+func domenicoMix(i int) {
+	q := benchPoints[i%5]
+	sink += Domenico(q[0], q[1], q[2], benchTimes[(i/5)%3], demoParams, demoSource)
+}
+
+// BenchmarkDomenico: the Domenico value (target: at most 25 times the
+// floor, the 1 us of DESIGN.md section 7 on a machine where the floor is
+// 40 ns).
+func BenchmarkDomenico(b *testing.B) {
+	for i := 0; i < b.N; i++ {
+		domenicoMix(i)
+	}
+	assertRatio(b, domenicoMix, 3000, 25)
 }

@@ -33,8 +33,9 @@ import (
 type ddFunc interface {
 	// value returns f(z).
 	value(z complex128) complex128
-	// jet writes the first len(out) Taylor coefficients of f about c.
-	jet(c complex128, out []complex128)
+	// jet writes the first len(out) Taylor coefficients of u -> f(c + h u)
+	// (h > 0 a scale that keeps them within the float64 range).
+	jet(c complex128, h float64, out []complex128)
 	// radius returns the radius of convergence of the Taylor series at c
 	// (the distance to the nearest singularity).
 	radius(c complex128) float64
@@ -98,6 +99,31 @@ func (s *ddSet) reset(f ddFunc, z []complex128) {
 			}
 		}
 	}
+	// A point outside a cluster but within twice its spread of its centre
+	// would make the Taylor series of f Q converge slowly (or not): it
+	// joins the cluster, until none is left.
+	for {
+		s.centres(n, find)
+		merged := false
+		for j := 0; j < n; j++ {
+			rj := find(j)
+			for r := 0; r < n && !merged; r++ {
+				if s.members[r] > 1 && r != rj && cmplx.Abs(z[j]-s.centre[r]) < 2*s.spread[r] {
+					s.cl[rj] = r
+					merged = true
+				}
+			}
+		}
+		if !merged {
+			break
+		}
+	}
+}
+
+// centres resolves every point to its cluster's root and computes the
+// clusters' sizes, centres and spreads.
+func (s *ddSet) centres(n int, find func(int) int) {
+	z := s.z
 	for i := 0; i < n; i++ {
 		s.members[i] = 0
 		s.centre[i] = 0
@@ -118,6 +144,11 @@ func (s *ddSet) reset(f ddFunc, z []complex128) {
 		r := s.cl[i]
 		s.spread[r] = math.Max(s.spread[r], cmplx.Abs(z[i]-s.centre[r]))
 	}
+	// Jets depend on the centre: drop those of the previous clustering.
+	for i := 0; i < n; i++ {
+		s.jets[i] = nil
+	}
+	s.used = 0
 }
 
 func (s *ddSet) value(i int) complex128 {
@@ -128,8 +159,8 @@ func (s *ddSet) value(i int) complex128 {
 	return s.val[i]
 }
 
-// jet returns at least n Taylor coefficients of f about the centre of
-// cluster r.
+// jet returns at least n Taylor coefficients of u -> f(c + h u) about the
+// centre c of cluster r, with h its spread.
 func (s *ddSet) jet(r, n int) []complex128 {
 	if len(s.jets[r]) < n {
 		if s.used+n > len(s.pool) {
@@ -138,9 +169,18 @@ func (s *ddSet) jet(r, n int) []complex128 {
 		}
 		s.jets[r] = s.pool[s.used : s.used+n]
 		s.used += n
-		s.f.jet(s.centre[r], s.jets[r])
+		s.f.jet(s.centre[r], s.jetScale(r), s.jets[r])
 	}
 	return s.jets[r]
+}
+
+// jetScale is the variable scale of cluster r's series: its spread (1 for
+// coincident points, where only the first terms are used).
+func (s *ddSet) jetScale(r int) float64 {
+	if s.spread[r] > 0 {
+		return s.spread[r]
+	}
+	return 1
 }
 
 // divDiff returns f[z_idx[0], ..., z_idx[m]].
@@ -181,11 +221,15 @@ func (s *ddSet) divDiff(idx []int) complex128 {
 }
 
 // clusterTerm is (f Q)[points in] with Q = prod over out of 1/(z - z_j),
-// from the Taylor series about the cluster's centre.
+// from the Taylor series about the cluster's centre c in the scaled
+// variable u = (z - c)/h (h the cluster's spread, so that |u| <= 1 at its
+// points and the coefficients stay in range): with b_n the coefficients
+// of f Q in u, the divided difference is h^-q sum_{n>=q} b_n h_{n-q}(u).
 func (s *ddSet) clusterTerm(r int, in, out []int) complex128 {
 	c := s.centre[r]
+	h := s.jetScale(r)
 	q := len(in) - 1
-	// Radius of the series of f Q, and the spread of the points used.
+	// Radius of the series of f Q, in units of h.
 	rad := s.f.radius(c)
 	for _, j := range out {
 		rad = math.Min(rad, cmplx.Abs(c-s.z[j]))
@@ -207,32 +251,34 @@ func (s *ddSet) clusterTerm(r int, in, out []int) complex128 {
 	}
 	var b [ddMaxTerms]complex128
 	copy(b[:n], s.jet(r, n))
+	hc := complex(h, 0)
 	for _, j := range out {
+		// Divide by (d + h u): d c_k + h c_(k-1) = a_k.
 		d := c - s.z[j]
 		var prev complex128
 		for k := 0; k < n; k++ {
-			b[k] = (b[k] - prev) / d
+			b[k] = (b[k] - hc*prev) / d
 			prev = b[k]
 		}
 	}
-	// h_k over the points' offsets, k = 0..n-1-q.
-	var h [ddMaxTerms]complex128
-	h[0] = 1
+	// h_k over the points' scaled offsets, k = 0..n-1-q.
+	var hk [ddMaxTerms]complex128
+	hk[0] = 1
 	kmax := n - 1 - q
 	for _, j := range in {
-		dd := s.z[j] - c
-		if dd == 0 {
+		u := (s.z[j] - c) / hc
+		if u == 0 {
 			continue
 		}
 		for k := 1; k <= kmax; k++ {
-			h[k] += dd * h[k-1]
+			hk[k] += u * hk[k-1]
 		}
 	}
 	var sum complex128
 	for k := 0; k <= kmax; k++ {
-		sum += b[q+k] * h[k]
+		sum += b[q+k] * hk[k]
 	}
-	return sum
+	return sum / complex(math.Pow(h, float64(q)), 0)
 }
 
 // Power series helpers: coefficients of a truncated series in delta.

@@ -114,14 +114,14 @@ func (f *domenicoLong) value(z complex128) complex128 {
 	return complex(s, 0)
 }
 
-func (f *domenicoLong) jet(c complex128, out []complex128) {
+func (f *domenicoLong) jet(c complex128, h float64, out []complex128) {
 	for k := range out {
 		out[k] = 0
 	}
 	var buf [ddMaxTerms]complex128
 	f.pieces(func(tt, sign float64) {
 		k, w := f.branch(real(c), tt)
-		f.longJet(k, tt, buf[:len(out)])
+		f.longJet(k, tt, h, buf[:len(out)])
 		for n := range out {
 			out[n] += complex(sign*w, 0) * buf[n]
 		}
@@ -156,19 +156,19 @@ func (f *domenicoLong) scale(z complex128) float64 {
 	return sc
 }
 
-// longJet writes the Taylor coefficients in the rate about k of the
+// longJet writes the Taylor coefficients in u of the rate k + h u of the
 // longitudinal factor 1/2 exp(a1) erfc(b1) (exp(a1) at steady state), with
 // w = sqrt(V^2 + 4DRk), a1 = (V - w) x/(2D), b1 = (Rx - w t)/(2 sqrt(DRt)).
 // Where erfc(b1) underflows the product is formed as exp(a1 - b1^2)
 // erfcx(b1), the exponent's constant term written in closed form as in
 // domenicoLongitudinal.
-func (f *domenicoLong) longJet(k, tt float64, out []complex128) {
+func (f *domenicoLong) longJet(k, tt, h float64, out []complex128) {
 	n := len(out)
 	d, r, v, x := f.d, f.r, f.v, f.x
 	a := v*v + 4*d*r*k
 	root := math.Sqrt(a)
 	var w, a1 [ddMaxTerms]complex128
-	seriesSqrtLinear(complex(root, 0), complex(a, 0), complex(4*d*r, 0), w[:n])
+	seriesSqrtLinear(complex(root, 0), complex(a, 0), complex(4*d*r*h, 0), w[:n])
 	a1[0] = complex(-2*r*k*x/(v+root), 0)
 	for j := 1; j < n; j++ {
 		a1[j] = -complex(x/(2*d), 0) * w[j]

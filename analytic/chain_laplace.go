@@ -105,13 +105,13 @@ func (g *laplaceG) value(z complex128) complex128 {
 	return r
 }
 
-func (g *laplaceG) jet(c complex128, out []complex128) {
+func (g *laplaceG) jet(c complex128, h float64, out []complex128) {
 	n := len(out)
 	v := complex(g.v, 0)
 	a := v*v + complex(4*g.d, 0)*c
 	root := cmplx.Sqrt(a)
 	var q, e [ddMaxTerms]complex128
-	seriesSqrtLinear(root, a, complex(4*g.d, 0), q[:n])
+	seriesSqrtLinear(root, a, complex(4*g.d*h, 0), q[:n])
 	e[0] = -complex(2*g.x, 0) * c / (v + root)
 	for k := 1; k < n; k++ {
 		e[k] = -complex(g.x/(2*g.d), 0) * q[k]

@@ -21,13 +21,17 @@ func Domenico(x, y, z, t float64, p Params, s Source) float64 {
 }
 
 // DomenicoAt is Domenico for a receptor depth interval (the vertical factor
-// is averaged over [pt.Top, pt.Bottom]) and a source history: a finite
-// duration by superposition, C(t) - C(t - Duration); a depleting source
-// exp(-g t) by the same substitution that is exact for the longitudinal
-// factor, Mu -> Mu - g with the factor exp(-g t), where Mu >= g; where the
-// source depletes faster than the plume decays (g > Mu) the source
-// concentration at the time of emission, exp(-g (t - R x/V)), multiplies the
-// non-depleting value (common practice).
+// is averaged over [pt.Top, pt.Bottom]) and a source history (C0 exp(-g s)
+// while active, 0 <= s <= Duration; see History). A depleting source:
+// where g <= Mu, the substitution that is exact for the longitudinal factor,
+// Mu -> Mu - g with the factor exp(-g t); where the source depletes faster
+// than the plume decays (g > Mu), the source concentration at the time of
+// emission, exp(-g (t - R x/V)), multiplies the non-depleting value (common
+// practice). A finite duration by superposition, L(t) - exp(-g Duration)
+// L(t - Duration) for the longitudinal factor L of the continuing source;
+// where both terms carry the same factor the difference is formed as a
+// difference of complementary error functions that does not cancel (see
+// erfcDiff), so values long after the pulse keep their relative accuracy.
 func DomenicoAt(pt Point, t float64, p Params, s Source, h History) float64 {
 	x := pt.X
 	if x < 0 || !(t > 0) || math.IsNaN(x) || math.IsNaN(pt.Y) {
@@ -41,26 +45,98 @@ func DomenicoAt(pt Point, t float64, p Params, s Source, h History) float64 {
 	if lateral == 0 {
 		return 0
 	}
-	long := func(tt float64) float64 {
-		if !(tt > 0) {
-			return 0
-		}
-		if g == 0 {
-			return domenicoLongitudinal(x, tt, p)
-		}
-		if g <= p.Mu {
-			q := p
-			q.Mu -= g
-			return math.Exp(-g*tt) * domenicoLongitudinal(x, tt, q)
-		}
-		lag := tt - p.R*x/p.V
-		return math.Exp(-g*math.Max(lag, 0)) * domenicoLongitudinal(x, tt, p)
-	}
-	c := long(t)
+	var c float64
 	if h.finite() && t > h.Duration {
-		c -= long(t - h.Duration)
+		c = domenicoPulse(x, t, t-h.Duration, p, g)
+	} else {
+		c = domenicoDepleting(x, t, p, g)
 	}
 	return clamp01(c * lateral)
+}
+
+// domenicoDepleting is the longitudinal factor for the source C0 exp(-g s)
+// that never stops (see DomenicoAt).
+func domenicoDepleting(x, t float64, p Params, g float64) float64 {
+	switch {
+	case !(t > 0):
+		return 0
+	case g == 0:
+		return domenicoLongitudinal(x, t, p)
+	case g <= p.Mu:
+		q := p
+		q.Mu -= g
+		return math.Exp(-g*t) * domenicoLongitudinal(x, t, q)
+	}
+	lag := t - p.R*x/p.V
+	return math.Exp(-g*math.Max(lag, 0)) * domenicoLongitudinal(x, t, p)
+}
+
+// domenicoPulse is the longitudinal factor at t for a source that stopped
+// at t - t0 = Duration: L(t) - exp(-g Duration) L(t0), L that of the
+// continuing source.
+func domenicoPulse(x, t, t0 float64, p Params, g float64) float64 {
+	lagT := p.R * x / p.V
+	switch {
+	case g <= p.Mu:
+		// exp(-g t) [L'(t) - L'(t0)], L' with the decay rate Mu - g.
+		q := p
+		q.Mu -= g
+		return math.Exp(-g*t) * domenicoLongitudinalDiff(x, t, t0, q)
+	case t0 >= lagT:
+		// Both emitted while depleting: exp(-g (t - R x/V)) [L(t) - L(t0)].
+		return math.Exp(-g*(t-lagT)) * domenicoLongitudinalDiff(x, t, t0, p)
+	}
+	return domenicoDepleting(x, t, p, g) - math.Exp(-g*(t-t0))*domenicoDepleting(x, t0, p, g)
+}
+
+// domenicoLongitudinalDiff returns domenicoLongitudinal(x, t, p) -
+// domenicoLongitudinal(x, t0, p) for t > t0 > 0, that is
+// 1/2 exp(a1) [erfc(b1(t)) - erfc(b1(t0))] with b1 falling in time,
+// without forming the two terms.
+func domenicoLongitudinalDiff(x, t, t0 float64, p Params) float64 {
+	if x == 0 || !(t0 > 0) {
+		if x == 0 {
+			return 0
+		}
+		return domenicoLongitudinal(x, t, p)
+	}
+	d, r, v, mu := p.Dx, p.R, p.V, p.Mu
+	w := math.Sqrt(v*v + 4*d*r*mu)
+	a1 := -2 * r * mu * x / (v + w)
+	s, s0 := 2*math.Sqrt(d*r*t), 2*math.Sqrt(d*r*t0)
+	z1, z2 := (r*x-w*t)/s, (r*x-w*t0)/s0
+	switch {
+	case z1 < 0 && z2 > 0:
+		return 0.5 * math.Exp(a1) * (math.Erf(z2) + math.Erf(-z1))
+	case z2 <= 0:
+		// erfc(z1) - erfc(z2) = erfc(-z2) - erfc(-z1), both below 1.
+		return 0.5 * math.Exp(a1-z2*z2) * erfcxDiff(-z2, -z1)
+	}
+	// exp(a1 - z1^2) = exp(-q^2 - mu t), q = (Rx - Vt)/(2 sqrt(DRt)).
+	q := (r*x - v*t) / s
+	return 0.5 * math.Exp(-q*q-mu*t) * erfcxDiff(z1, z2)
+}
+
+// erfcxDiff returns exp(p1^2) [erfc(p1) - erfc(p2)] for 0 <= p1 < p2:
+// erfcx(p1) - exp(p1^2 - p2^2) erfcx(p2) where that keeps at least half of
+// erfcx(p1), and otherwise, where the two are close, the integral
+// (2/sqrt(pi)) int_0^(p2-p1) exp(-w (2 p1 + w)) dw by the 8-point
+// Gauss-Legendre rule (there w (2 p1 + w) <= ln 2 over the interval, and
+// the rule is exact to rounding).
+func erfcxDiff(p1, p2 float64) float64 {
+	d := p2 - p1
+	e := Erfcx(p1)
+	r := math.Exp(-d*(p2+p1)) * Erfcx(p2)
+	if r <= 0.5*e {
+		return e - r
+	}
+	h := d / 2
+	var sum float64
+	for i, xi := range glNodes {
+		w := h + h*xi
+		sum += glWeights[i] * math.Exp(-w*(2*p1+w))
+	}
+	return 2 * invSqrtPi * sum * h
 }
 
 // domenicoLongitudinal is the longitudinal factor 1/2 exp(a1) erfc(b1).

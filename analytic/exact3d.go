@@ -13,7 +13,7 @@ import "math"
 //
 // with D' = Dx/R, v' = V/R and Fy, Fz the fractions of the transverse and
 // vertical Gaussian spreads that fall inside the source (see strip). The
-// relative accuracy is 1e-6 or better. t = math.Inf(1) gives the steady
+// relative accuracy is 1e-7 or better. t = math.Inf(1) gives the steady
 // state. x < 0 (upgradient of the source plane) gives 0: the solution is for
 // the aquifer downgradient of the source only.
 //
@@ -23,24 +23,31 @@ import "math"
 // with sigma*^4 = beta^2 + gamma turns that into the Gaussian weight
 // exp(-A - u^2) times the bounded factor sigma^2/(sigma^2 + sigma*^2),
 // where A = 2(sigma*^2 - beta) is the steady 1D attenuation by decay. The
-// sharp kernel of high Peclet numbers becomes a unit-width Gaussian in u, so
-// a fixed set of panels in u, refined where the transverse factors change,
-// with adaptive Gauss-Legendre bisection on each, reaches the tolerance at
-// every Peclet number. Exact3D(x, 0, 0, t, p, Source{+Inf, +Inf}) equals
-// OgataBanks(x, t, p).
+// sharp kernel of high Peclet numbers becomes a unit-width Gaussian in u.
+// A fixed nested rule on one window around the weight's peak
+// (kernel3D.fast, exact3d_fast.go) takes the cases whose value it can
+// vouch for, typically with 31 evaluations of the integrand; the others go
+// to adaptive Gauss-Legendre bisection on panels in u refined where the
+// transverse factors change and towards the limits (kernel3D.rigorous),
+// which reaches the tolerance at every Peclet number. The value depends
+// only on the inputs of the one call. Exact3D(x, 0, 0, t, p,
+// Source{+Inf, +Inf}) equals OgataBanks(x, t, p) to that accuracy.
 func Exact3D(x, y, z, t float64, p Params, s Source) float64 {
 	return Exact3DAt(Point{X: x, Y: y, Top: z, Bottom: z}, t, p, s, History{})
 }
 
-// exactRelTol is the relative accuracy asked of the adaptive quadrature;
-// its error estimates are conservative, so the achieved accuracy is better.
+// exactRelTol is the relative accuracy asked of the exact 3D integral:
+// of the adaptive quadrature, whose error estimates are conservative, and
+// of the fast path, whose thresholds are set for it (fastAgreeSmooth).
 const exactRelTol = 1e-7
 
 // Exact3DAt is Exact3D for a receptor depth interval (the value is averaged
 // over [pt.Top, pt.Bottom]) and a source history h: a source that stops
 // after h.Duration contributes the kernel only over the ages
 // [t - h.Duration, t], and a depleting source weights age tau by
-// exp(-h.Depletion (t - tau)).
+// exp(-h.Depletion (t - tau)). Both are integrated directly, never as a
+// difference of two continuous solutions, so values far below the source
+// keep their relative accuracy after the source has stopped.
 func Exact3DAt(pt Point, t float64, p Params, s Source, h History) float64 {
 	return exact3D(pt, t, p, s, h, exactRelTol)
 }
@@ -55,194 +62,236 @@ func exact3D(pt Point, t float64, p Params, s Source, h History, rel float64) fl
 // column to a unit pulse of solute flux (flux true; van Genuchten & Alves
 // 1982, the time derivative of their no-decay third-type solution),
 //
-//	f3(x, tau) = exp(-(Rx - V tau)^2/(4DR tau)) [V/sqrt(pi D R tau) - V^2/(2DR) erfcx((Rx + V tau)/(2 sqrt(DR tau)))],
+//	f3(x, tau) = exp(-(Rx - V tau)^2/(4DR tau)) [V/sqrt(pi D R tau) - V^2/(2DR) erfcx((Rx + V tau)/(2 sqrt(DRt)))],
 //
 // against the same source history and decay weights.
 func exact3DKernel(pt Point, t float64, p Params, s Source, h History, rel float64, flux bool) float64 {
+	if c, done := exact3DTrivial(pt, t, p, s, h); done {
+		return c
+	}
+	k, scale := newKernel3D(pt, t, p, s, h, flux)
+	if scale == 0 {
+		return 0
+	}
+	return clamp01(scale * k.integral(rel))
+}
+
+// exact3DTrivial returns the value where no integral is needed: outside
+// the aquifer or before the start, the steady state of a source that stops
+// or depletes, and the source plane itself.
+func exact3DTrivial(pt Point, t float64, p Params, s Source, h History) (float64, bool) {
 	x := pt.X
 	if x < 0 || !(t > 0) || math.IsNaN(x) || math.IsNaN(pt.Y) {
-		return 0
+		return 0, true
 	}
-	steady := math.IsInf(t, 1)
-	g := h.Depletion
-	if steady && (g > 0 || h.finite()) {
-		return 0
+	if math.IsInf(t, 1) && (h.Depletion > 0 || h.finite()) {
+		return 0, true
 	}
-	y := math.Abs(pt.Y)
-	top, bot := math.Max(pt.Top, 0), math.Max(pt.Bottom, 0)
+	if x > 0 {
+		return 0, false
+	}
+	if h.finite() && t > h.Duration {
+		return 0, true
+	}
+	top, bot := screenDepths(pt)
+	inf := math.Inf(1)
+	return clamp01(math.Exp(-h.Depletion*t) * strip(math.Abs(pt.Y), s.Width/2, inf) * stripAverage(top, bot, s.Depth, inf)), true
+}
+
+// screenDepths returns the receptor's depth interval clipped to the water
+// table and ordered.
+func screenDepths(pt Point) (top, bot float64) {
+	top, bot = math.Max(pt.Top, 0), math.Max(pt.Bottom, 0)
 	if bot < top {
 		top, bot = bot, top
 	}
-	halfW := s.Width / 2
-	if x == 0 {
-		if h.finite() && t > h.Duration {
-			return 0
-		}
-		return clamp01(math.Exp(-g*t) * strip(y, halfW, math.Inf(1)) * stripAverage(top, bot, s.Depth, math.Inf(1)))
-	}
+	return top, bot
+}
 
+// kernel3D is the integrand of the exact time integral in the variable u
+// (see Exact3D) with everything that does not depend on u computed once:
+//
+//	integral = int_ua^ub exp(-(u-u0)(u+u0)) rho(u) Fy(sigma ky) Fz(sigma kz) W(tau) du
+//
+// with rho = sigma^2/(sigma^2 + s2), tau = x^2/(4 D' sigma^2) the age and W the
+// decay, depletion and flux-pulse weights that stay inside the integral
+// (W = 1 unless inside).
+type kernel3D struct {
+	y, halfW        float64 // |y| and the source half-width
+	top, bot, depth float64 // receptor depth interval and source depth
+	ky, kz          float64 // sigma to transverse-argument ratios; 0: the factor is 1
+	fy, fz          stripFactor
+	s2              float64 // sigma*^2
+	u0              float64 // shift of the weight
+	ua, ub          float64 // u at tau = t and at tau = t - Duration (or -Inf, +Inf)
+	inside, flux    bool    // decay weights in the integrand; flux-pulse kernel
+	mu, g, t        float64 // decay, depletion, time
+	x, dp, beta     float64 // distance, D' = Dx/R and beta
+	v, dx, r        float64 // column coefficients for the flux kernel
+}
+
+// newKernel3D sets up the integrand for x > 0 and returns it with the
+// factor that turns its integral into C/C0: (2/sqrt(pi)) exp(-A - u0^2)
+// times exp(-g t) where the depletion is folded into the decay rate.
+func newKernel3D(pt Point, t float64, p Params, s Source, h History, flux bool) (kernel3D, float64) {
+	x := pt.X
+	top, bot := screenDepths(pt)
+	k := kernel3D{y: math.Abs(pt.Y), halfW: s.Width / 2, top: top, bot: bot, depth: s.Depth,
+		flux: flux, mu: p.Mu, g: h.Depletion, t: t, x: x, v: p.V, dx: p.Dx, r: p.R}
 	dp := p.Dx / p.R
-	beta := p.V * x / (4 * p.Dx)
+	k.dp = dp
+	k.beta = p.V * x / (4 * p.Dx)
 	// Ratios that turn sigma into the arguments of the transverse factors:
 	// 1/(2 sqrt(Dy tau/R)) = sigma * ky with ky = 1/(x sqrt(Dy/Dx)).
-	ky := 1 / (x * math.Sqrt(p.Dy/p.Dx))
-	kz := 1 / (x * math.Sqrt(p.Dz/p.Dx))
-	if math.IsInf(halfW, 1) {
-		ky = 0
+	if !math.IsInf(k.halfW, 1) {
+		k.ky = 1 / (x * math.Sqrt(p.Dy/p.Dx))
 	}
-	if math.IsInf(s.Depth, 1) {
-		kz = 0
+	if !math.IsInf(s.Depth, 1) {
+		k.kz = 1 / (x * math.Sqrt(p.Dz/p.Dx))
 	}
+	k.fy = newStripFactor(k.y, k.y, k.halfW, k.ky)
+	k.fz = newStripFactor(top, bot, s.Depth, k.kz)
 
-	// Decay and depletion. mode "shifted": the depletion is folded into an
-	// effective decay rate Mu - g >= 0 and a factor exp(-g t). Otherwise
-	// (g > Mu) the weight exp(-g (t-tau) - Mu tau) <= 1 stays in the
-	// integrand.
-	var pref, gam float64
-	inside := g > p.Mu || flux
-	if inside || g == 0 {
-		pref = 1
-	} else {
-		pref = math.Exp(-g * t)
-	}
-	if !inside {
-		gam = (p.Mu - g) * x * x / (4 * dp)
-	}
-	root := math.Sqrt(beta*beta + gam)
-	s2 := root // sigma*^2
-	attenuation := 2 * gam / (root + beta)
-
-	sigmaOf := func(u float64) float64 {
-		r := math.Sqrt(u*u + 4*s2)
-		if u >= 0 {
-			return (u + r) / 2
+	// Decay and depletion: the depletion is folded into an effective decay
+	// rate Mu - g >= 0 and a factor exp(-g t) where g <= Mu. Otherwise
+	// (g > Mu, or the flux kernel) the weight exp(-g (t-tau) - Mu tau) <= 1
+	// stays in the integrand.
+	pref := 1.0
+	var gam float64
+	k.inside = k.g > p.Mu || flux
+	if !k.inside {
+		if k.g > 0 {
+			pref = math.Exp(-k.g * t)
 		}
-		return 2 * s2 / (r - u)
+		gam = (p.Mu - k.g) * x * x / (4 * dp)
 	}
-	uOf := func(sig float64) float64 { return sig - s2/sig }
+	root := math.Sqrt(k.beta*k.beta + gam)
+	k.s2 = root
+	attenuation := 2 * gam / (root + k.beta)
 
 	// Limits in u: tau = t is the lower limit, tau = t - Duration the upper.
-	ua := math.Inf(-1)
-	if !steady {
-		ua = uOf(x / (2 * math.Sqrt(dp*t)))
+	k.ua, k.ub = math.Inf(-1), math.Inf(1)
+	if !math.IsInf(t, 1) {
+		k.ua = k.uOf(x / (2 * math.Sqrt(dp*t)))
 	}
-	ub := math.Inf(1)
 	if h.finite() && t > h.Duration {
-		ub = uOf(x / (2 * math.Sqrt(dp*(t-h.Duration))))
+		k.ub = k.uOf(x / (2 * math.Sqrt(dp*(t-h.Duration))))
 	}
 	// Shift that keeps the weight exp(-(u^2 - u0^2)) near 1 where the mass is.
-	u0 := 0.0
-	if ua > 0 {
-		u0 = ua
-	} else if ub < 0 {
-		u0 = ub
+	if k.ua > 0 {
+		k.u0 = k.ua
+	} else if k.ub < 0 {
+		k.u0 = k.ub
 	}
-	shape := func(u float64) (sig, rho float64) {
-		sig = sigmaOf(u)
-		return sig, sig * sig / (sig*sig + s2)
-	}
-	f := func(u float64) float64 {
-		sig, rho := shape(u)
-		v := math.Exp(-(u-u0)*(u+u0)) * rho
-		if ky != 0 {
-			v *= strip(y, halfW, sig*ky)
-		}
-		if kz != 0 {
-			v *= stripAverage(top, bot, s.Depth, sig*kz)
-		}
-		if inside {
-			tau := x * x / (4 * dp * sig * sig)
-			wt := -p.Mu * tau
-			if g > 0 {
-				wt -= g * (t - tau)
-			}
-			v *= math.Exp(wt)
-			if flux {
-				// Ratio of the flux-pulse kernel to the concentration kernel
-				// in the variable u: B x^2 sqrt(pi) / (4 D' sigma^3), at most
-				// 2 beta / sigma^2.
-				drt := p.Dx * p.R * tau
-				b3 := (p.R*x + p.V*tau) / (2 * math.Sqrt(drt))
-				bb := p.V/math.Sqrt(math.Pi*drt) - p.V*p.V/(2*p.Dx*p.R)*Erfcx(b3)
-				v *= math.Max(bb, 0) * x * x / (4 * dp * sig * sig * sig) / invSqrtPi
-			}
-		}
-		return v
-	}
-	bound := func(a, b float64) float64 {
-		m := 0.0
-		if a > 0 {
-			m = a
-		} else if b < 0 {
-			m = b
-		}
-		sa, _ := shape(a)
-		sb, rb := shape(b)
-		v := math.Exp(-(m-u0)*(m+u0)) * rb * (b - a)
-		if flux {
-			v *= 2 * beta / (sa * sa) / rb * sb * sb / (sb*sb + s2)
-			v = math.Min(v, 2*(b-a)*math.Exp(-(m-u0)*(m+u0)))
-		}
-		if ky != 0 {
-			v *= math.Min(stripBound(y, halfW, sa*ky), stripBoundAbove(y, halfW, sb*ky))
-		}
-		if kz != 0 {
-			v *= screenBound(top, bot, s.Depth, sa*kz, sb*kz)
-		}
-		return v
-	}
+	return k, 2 * invSqrtPi * pref * math.Exp(-attenuation-k.u0*k.u0)
+}
 
-	var brk [64]float64
-	n := 0
-	add := func(u float64) {
-		if u > ua && u < ub && n < len(brk) {
-			brk[n] = u
-			n++
-		}
+// sigma inverts u = sigma - s2/sigma without cancellation.
+func (k *kernel3D) sigma(u float64) float64 {
+	r := math.Sqrt(u*u + 4*k.s2)
+	if u >= 0 {
+		return (u + r) / 2
 	}
-	// Around the peak of the weight, on the scale of its width.
-	w := 1 / (1 + math.Abs(u0))
-	for _, k := range []float64{0, 2, 6.5, 12, 24, 40} {
-		add(u0 + k*w)
-		if k > 0 {
-			add(u0 - k*w)
-		}
+	return 2 * k.s2 / (r - u)
+}
+
+func (k *kernel3D) uOf(sig float64) float64 { return sig - k.s2/sig }
+
+// eval is the integrand at u = u0 + v. The offset v from the shift u0 is
+// the variable of integration so that the exponent of the weight,
+// -(u-u0)(u+u0) = -v (v + 2 u0), keeps its relative accuracy when u0 is
+// large (early times, far receptors).
+func (k *kernel3D) eval(v float64) float64 {
+	sig, rho := k.shape(k.u0 + v)
+	f := math.Exp(-v*(v+2*k.u0)) * rho
+	f *= k.fy.at(sig) * k.fz.at(sig)
+	if k.inside {
+		f = k.weighted(f, sig)
 	}
-	// Where the factor sigma^2/(sigma^2+sigma*^2) steps, if sharply.
-	if sg := math.Sqrt(s2); sg < 0.25 {
-		for _, k := range []float64{0.5, 4} {
-			add(k * sg)
-			add(-k * sg)
-		}
+	return f
+}
+
+// weighted multiplies v by the part of the integrand kept inside for the
+// age of sigma:
+// decay and depletion, and for the flux kernel the ratio of the flux-pulse
+// kernel to the concentration kernel in the variable u,
+// B x^2 sqrt(pi) / (4 D' sigma^3), at most 2 beta / sigma^2.
+func (k *kernel3D) weighted(v, sig float64) float64 {
+	x, dp := k.x, k.dp
+	tau := x * x / (4 * dp * sig * sig)
+	wt := -k.mu * tau
+	if k.g > 0 {
+		wt -= k.g * (k.t - tau)
 	}
-	// Where each transverse factor changes: sigma*k*|edge| ~ 1.
-	edges := func(d, hh, k float64) {
-		if k == 0 {
-			return
-		}
-		for _, e := range []float64{math.Abs(d - hh), d + hh} {
-			if e == 0 {
-				continue
-			}
-			if ue := uOf(1 / (k * e)); math.Abs(ue-u0) < 6.5*w {
-				add(ue)
-			}
-		}
+	v *= math.Exp(wt)
+	if k.flux {
+		drt := k.dx * k.r * tau
+		b3 := (k.r*x + k.v*tau) / (2 * math.Sqrt(drt))
+		bb := k.v/math.Sqrt(math.Pi*drt) - k.v*k.v/(2*k.dx*k.r)*Erfcx(b3)
+		v *= math.Max(bb, 0) * x * x / (4 * dp * sig * sig * sig) / invSqrtPi
 	}
-	edges(y, halfW, ky)
-	edges(top, s.Depth, kz)
-	if bot != top {
-		edges(bot, s.Depth, kz)
+	return v
+}
+
+// shape returns sigma and the factor rho = sigma^2/(sigma^2 + s2) at u.
+func (k *kernel3D) shape(u float64) (sig, rho float64) {
+	sig = k.sigma(u)
+	return sig, sig * sig / (sig*sig + k.s2)
+}
+
+// bound is a rigorous upper bound of the integral over the offsets [a, b]
+// (u in [u0+a, u0+b]): the weight at the point nearest the peak u = 0, rho
+// at the upper end (it rises with u), the transverse factors bounded over
+// the range of sigma, and the inside weights by 1 (the flux ratio by
+// 2 beta / sigma^2).
+func (k *kernel3D) bound(a, b float64) float64 {
+	m := 0.0 // offset of the point of [a, b] nearest u = 0
+	switch {
+	case k.u0+a > 0:
+		m = a
+	case k.u0+b < 0:
+		m = b
+	default:
+		m = -k.u0
 	}
-	lo, hi := ua, ub
-	if math.IsInf(lo, -1) {
-		lo = u0 - 40*w - 40
+	sa, _ := k.shape(k.u0 + a)
+	sb, rb := k.shape(k.u0 + b)
+	e := math.Exp(-m * (m + 2*k.u0))
+	v := e * rb * (b - a)
+	if k.flux {
+		v *= 2 * k.beta / (sa * sa)
+		v = math.Min(v, 2*(b-a)*e)
 	}
-	if math.IsInf(hi, 1) {
-		hi = u0 + 40*w + 40
+	if k.ky != 0 {
+		v *= math.Min(stripBound(k.y, k.halfW, sa*k.ky), stripBoundAbove(k.y, k.halfW, sb*k.ky))
 	}
-	pts := append(brk[:n:n], lo, hi)
-	sortFloats(pts)
+	if k.kz != 0 {
+		v *= screenBound(k.top, k.bot, k.depth, sa*k.kz, sb*k.kz)
+	}
+	return v
+}
+
+// integral integrates the kernel to relative accuracy rel.
+func (k *kernel3D) integral(rel float64) float64 {
+	if q, ok := k.fast(rel); ok {
+		return q
+	}
+	return k.rigorous(rel)
+}
+
+// rigorous integrates by adaptive Gauss-Legendre bisection on the panels
+// of layout, skipping those whose bounds are negligible.
+func (k *kernel3D) rigorous(rel float64) float64 {
+	return k.rigorousBudget(rel, maxPanelsPerIntegral)
+}
+
+// rigorousBudget is rigorous with the number of bisections allowed given.
+func (k *kernel3D) rigorousBudget(rel float64, budget int) float64 {
+	var brk [66]float64
+	pts := k.layout(brk[:0])
+	for i := range pts {
+		pts[i] -= k.u0
+	}
 	var panels [66]panel
 	np := 0
 	for i := 1; i < len(pts); i++ {
@@ -250,12 +299,74 @@ func exact3DKernel(pt Point, t float64, p Params, s Source, h History, rel float
 		if b <= a {
 			continue
 		}
-		panels[np] = panel{a: a, b: b, bound: bound(a, b)}
+		panels[np] = panel{a: a, b: b, bound: k.bound(a, b)}
 		np++
 	}
-	integral := integratePanels(f, panels[:np], rel)
-	c := 2 * invSqrtPi * pref * math.Exp(-attenuation-u0*u0) * integral
-	return clamp01(c)
+	return integratePanelsBudget(k.eval, panels[:np], rel, budget)
+}
+
+// layout returns the sorted panel ends in u: the limits (or, for an
+// infinite one, a point 40 widths beyond the peak), points around the peak
+// of the weight on the scale of its width, where rho steps if it does so
+// sharply, where each transverse factor changes, and ladders towards the
+// finite limits.
+func (k *kernel3D) layout(pts []float64) []float64 {
+	add := func(u float64) {
+		if u > k.ua && u < k.ub && len(pts) < cap(pts)-2 {
+			pts = append(pts, u)
+		}
+	}
+	u0 := k.u0
+	w := 1 / (1 + math.Abs(u0))
+	for _, m := range []float64{0, 2, 6.5, 12, 24, 40} {
+		add(u0 + m*w)
+		if m > 0 {
+			add(u0 - m*w)
+		}
+	}
+	if sg := math.Sqrt(k.s2); sg < 0.25 {
+		for _, m := range []float64{0.5, 4} {
+			add(m * sg)
+			add(-m * sg)
+		}
+	}
+	// Where each transverse factor changes: sigma k |edge| ~ 1.
+	edges := func(d, hh, kk float64) {
+		if kk == 0 {
+			return
+		}
+		for _, e := range []float64{math.Abs(d - hh), d + hh} {
+			if e == 0 {
+				continue
+			}
+			if ue := k.uOf(1 / (kk * e)); math.Abs(ue-u0) < 6.5*w {
+				add(ue)
+			}
+		}
+	}
+	edges(k.y, k.halfW, k.ky)
+	edges(k.top, k.depth, k.kz)
+	if k.bot != k.top {
+		edges(k.bot, k.depth, k.kz)
+	}
+	// A geometric ladder towards each finite limit: the integrand can fall
+	// away from a limit on any scale (a receptor just outside the source's
+	// spread at early times falls like exp(-(a sigma)^2) with a large), and
+	// a panel whose nodes all lie beyond that fall sees nothing.
+	for j, d := 0, w/4; j < 8; j, d = j+1, d/4 {
+		add(k.ua + d)
+		add(k.ub - d)
+	}
+	lo, hi := k.ua, k.ub
+	if math.IsInf(lo, -1) {
+		lo = u0 - 40*w - 40
+	}
+	if math.IsInf(hi, 1) {
+		hi = u0 + 40*w + 40
+	}
+	pts = append(pts, lo, hi)
+	sortFloats(pts)
+	return pts
 }
 
 // sortFloats sorts a short slice in place (insertion sort; no allocation).

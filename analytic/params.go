@@ -62,12 +62,17 @@ func (p Params) Validate(threeD bool) error {
 	return nil
 }
 
-// History describes how the source concentration varies in time. The zero
-// value is a constant source that starts at t = 0 and never stops.
+// History describes how the source concentration varies in time: C0
+// exp(-Depletion s) while the source is active, 0 <= s <= Duration, and 0
+// after. The zero value is a constant source that starts at t = 0 and
+// never stops.
 type History struct {
 	// Duration is how long the source is active, T. 0 or +Inf: it never
-	// stops. The solution is the continuous one minus the same source
-	// started Duration later (superposition).
+	// stops. By superposition the solution is exp(-Depletion t) [F(t) -
+	// F(t - Duration)], F the solution for a constant source with the
+	// decay rate Mu - Depletion; the closed forms use it where the
+	// difference keeps its digits, the time integrals take the active ages
+	// directly.
 	Duration float64
 	// Depletion is the first-order decline rate of the source
 	// concentration, 1/T: C_source(t) = C0 exp(-Depletion t). 0: constant.

@@ -65,6 +65,12 @@ type panel struct {
 // bounds left add up to less than a hundredth of the error allowed, they are
 // not evaluated at all. The panels slice is reordered.
 func integratePanels(f func(float64) float64, panels []panel, rel float64) float64 {
+	return integratePanelsBudget(f, panels, rel, maxPanelsPerIntegral)
+}
+
+// integratePanelsBudget is integratePanels with the number of bisections
+// allowed over all panels given.
+func integratePanelsBudget(f func(float64) float64, panels []panel, rel float64, budget int) float64 {
 	// Insertion sort by bound, descending: the lists are short.
 	for i := 1; i < len(panels); i++ {
 		for j := i; j > 0 && panels[j].bound > panels[j-1].bound; j-- {
@@ -76,7 +82,6 @@ func integratePanels(f func(float64) float64, panels []panel, rel float64) float
 		rest += p.bound
 	}
 	var total float64
-	budget := maxPanelsPerIntegral
 	for _, p := range panels {
 		if p.bound == 0 {
 			break

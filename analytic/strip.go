@@ -22,6 +22,10 @@ func strip(d, h, c float64) float64 {
 		}
 		return 0
 	}
+	if d == 0 {
+		// On the axis: erf(hc), one call.
+		return math.Erf(h * c)
+	}
 	a := (d + h) * c
 	b := (d - h) * c
 	if b >= 0 {
@@ -115,8 +119,20 @@ func stripAverage(z1, z2, h, c float64) float64 {
 		return s / 2
 	}
 	// Linear parts of G: |c(z+h)| - |c(z-h)| evaluated exactly, then the
-	// small ierfc corrections.
-	lin := (z2 - z1) - (math.Abs(z2-h) - math.Abs(z1-h))
+	// small ierfc corrections. The linear part is written for each position
+	// of the screen against the source bottom h so that it is exactly 0 for
+	// a screen wholly below the source: the difference (z2-z1) -
+	// ((z2-h) - (z1-h)) would leave a rounding error of order 1e-16 that
+	// swamps the true value there, which falls like exp(-c^2 (z1-h)^2).
+	var lin float64
+	switch {
+	case z1 >= h:
+		lin = 0
+	case z2 <= h:
+		lin = 2 * (z2 - z1)
+	default:
+		lin = 2 * (h - z1)
+	}
 	corr := ierfc(c*(z2+h)) - ierfc(c*(z1+h)) - ierfc(c*math.Abs(z2-h)) + ierfc(c*math.Abs(z1-h))
 	v := (c*lin + corr) / (2 * c * (z2 - z1))
 	if v < 0 {
@@ -130,3 +146,61 @@ var (
 	gl4Nodes   = [4]float64{-0.8611363115940526, -0.3399810435848563, 0.3399810435848563, 0.8611363115940526}
 	gl4Weights = [4]float64{0.3478548451374538, 0.6521451548625461, 0.6521451548625461, 0.3478548451374538}
 )
+
+// stripFactor is strip (or, over a well screen, stripAverage) of one
+// receptor against one source dimension as a function of sigma, where the
+// spread parameter is c = k sigma: the products of the edges with k and
+// the case (on the axis, inside, on the edge, outside, a screen) are fixed
+// once so that each evaluation costs only its error functions.
+type stripFactor struct {
+	kind   int
+	a, b   float64 // coefficients of sigma in the error-function arguments
+	z1, z2 float64 // screen ends (kind factorScreen)
+	h, k   float64 // strip half-width and ratio (kind factorScreen)
+}
+
+const (
+	factorOne     = iota // the factor is 1 (infinite source, or k = 0)
+	factorAxis           // d = 0: erf(a sigma)
+	factorInside         // d < h: [erf(a sigma) + erf(b sigma)]/2
+	factorOutside        // d > h: [erfc(b sigma) - erfc(a sigma)]/2
+	factorEdge           // d = h: erf(a sigma)/2
+	factorScreen         // stripAverage(z1, z2, h, k sigma)
+)
+
+// newStripFactor returns the factor strip(d, h, k sigma) averaged over
+// [d, d2] (d2 <= d: the point d), for d >= 0, h > 0 and k >= 0; k = 0 or an
+// infinite h gives the factor 1.
+func newStripFactor(d, d2, h, k float64) stripFactor {
+	switch {
+	case k == 0 || math.IsInf(h, 1):
+		return stripFactor{kind: factorOne}
+	case d2 > d:
+		return stripFactor{kind: factorScreen, z1: d, z2: d2, h: h, k: k}
+	case d == 0:
+		return stripFactor{kind: factorAxis, a: h * k}
+	case d < h:
+		return stripFactor{kind: factorInside, a: (d + h) * k, b: (h - d) * k}
+	case d > h:
+		return stripFactor{kind: factorOutside, a: (d + h) * k, b: (d - h) * k}
+	}
+	return stripFactor{kind: factorEdge, a: 2 * h * k}
+}
+
+// at returns the factor at sigma > 0 (with erfFast and erfcFast: within a
+// few units of 1e-16 of strip).
+func (f *stripFactor) at(sig float64) float64 {
+	switch f.kind {
+	case factorAxis:
+		return erfFast(f.a * sig)
+	case factorInside:
+		return 0.5 * (erfFast(f.a*sig) + erfFast(f.b*sig))
+	case factorOutside:
+		return 0.5 * (erfcFast(f.b*sig) - erfcFast(f.a*sig))
+	case factorEdge:
+		return 0.5 * erfFast(f.a*sig)
+	case factorScreen:
+		return stripAverage(f.z1, f.z2, f.h, f.k*sig)
+	}
+	return 1
+}

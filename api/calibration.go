@@ -16,6 +16,7 @@ type calibrationBody struct {
 	Observations []fit.Observation     `json:"observations"`
 	Fit          []string              `json:"fit"`
 	Bounds       map[string][2]float64 `json:"bounds"`
+	Compound     string                `json:"compound"`
 }
 
 // calibrations is POST /v1/calibrations: fit the chosen parameters to the
@@ -41,8 +42,8 @@ func (s *server) calibrations(c echo.Context) error {
 	if p := s.checkOutput(size, "application/json", "scenario.receptors", "scenario.times", "observations"); p != nil {
 		return p
 	}
-	r, p := compute(ctx, s, renameOutside("observations", "fit", "bounds", "fitted_scenario"), func(ctx context.Context) (*reply, error) {
-		res, err := fit.Calibrate(ctx, fit.CalibrationRequest{Scenario: sc, Observations: cb.Observations, Fit: cb.Fit, Bounds: cb.Bounds})
+	r, p := compute(ctx, s, renameOutside("observations", "fit", "bounds", "fitted_scenario", "compound"), func(ctx context.Context) (*reply, error) {
+		res, err := fit.Calibrate(ctx, fit.CalibrationRequest{Scenario: sc, Observations: cb.Observations, Fit: cb.Fit, Bounds: cb.Bounds, Compound: cb.Compound})
 		if err != nil {
 			return nil, err
 		}

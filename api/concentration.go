@@ -21,7 +21,11 @@ const (
 	paramTime   = "time"
 	paramMethod = "method"
 	paramFormat = "format"
-	steadyTime  = "steady"
+	// paramCompound names the compound of several (contaminants) whose
+	// value is returned; paramContaminants carries them as a JSON array.
+	paramCompound     = "compound"
+	paramContaminants = "contaminants"
+	steadyTime        = "steady"
 )
 
 // kindNotModelled is the problem of a receptor the model does not cover.
@@ -40,9 +44,13 @@ func (s *server) concentration(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	res, p := s.screen(c.Request().Context(), sc, queryFieldName)
+	full, p := s.screen(c.Request().Context(), sc, queryFieldName)
 	if p != nil {
 		return p
+	}
+	res, err := full.Focus(q.Get(paramCompound))
+	if err != nil {
+		return s.problemFromError(c.Request().Context(), err, nil)
 	}
 	if len(res.Receptors) != 1 {
 		return newProblem(kindInternal, "the engine returned no receptor")
@@ -198,7 +206,15 @@ func scenarioFromQuery(q url.Values, params openapi3.Parameters) (sc plume.Scena
 		case paramMethod:
 			method = raw
 			continue
-		case paramFormat:
+		case paramFormat, paramCompound:
+			continue
+		case paramContaminants:
+			var list []any
+			if err := json.Unmarshal([]byte(raw), &list); err != nil {
+				return sc, false, "", newProblem(kindMalformed, "contaminants is not a JSON array",
+					FieldProblem{Field: paramContaminants, Message: "must be the JSON array of the compounds (URL-encoded): " + err.Error()})
+			}
+			tree[paramContaminants] = list
 			continue
 		}
 		v, p := queryValue(name, raw, schema)

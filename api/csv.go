@@ -25,7 +25,7 @@ func unitToken(u string) string {
 func csvHeader(u plume.Units) []string {
 	L, T, C := unitToken(u.Length), unitToken(u.Time), unitToken(u.Concentration)
 	return []string{"receptor_id", "x_" + L, "y_" + L, "z_" + L, "plume_x_" + L, "plume_y_" + L,
-		"time_" + T, "method", "concentration_" + C, "status", "screening_level_" + C, "above_screening_level",
+		"time_" + T, "method", "compound", "concentration_" + C, "status", "screening_level_" + C, "above_screening_level",
 		"allowable_source_concentration_steady_" + C, "allowable_source_concentration_within_times_" + C,
 		"dilution_attenuation_factor_steady", "dilution_attenuation_factor_within_times",
 		"allowable_scale_factor_steady", "allowable_scale_factor_within_times",
@@ -44,8 +44,10 @@ func csvSafe(s string) string {
 	return s
 }
 
-// encodeCSV writes the long-format table: one row per receptor, time and
-// method, then the steady-state rows with time "steady". Site coordinates x
+// encodeCSV writes the long-format table: one row per receptor, compound,
+// time and method, then the steady-state rows with time "steady" (the
+// compound column holds the contaminant's name, or with contaminants each
+// compound's). Site coordinates x
 // and y are the request's; the rest comes from the result. Each row carries
 // what it needs to be read alone: the receptor's status, the screening
 // level, the comparison (empty when nothing was compared), the caveat codes
@@ -69,38 +71,42 @@ func encodeCSV(sc plume.Scenario, res *plume.Result) ([]byte, bool) {
 		}
 		return num(*p)
 	}
-	level := res.Derived.ScreeningLevel
-	for i, rr := range res.Receptors {
+	views := compoundViews(sc, res)
+	for i := range res.Receptors {
 		var x, y *float64
 		if i < len(sc.Receptors) {
 			x, y = sc.Receptors[i].X, sc.Receptors[i].Y
 		}
-		prefix := []string{csvSafe(rr.ID), optNum(x), optNum(y), num(rr.Z), num(rr.PlumeX), num(rr.PlumeY)}
-		codes := strings.Join(res.CaveatCodes(rr.ID), ";")
-		allow := func(a *plume.Allowance) []string {
-			if a == nil {
-				return []string{"", ""}
+		for _, cv := range views {
+			rr := cv.res.Receptors[i]
+			level := cv.res.Derived.ScreeningLevel
+			prefix := []string{csvSafe(rr.ID), optNum(x), optNum(y), num(rr.Z), num(rr.PlumeX), num(rr.PlumeY)}
+			codes := strings.Join(cv.res.CaveatCodes(rr.ID), ";")
+			allow := func(a *plume.Allowance) []string {
+				if a == nil {
+					return []string{"", ""}
+				}
+				return []string{optNum(a.SteadyState), optNum(a.WithinTimes)}
 			}
-			return []string{optNum(a.SteadyState), optNum(a.WithinTimes)}
-		}
-		bounds := append(append(allow(rr.AllowableSourceConcentration), allow(rr.DilutionAttenuationFactor)...), allow(rr.AllowableScaleFactor)...)
-		row := func(t, method string, c float64) {
-			rec := append(append([]string(nil), prefix...), t, method, num(c), string(rr.Status), optNum(level),
-				comparison(rr.Status, level, c))
-			rec = append(append(rec, bounds...), codes, csvSafe(res.Engine.Version), res.Engine.InputSHA256)
-			_ = w.Write(rec)
-		}
-		for _, sp := range rr.Series {
-			for _, m := range plume.AllMethods {
-				if v := plume.MethodValue(m, sp.Exact, sp.Domenico, sp.Numeric); v != nil {
-					row(num(sp.Time), m, *v)
+			bounds := append(append(allow(rr.AllowableSourceConcentration), allow(rr.DilutionAttenuationFactor)...), allow(rr.AllowableScaleFactor)...)
+			row := func(t, method string, c float64) {
+				rec := append(append([]string(nil), prefix...), t, method, csvSafe(cv.name), num(c), string(rr.Status), optNum(level),
+					comparison(rr.Status, level, c))
+				rec = append(append(rec, bounds...), codes, csvSafe(res.Engine.Version), res.Engine.InputSHA256)
+				_ = w.Write(rec)
+			}
+			for _, sp := range rr.Series {
+				for _, m := range plume.AllMethods {
+					if v := plume.MethodValue(m, sp.Exact, sp.Domenico, sp.Numeric); v != nil {
+						row(num(sp.Time), m, *v)
+					}
 				}
 			}
-		}
-		ss := rr.SteadyState
-		for _, m := range plume.AllMethods {
-			if v := plume.MethodValue(m, ss.Exact, ss.Domenico, ss.Numeric); v != nil {
-				row("steady", m, *v)
+			ss := rr.SteadyState
+			for _, m := range plume.AllMethods {
+				if v := plume.MethodValue(m, ss.Exact, ss.Domenico, ss.Numeric); v != nil {
+					row("steady", m, *v)
+				}
 			}
 		}
 	}

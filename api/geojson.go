@@ -53,7 +53,7 @@ type receptorFeatProps struct {
 	SteadyExact           *float64            `json:"steady_exact"`
 	SteadyDomenico        *float64            `json:"steady_domenico"`
 	SteadyNumeric         *float64            `json:"steady_numeric"`
-	PeakConcentration     float64             `json:"peak_concentration"`
+	PeakConcentration     *float64            `json:"peak_concentration"`
 	PeakTime              *float64            `json:"peak_time"`
 	PeakMethod            string              `json:"peak_method"`
 	FirstExceedanceTime   *float64            `json:"first_exceedance_time"`
@@ -66,14 +66,16 @@ type receptorFeatProps struct {
 	DomenicoDeviation     *float64            `json:"domenico_deviation"`
 	Series                []plume.SeriesPoint `json:"series"`
 	// flat holds one attribute per requested time and method, named with
-	// the units, after the fields above (see flatColumns).
+	// the units, after the fields above (see flatColumns); with several
+	// compounds, each compound's columns (see compoundColumns).
 	flat []flatColumn
 }
 
-// flatColumn is one attribute column of a feature.
+// flatColumn is one attribute column of a feature: value is a *float64,
+// *bool or string (nil pointers are null).
 type flatColumn struct {
 	name  string
-	value *float64
+	value any
 }
 
 // MarshalJSON writes the fields, then the flat columns in order.
@@ -87,9 +89,18 @@ func (p receptorFeatProps) MarshalJSON() ([]byte, error) {
 	var buf bytes.Buffer
 	buf.Write(b[:len(b)-1])
 	for _, c := range p.flat {
-		v := []byte("null")
-		if c.value != nil {
-			v = []byte(formatNumber(*c.value))
+		var v []byte
+		switch x := c.value.(type) {
+		case *float64:
+			v = []byte("null")
+			if x != nil {
+				v = []byte(formatNumber(*x))
+			}
+		default:
+			if v, err = marshalJSON(x); err != nil {
+				return nil, err
+			}
+			v = bytes.TrimRight(v, "\n")
 		}
 		buf.WriteString(`,"` + c.name + `":`)
 		buf.Write(v)
@@ -102,20 +113,46 @@ func (p receptorFeatProps) MarshalJSON() ([]byte, error) {
 // method and requested time, then the steady state, each named
 // <method>_t<time><time unit>_<concentration unit> (e.g.
 // exact_t3650d_mg_L; a decimal point is written p: t182p5d).
-func flatColumns(rr plume.ReceptorResult, u plume.Units) []flatColumn {
+func flatColumns(rr plume.ReceptorResult, u plume.Units, prefix string) []flatColumn {
 	cu := strings.NewReplacer("/", "_").Replace(u.Concentration)
 	var out []flatColumn
 	for _, m := range plume.AllMethods {
 		for _, sp := range rr.Series {
 			if v := plume.MethodValue(m, sp.Exact, sp.Domenico, sp.Numeric); v != nil {
 				t := strings.ReplaceAll(formatNumber(sp.Time), ".", "p")
-				out = append(out, flatColumn{name: m + "_t" + t + u.Time + "_" + cu, value: v})
+				out = append(out, flatColumn{name: prefix + m + "_t" + t + u.Time + "_" + cu, value: v})
 			}
 		}
 		ss := rr.SteadyState
 		if v := plume.MethodValue(m, ss.Exact, ss.Domenico, ss.Numeric); v != nil {
-			out = append(out, flatColumn{name: m + "_steady_" + cu, value: v})
+			out = append(out, flatColumn{name: prefix + m + "_steady_" + cu, value: v})
 		}
+	}
+	return out
+}
+
+// compoundColumns are receptor i's columns for each compound of several,
+// each name prefixed by the compound's token (compoundToken): its
+// screening level, verdict, peak, first exceedance, then its values by
+// method and time as flatColumns names them.
+func compoundColumns(views []compoundView, i int, u plume.Units) []flatColumn {
+	var out []flatColumn
+	for _, cv := range views {
+		rr := cv.res.Receptors[i]
+		tok := compoundToken(cv.name) + "_"
+		var peak, peakTime *float64
+		method := ""
+		if rr.Peak.Method != "" {
+			peak, peakTime, method = &rr.Peak.Concentration, rr.Peak.Time, rr.Peak.Method
+		}
+		out = append(out,
+			flatColumn{tok + "screening_level", cv.res.Derived.ScreeningLevel},
+			flatColumn{tok + "exceeds_screening_level", rr.ExceedsScreeningLevel},
+			flatColumn{tok + "peak_concentration", peak},
+			flatColumn{tok + "peak_time", peakTime},
+			flatColumn{tok + "peak_method", method},
+			flatColumn{tok + "first_exceedance_time", rr.FirstExceedanceTime})
+		out = append(out, flatColumns(rr, u, tok)...)
 	}
 	return out
 }
@@ -124,7 +161,11 @@ func buildGeoJSON(sc plume.Scenario, res *plume.Result) featureCollection {
 	fc := featureCollection{Type: "FeatureCollection", Features: make([]feature, 0, len(res.Receptors)),
 		Units: res.Units, Engine: res.Engine, Derived: res.Derived, Caveats: res.Caveats}
 	toLonLat := geoFrame(res.CRS, res.Units, &fc.CoordinateFrame)
-	for _, rr := range res.Receptors {
+	var views []compoundView
+	if len(res.Derived.Compounds) > 0 {
+		views = compoundViews(sc, res)
+	}
+	for i, rr := range res.Receptors {
 		geom := toLonLat(rr.X, rr.Y)
 		series := rr.Series
 		if series == nil {
@@ -135,16 +176,23 @@ func buildGeoJSON(sc plume.Scenario, res *plume.Result) featureCollection {
 			ID:       rr.ID,
 			Geometry: geom,
 			Properties: receptorFeatProps{
-				ID: rr.ID, SiteX: rr.X, SiteY: rr.Y, Status: rr.Status, flat: flatColumns(rr, res.Units), CaveatCodes: strings.Join(res.CaveatCodes(rr.ID), ";"),
+				ID: rr.ID, SiteX: rr.X, SiteY: rr.Y, Status: rr.Status, flat: flatColumns(rr, res.Units, ""), CaveatCodes: strings.Join(res.CaveatCodes(rr.ID), ";"),
 				Z: rr.Z, ScreenTop: rr.ScreenTop, ScreenBottom: rr.ScreenBottom, ScreeningLevel: res.Derived.ScreeningLevel,
 				PlumeX: rr.PlumeX, PlumeY: rr.PlumeY,
 				SteadyExact: rr.SteadyState.Exact, SteadyDomenico: rr.SteadyState.Domenico, SteadyNumeric: rr.SteadyState.Numeric,
-				PeakConcentration: rr.Peak.Concentration, PeakTime: rr.Peak.Time, PeakMethod: rr.Peak.Method,
+				PeakConcentration: &rr.Peak.Concentration, PeakTime: rr.Peak.Time, PeakMethod: rr.Peak.Method,
 				FirstExceedanceTime: rr.FirstExceedanceTime, ExceedsScreeningLevel: rr.ExceedsScreeningLevel,
 				DomenicoDeviation: rr.DomenicoDeviation, Series: series,
 			},
 		})
 		last := &fc.Features[len(fc.Features)-1].Properties
+		if views != nil {
+			// Several compounds: the receptor's own columns hold only
+			// what is common (its verdict over the compounds); each
+			// compound's follow under its name.
+			last.PeakConcentration, last.ScreeningLevel = nil, nil
+			last.flat = compoundColumns(views, i, res.Units)
+		}
 		if a := rr.AllowableSourceConcentration; a != nil {
 			last.AllowableSteady, last.AllowableWithinTimes = a.SteadyState, a.WithinTimes
 		}

@@ -88,7 +88,7 @@ func TestDemoCSV(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		want := []string{"receptor_id", "x_m", "y_m", "z_m", "plume_x_m", "plume_y_m", "time_d", "method", "concentration_mg_per_L",
+		want := []string{"receptor_id", "x_m", "y_m", "z_m", "plume_x_m", "plume_y_m", "time_d", "method", "compound", "concentration_mg_per_L",
 			"status", "screening_level_mg_per_L", "above_screening_level",
 			"allowable_source_concentration_steady_mg_per_L", "allowable_source_concentration_within_times_mg_per_L",
 			"dilution_attenuation_factor_steady", "dilution_attenuation_factor_within_times",
@@ -103,7 +103,7 @@ func TestDemoCSV(t *testing.T) {
 		}
 		steady := 0
 		for _, r := range rows[1:] {
-			c, err := strconv.ParseFloat(r[8], 64)
+			c, err := strconv.ParseFloat(r[9], 64)
 			if err != nil || math.IsNaN(c) || math.IsInf(c, 0) {
 				t.Errorf("row %v: concentration", r)
 			}
@@ -112,10 +112,10 @@ func TestDemoCSV(t *testing.T) {
 			}
 			// Issue 11: a row of a receptor that is not modelled compares nothing.
 			wantAbove := strconv.FormatBool(c >= 0.005)
-			if r[9] == string(plume.StatusUpgradient) {
+			if r[10] == string(plume.StatusUpgradient) {
 				wantAbove = ""
 			}
-			if r[11] != wantAbove || r[10] != "0.005" {
+			if r[12] != wantAbove || r[11] != "0.005" || r[8] != "benzene" {
 				t.Errorf("row %v: above_screening_level", r)
 			}
 		}
@@ -124,7 +124,7 @@ func TestDemoCSV(t *testing.T) {
 		}
 		// Row 1 is MW-1, t = 365, exact: the JSON value, digit for digit.
 		if r := rows[1]; r[0] != "MW-1" || r[1] != "1287.6" || r[6] != "365" || r[7] != "exact" ||
-			r[8] != formatNumber(*js.Receptors[0].Series[0].Exact) {
+			r[9] != formatNumber(*js.Receptors[0].Series[0].Exact) {
 			t.Errorf("first row %v", r)
 		}
 	}

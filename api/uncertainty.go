@@ -15,6 +15,7 @@ type uncertaintyBody struct {
 	Realizations *int     `json:"realizations"`
 	Seed         *uint64  `json:"seed"`
 	Methods      []string `json:"methods"`
+	Compound     string   `json:"compound"`
 }
 
 // uncertainty is POST /v1/uncertainty: the scenario's distribution objects
@@ -51,7 +52,7 @@ func (s *server) uncertainty(c echo.Context) error {
 	if len(dt.notNumbers) > 0 {
 		return s.problemFromError(ctx, dt.notNumbers.Err(), scenarioField)
 	}
-	req := uncertainty.UncertaintyRequest{Template: sc, Parameters: dt.params, Methods: ub.Methods}
+	req := uncertainty.UncertaintyRequest{Template: sc, Parameters: dt.params, Methods: ub.Methods, Compound: ub.Compound}
 	if len(req.Methods) == 0 {
 		// The scenario's own closed forms, else exact (numeric only when asked
 		// for at the top level).
@@ -77,7 +78,7 @@ func (s *server) uncertainty(c echo.Context) error {
 	if p := s.checkOutput(size, formatName[format], uncertaintyReduce...); p != nil {
 		return p
 	}
-	r, p := compute(ctx, s, renameOutside("realizations", "seed", "methods"), func(ctx context.Context) (*reply, error) {
+	r, p := compute(ctx, s, renameOutside("realizations", "seed", "methods", "compound"), func(ctx context.Context) (*reply, error) {
 		res, err := uncertainty.RunUncertainty(ctx, req, s.engineOptions())
 		if err != nil {
 			return nil, err

@@ -40,9 +40,7 @@ func ScreenChain3D(ctx context.Context, p ChainProblem3D) (*ChainResult, error) 
 	if err != nil {
 		return nil, err
 	}
-	m := &chainGrid{sp: p.Species, re: newReaction(p.Species), hist: base.History, produced: make([]kahan, ns),
-		c: make([]float64, ns), w: make([]float64, ns), dec: make([]float64, ns), prd: make([]float64, ns),
-		sdec: make([]float64, ns), sprd: make([]float64, ns)}
+	m := &chainGrid{sp: p.Species, re: newReaction(p.Species), hist: base.History, produced: make([]kahan, ns)}
 	reused := false
 	for _, s := range p.Species {
 		g := g0 // built by setup3D for the smallest R, without decay
@@ -89,10 +87,8 @@ type chainGrid struct {
 	hist     History
 	parity   int
 	produced []kahan
-	c, w     []float64
-	dec, prd []float64
-	sdec     []float64
-	sprd     []float64
+	vol      []float64   // cell volumes dx dy dz, len nx*np
+	wf       [][]float64 // per species: integral of its concentration over the step
 }
 
 func (m *chainGrid) setStep(dt float64) {
@@ -126,38 +122,62 @@ func (m *chainGrid) advance(t0, t1 float64) {
 	}
 }
 
-// react applies the reaction step cell by cell; the mass of a cell is its
-// concentration times R dx dy dz.
+// react applies the reaction step to every cell (reaction.cell, written
+// species by species over whole fields so that the loops stream through
+// memory); the mass of a cell is its concentration times R dx dy dz.
 func (m *chainGrid) react() {
-	for i := range m.sdec {
-		m.sdec[i], m.sprd[i] = 0, 0
-	}
 	g0 := m.grids[0]
-	for ix := 0; ix < g0.nx; ix++ {
-		for k := 0; k < g0.nz; k++ {
-			for j := 0; j < g0.ny; j++ {
-				cell := ix*g0.np + k*g0.ny + j
-				vol := g0.dx[ix] * g0.dz[k] * g0.dy[j]
-				any := false
-				for i, g := range m.grids {
-					m.c[i] = g.c[cell]
-					any = any || m.c[i] != 0
-				}
-				if !any {
-					continue
-				}
-				m.re.cell(m.c, m.w, m.dec, m.prd)
-				for i, g := range m.grids {
-					g.c[cell] = m.c[i]
-					m.sdec[i] += g.r * vol * m.dec[i]
-					m.sprd[i] += g.r * vol * m.prd[i]
+	if m.vol == nil {
+		m.vol = make([]float64, len(g0.c))
+		for ix := 0; ix < g0.nx; ix++ {
+			for k := 0; k < g0.nz; k++ {
+				for j := 0; j < g0.ny; j++ {
+					m.vol[ix*g0.np+k*g0.ny+j] = g0.dx[ix] * g0.dz[k] * g0.dy[j]
 				}
 			}
 		}
+		m.wf = make([][]float64, len(m.grids))
+		for i := range m.wf {
+			m.wf[i] = make([]float64, len(g0.c))
+		}
 	}
-	for i, g := range m.grids {
-		g.acc.decayed.add(m.sdec[i])
-		m.produced[i].add(m.sprd[i])
+	re := m.re
+	for i, js := range re.nz {
+		w := m.wf[i]
+		clear(w)
+		for k, j := range js {
+			axpy(re.vals[i][k], m.grids[j].c, w)
+		}
+	}
+	for i, s := range re.sp {
+		w, c := m.wf[i], m.grids[i].c
+		var lost float64
+		for q, wq := range w {
+			d := s.Mu * wq
+			c[q] -= d
+			lost += d * m.vol[q]
+		}
+		m.grids[i].acc.decayed.add(m.grids[i].r * lost)
+		if s.Daughter < 0 {
+			continue
+		}
+		cd := m.grids[s.Daughter].c
+		pr := re.prod[i]
+		var made float64
+		for q, wq := range w {
+			g := pr * wq
+			cd[q] += g
+			made += g * m.vol[q]
+		}
+		m.produced[s.Daughter].add(m.grids[s.Daughter].r * made)
+	}
+}
+
+// axpy adds a times x to y.
+func axpy(a float64, x, y []float64) {
+	y = y[:len(x)]
+	for q, v := range x {
+		y[q] += a * v
 	}
 }
 

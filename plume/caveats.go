@@ -42,6 +42,11 @@ const (
 	CaveatExceedsAfterTimes = "exceedance_after_requested_times"
 	// How transect mass discharges and stream concentrations are computed.
 	CaveatTransectAssumptions = "transect_discharge_assumptions"
+	// How the methods treat the compounds formed by decay in a chain.
+	CaveatChainMethods = "decay_chain_methods"
+	// No closed form gives a compound formed by decay (3D, different
+	// retardation factors): the numeric values are the answer.
+	CaveatClosedFormUnavailable = "closed_form_unavailable"
 )
 
 // ScreeningCaution is the message of the general caution on every result.

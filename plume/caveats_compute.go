@@ -3,7 +3,6 @@ package plume
 import (
 	"fmt"
 	"math"
-	"strings"
 )
 
 // fmtr formats canonical quantities in the request's units for messages.
@@ -35,19 +34,9 @@ func (m *model) addCaveats(res *Result, pts []Point, run methods, opt Options, u
 
 // modelCaveats are the caveats of the model as a whole.
 func (m *model) modelCaveats(res *Result, pts []Point, run methods, fm fmtr) {
-	// Decay convention.
-	switch {
-	case m.lambda == 0:
-		res.caveat(CaveatDecayConvention, SeverityNote, "",
-			"No decay assumed (half-life null): conservative for a compound that degrades.")
-	case res.Derived.DecayAppliesTo == DecayDissolved:
-		res.caveat(CaveatDecayConvention, SeverityNote, "",
-			"The half-life acts on the dissolved phase only (decay_applies_to = dissolved): the decay rate ln2/half-life = %s is divided by R = %.4g, giving %s in the retarded equation.",
-			fm.rate(m.lambda), m.r, fm.rate(m.mu))
-	default:
-		res.caveat(CaveatDecayConvention, SeverityNote, "",
-			"The half-life acts on dissolved and sorbed mass alike (decay_applies_to = total): the decay rate ln2/half-life = %s is used as is in the retarded equation.",
-			fm.rate(m.lambda))
+	one := compoundInfo{decayAppliesTo: res.Derived.DecayAppliesTo}
+	if len(m.compounds) == 0 {
+		decayCaveat(res, &m.compoundParams, one, fm)
 	}
 	if res.Derived.DispersivityEstimated {
 		res.caveat(CaveatDispersivityEstimated, SeverityCaution, "", "%s", m.dispersivityMessage(fm))
@@ -57,29 +46,17 @@ func (m *model) modelCaveats(res *Result, pts []Point, run methods, fm fmtr) {
 			"The seepage velocity %s is outside the range usually met in aquifers (%s to %s, common practice); check the units and inputs.",
 			fm.velocity(m.v), fm.velocity(PlausibleVelocityMin), fm.velocity(PlausibleVelocityMax))
 	}
-	for i := range m.sourceCount() {
-		s := m.source(i)
-		if m.solubility != nil && s.kind != SourceKindInstantaneous && s.c0 > *m.solubility {
-			res.caveat(CaveatAboveSolubility, SeverityWarning, "",
-				"The source concentration %s%s is above the aqueous solubility %s: a separate (non-aqueous) phase is likely, and the source may last much longer than a dissolved-only model assumes.",
-				fm.conc(s.c0), sourceLabel(s), fm.conc(*m.solubility))
-		}
-	}
-	if m.screening == nil {
-		res.caveat(CaveatNoScreeningLevel, SeverityWarning, "",
-			"No screening level was given or found in the reference table, so nothing was compared: exceeds_screening_level is null for every receptor. Give contaminant.screening_level (for example the drinking-water limit that applies).")
+	if len(m.compounds) == 0 {
+		m.levelCaveats(res, &m.compoundParams, one, fm)
 	}
 	if len(res.Transects) > 0 {
 		res.caveat(CaveatTransectAssumptions, SeverityNote, "",
 			"Transect mass discharges are advective only (the Darcy flux n_e v across the line times the concentration, integrated over the line and its depth interval; dispersive flux is not counted). A stream concentration assumes all of the discharge enters the stream and mixes fully in the given stream flow, with no dilution by the stream's own groundwater inflow beyond that flow.")
 	}
-	if msg := nameMessage(res.Derived.ReferenceCompound, m.name); msg != "" {
-		res.caveat(CaveatNameNotRecognized, SeverityWarning, "", "%s", msg)
-	}
-	if len(res.Derived.FromReferenceTable) > 0 {
-		res.caveat(CaveatReferenceValues, SeverityNote, "",
-			"Values taken from the contaminant reference table (%s): %s. Site-specific values are preferable.",
-			res.Derived.ReferenceCompound, strings.Join(res.Derived.FromReferenceTable, ", "))
+	if len(m.compounds) == 0 {
+		referenceCaveats(res, res.Derived, &m.compoundParams, "")
+	} else {
+		m.chainCaveats(res, run, fm)
 	}
 	if run.domenicoSkipped {
 		res.caveat(CaveatMethodNotApplicable, SeverityNote, "",
@@ -248,12 +225,12 @@ func (m *model) lateExceedance(res *Result, rr *ReceptorResult, p Point, fm fmtr
 // nameMessage explains a contaminant name the reference table does not
 // hold ("" when the table matched it or no name was given): a likely
 // misspelling names the entry meant.
-func nameMessage(matched, name string) string {
+func nameMessage(matched, name, path string) string {
 	if matched != "" || name == "" {
 		return ""
 	}
 	if s, ok := SuggestContaminant(name); ok {
-		return fmt.Sprintf("contaminant.name %q is not in the reference table; did you mean %q? Nothing was taken from the table (no default Koc, screening level or solubility): correct the name to use the table's values, or give them all.", name, s)
+		return fmt.Sprintf("%s.name %q is not in the reference table; did you mean %q? Nothing was taken from the table (no default Koc, screening level or solubility): correct the name to use the table's values, or give them all.", path, name, s)
 	}
 	return ""
 }

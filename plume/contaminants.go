@@ -35,6 +35,9 @@ type Compound struct {
 	HalfLife HalfLifeRange `json:"half_life"`
 	// Drinking-water limits, mg/L, with the regulation or guideline cited.
 	DrinkingWaterLimits []DrinkingWaterLimit `json:"drinking_water_limits"`
+	// Molar mass, g/mol: the default yield of a decay link is the ratio of
+	// the daughter's molar mass to the parent's.
+	MolarMass SourcedValue `json:"molar_mass"`
 }
 
 // SourcedValue is a number with its unit and the source it comes from.
@@ -109,6 +112,21 @@ func ssg(v float64, unit string) SourcedValue {
 	return SourcedValue{Value: v, Unit: unit, Source: srcSSG, FromMemory: true}
 }
 
+// Standard atomic weights, g/mol (IUPAC, abridged to the values of the
+// 2021 table: C 12.011, H 1.008, O 15.999, Cl 35.45).
+const (
+	atomicC  = 12.011
+	atomicH  = 1.008
+	atomicO  = 15.999
+	atomicCl = 35.45
+)
+
+// molar is the molar mass of the formula C_c H_h O_o Cl_cl, g/mol.
+func molar(formula string, c, h, o, cl float64) SourcedValue {
+	return SourcedValue{Value: c*atomicC + h*atomicH + o*atomicO + cl*atomicCl, Unit: "g/mol",
+		Source: "computed from the formula " + formula + " with the IUPAC standard atomic weights (C 12.011, H 1.008, O 15.999, Cl 35.45)"}
+}
+
 func howard(lo, hi float64, note string) HalfLifeRange {
 	return HalfLifeRange{Low: lo, High: hi, Unit: "d", Source: srcHoward, FromMemory: true, Note: note}
 }
@@ -119,6 +137,7 @@ const noteAerobic = "low: aerobic biodegradation; high: anaerobic or slow aerobi
 var compounds = []Compound{
 	{
 		Name: "benzene", Title: "Benzene", CAS: "71-43-2",
+		MolarMass:           molar("C6H6", 6, 6, 0, 0),
 		Aliases:             []string{},
 		Koc:                 ssg(59, "L/kg"),
 		Solubility:          ssg(1750, "mg/L"),
@@ -127,6 +146,7 @@ var compounds = []Compound{
 	},
 	{
 		Name: "toluene", Title: "Toluene", CAS: "108-88-3",
+		MolarMass:           molar("C7H8", 7, 8, 0, 0),
 		Aliases:             []string{"methylbenzene"},
 		Koc:                 ssg(182, "L/kg"),
 		Solubility:          ssg(526, "mg/L"),
@@ -135,6 +155,7 @@ var compounds = []Compound{
 	},
 	{
 		Name: "ethylbenzene", Title: "Ethylbenzene", CAS: "100-41-4",
+		MolarMass:           molar("C8H10", 8, 10, 0, 0),
 		Aliases:             []string{},
 		Koc:                 ssg(363, "L/kg"),
 		Solubility:          ssg(169, "mg/L"),
@@ -143,7 +164,8 @@ var compounds = []Compound{
 	},
 	{
 		Name: "xylenes", Title: "Xylenes (total)", CAS: "1330-20-7",
-		Aliases: []string{"xylene", "xylenes (total)", "total xylenes", "xylenes, total"},
+		MolarMass: molar("C8H10", 8, 10, 0, 0),
+		Aliases:   []string{"xylene", "xylenes (total)", "total xylenes", "xylenes, total"},
 		// Mean of the o-, m- and p-xylene entries of the same table
 		// (363, 407, 389 L/kg; 178, 161, 185 mg/L), rounded.
 		Koc:        SourcedValue{Value: 386, Unit: "L/kg", Source: srcSSG + "; mean of the o-, m- and p-xylene values", FromMemory: true},
@@ -156,7 +178,8 @@ var compounds = []Compound{
 	},
 	{
 		Name: "mtbe", Title: "Methyl tert-butyl ether (MTBE)", CAS: "1634-04-4",
-		Aliases: []string{"methyl tert-butyl ether", "methyl tertiary butyl ether", "methyl tert butyl ether", "tert-butyl methyl ether"},
+		MolarMass: molar("C5H12O", 5, 12, 1, 0),
+		Aliases:   []string{"methyl tert-butyl ether", "methyl tertiary butyl ether", "methyl tert butyl ether", "tert-butyl methyl ether"},
 		Koc: SourcedValue{Value: 11, Unit: "L/kg",
 			Source:     "US EPA (1997) Drinking Water Advisory: Consumer Acceptability Advice and Health Effects Analysis on Methyl Tertiary-Butyl Ether (MTBE), EPA-822-F-97-009 (log Koc about 1.05)",
 			FromMemory: true},
@@ -173,6 +196,7 @@ var compounds = []Compound{
 	},
 	{
 		Name: "tce", Title: "Trichloroethene (TCE)", CAS: "79-01-6",
+		MolarMass:  molar("C2HCl3", 2, 1, 0, 3),
 		Aliases:    []string{"trichloroethene", "trichloroethylene"},
 		Koc:        ssg(166, "L/kg"),
 		Solubility: ssg(1100, "mg/L"),
@@ -184,6 +208,7 @@ var compounds = []Compound{
 	},
 	{
 		Name: "pce", Title: "Tetrachloroethene (PCE)", CAS: "127-18-4",
+		MolarMass:  molar("C2Cl4", 2, 0, 0, 4),
 		Aliases:    []string{"tetrachloroethene", "tetrachloroethylene", "perchloroethylene", "perc"},
 		Koc:        ssg(155, "L/kg"),
 		Solubility: ssg(200, "mg/L"),
@@ -195,6 +220,7 @@ var compounds = []Compound{
 	},
 	{
 		Name: "cis-1,2-dce", Title: "cis-1,2-Dichloroethene (cis-1,2-DCE)", CAS: "156-59-2",
+		MolarMass:  molar("C2H2Cl2", 2, 2, 0, 2),
 		Aliases:    []string{"cis-1,2-dichloroethene", "cis-1,2-dichloroethylene", "cis-dce", "cis 1,2-dce"},
 		Koc:        ssg(35.5, "L/kg"),
 		Solubility: ssg(3500, "mg/L"),
@@ -206,6 +232,7 @@ var compounds = []Compound{
 	},
 	{
 		Name: "vinyl chloride", Title: "Vinyl chloride (chloroethene)", CAS: "75-01-4",
+		MolarMass:  molar("C2H3Cl", 2, 3, 0, 1),
 		Aliases:    []string{"vinyl_chloride", "vinyl-chloride", "vc", "chloroethene", "chloroethylene"},
 		Koc:        ssg(18.6, "L/kg"),
 		Solubility: ssg(2760, "mg/L"),

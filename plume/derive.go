@@ -1,6 +1,7 @@
 package plume
 
 import (
+	"downgradient/analytic"
 	"fmt"
 	"math"
 )
@@ -74,10 +75,13 @@ func LongitudinalDispersivity(travelDistance float64) float64 {
 // yields); closedFormOf already takes the three parts separately.
 type model struct {
 	aquiferParams
-	compoundParams
-	sourceParams                // the first source
-	extra        []sourceParams // further sources (sources[1:]), superposed
-	derived      Derived        // canonical units; converted by the caller
+	compoundParams                  // the (first) compound
+	sourceParams                    // the first source
+	extra          []sourceParams   // further sources (sources[1:]), superposed
+	compounds      []compoundParams // several compounds (contaminants[]); nil for one
+	chain          analytic.Chain   // the compounds linked by decay (with compounds)
+	focus          int              // the compound closedForm gives (index into compounds; see Model.Focus)
+	derived        Derived          // canonical units; converted by the caller
 }
 
 // aquiferParams are the flow and dispersion parameters.
@@ -95,12 +99,16 @@ type aquiferParams struct {
 
 // compoundParams are one compound's sorption, decay and levels.
 type compoundParams struct {
+	cpath      string   // JSON path of the compound ("contaminant" or "contaminants[i]")
 	name       string   // as given
 	r          float64  // retardation
 	lambda     float64  // ln2 / half-life, 1/d
 	mu         float64  // decay rate in the retarded equation, 1/d
 	screening  *float64 // mg/L
 	solubility *float64 // mg/L
+	srcConc    float64  // source concentration of one of several compounds, mg/L
+	daughter   int      // index of the compound it decays to (analytic.NoDaughter: none)
+	yield      float64  // mass yield of that link
 }
 
 // sourceParams are one source's geometry, strength and history.
@@ -138,12 +146,24 @@ func derive(c Scenario) *model {
 		d.ReferenceCompound = ref.Name
 	}
 	m.deriveFlow(c.Aquifer)
-	m.name = c.Contaminant.Name
-	m.deriveSorption(c.Aquifer, c.Contaminant, ref)
-	m.deriveDecay(c.Contaminant, ref)
-	m.deriveLevels(c.Contaminant, ref)
+	m.cpath = "contaminant"
+	k := c.Contaminant
+	if len(c.Contaminants) > 0 {
+		k, m.cpath = c.Contaminants[0].contaminant(), "contaminants[0]"
+		ref, haveRef = lookupReference(k.Name)
+		if haveRef {
+			d.ReferenceCompound = ref.Name
+		}
+	}
+	m.name = k.Name
+	m.deriveSorption(c.Aquifer, k, ref)
+	m.deriveDecay(k, ref)
+	m.deriveLevels(k, ref)
 	m.deriveDispersion(c.Aquifer)
 	m.deriveSources(c)
+	if len(c.Contaminants) > 0 {
+		m.deriveCompounds(c)
+	}
 	m.deriveSourceReport()
 	return m
 }
@@ -174,7 +194,7 @@ func (m *model) deriveSorption(a Aquifer, k Contaminant, ref referenceValues) {
 	koc := k.Koc
 	if koc == nil && ref.Koc != nil {
 		koc = ref.Koc
-		d.FromReferenceTable = append(d.FromReferenceTable, "contaminant.koc")
+		d.FromReferenceTable = append(d.FromReferenceTable, m.cpath+".koc")
 	}
 	d.Koc = Ptr(*koc)
 	m.r = Retardation(*a.BulkDensity, *koc, *a.OrganicCarbonFraction, m.porosity)
@@ -187,7 +207,7 @@ func (m *model) deriveDecay(k Contaminant, ref referenceValues) {
 	hl := k.HalfLife
 	if hl == nil && k.UseTableHalfLife && ref.HalfLifeLong != nil {
 		hl = ref.HalfLifeLong
-		d.FromReferenceTable = append(d.FromReferenceTable, "contaminant.half_life")
+		d.FromReferenceTable = append(d.FromReferenceTable, m.cpath+".half_life")
 	}
 	if hl != nil {
 		m.lambda = DecayRate(*hl)
@@ -211,12 +231,12 @@ func (m *model) deriveLevels(k Contaminant, ref referenceValues) {
 	m.screening = k.ScreeningLevel
 	if m.screening == nil && ref.ScreeningLevel != nil {
 		m.screening = ref.ScreeningLevel
-		d.FromReferenceTable = append(d.FromReferenceTable, "contaminant.screening_level")
+		d.FromReferenceTable = append(d.FromReferenceTable, m.cpath+".screening_level")
 	}
 	m.solubility = k.Solubility
 	if m.solubility == nil && ref.Solubility != nil {
 		m.solubility = ref.Solubility
-		d.FromReferenceTable = append(d.FromReferenceTable, "contaminant.solubility")
+		d.FromReferenceTable = append(d.FromReferenceTable, m.cpath+".solubility")
 	}
 	d.ScreeningLevel = copyPtr(m.screening)
 	d.Solubility = copyPtr(m.solubility)
@@ -348,11 +368,11 @@ func newSourceParams(s Source, defID string) sourceParams {
 		sp.geomUnused = s.Width != nil || s.Depth != nil
 	case s.Width != nil:
 		sp.kind = SourceKind3D
-		sp.c0 = *s.Concentration
+		sp.c0 = derefOr(s.Concentration, 0) // several compounds: set by deriveCompounds
 		sp.width, sp.depth = *s.Width, *s.Depth
 	default:
 		sp.kind = SourceKind1D
-		sp.c0 = *s.Concentration
+		sp.c0 = derefOr(s.Concentration, 0)
 		sp.inlet = s.Inlet
 		if sp.inlet == "" {
 			sp.inlet = InletConcentration

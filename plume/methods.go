@@ -139,6 +139,17 @@ func (s *sourceParams) strength(tau float64) float64 {
 // order, each in its own plume frame and on its own clock (tau minus the
 // source's lag behind the first).
 func (m *model) closedForm(exact bool, p Point, tau float64) float64 {
+	if len(m.compounds) > 0 {
+		// Several compounds: the focused one's value (Value of capability
+		// packages, see Model.Focus); the screening evaluates all of them
+		// at once.
+		out := make([]float64, len(m.compounds))
+		m.compoundValues(exact, p, tau, out)
+		if math.IsNaN(out[m.focus]) {
+			return 0
+		}
+		return out[m.focus]
+	}
 	if len(m.extra) == 0 {
 		return closedFormOf(m.aquiferFor(p), &m.compoundParams, &m.sourceParams, exact, p, tau)
 	}

@@ -59,9 +59,33 @@ func (r *Result) fromCanonical(f unitFactors) {
 			}
 			cb.SteadyState.Exact, cb.SteadyState.Domenico = conc(cb.SteadyState.Exact), conc(cb.SteadyState.Domenico)
 		}
+		for k := range rr.Compounds {
+			cr := &rr.Compounds[k]
+			for j := range cr.Series {
+				sp := &cr.Series[j]
+				sp.Exact, sp.Domenico, sp.Numeric = conc(sp.Exact), conc(sp.Domenico), conc(sp.Numeric)
+			}
+			ss := &cr.SteadyState
+			ss.Exact, ss.Domenico, ss.Numeric = conc(ss.Exact), conc(ss.Domenico), conc(ss.Numeric)
+			if cr.Peak != nil {
+				cr.Peak.Time = scaled(cr.Peak.Time, 1/T)
+				cr.Peak.Concentration /= C
+			}
+			cr.FirstExceedanceTime = scaled(cr.FirstExceedanceTime, 1/T)
+			cr.ScreeningLevel = conc(cr.ScreeningLevel)
+		}
 	}
 	for i := range d.Sources {
 		d.Sources[i].MassDischarge = scaled(d.Sources[i].MassDischarge, 1/f.M)
+	}
+	for i := range d.Compounds {
+		cd := &d.Compounds[i]
+		cd.SourceConcentration /= C
+		cd.HalfLife = scaled(cd.HalfLife, 1/T)
+		cd.DecayRate *= T
+		cd.EffectiveDecayRate *= T
+		cd.ScreeningLevel = scaled(cd.ScreeningLevel, 1/C)
+		cd.Solubility = scaled(cd.Solubility, 1/C)
 	}
 	for i := range r.Transects {
 		tr := &r.Transects[i]
@@ -160,6 +184,22 @@ func (r *Result) sanitize() {
 			}
 			conc(cb.SteadyState.Exact)
 			conc(cb.SteadyState.Domenico)
+		}
+		for k := range rr.Compounds {
+			cr := &rr.Compounds[k]
+			for j := range cr.Series {
+				conc(cr.Series[j].Exact)
+				conc(cr.Series[j].Domenico)
+				conc(cr.Series[j].Numeric)
+			}
+			conc(cr.SteadyState.Exact)
+			conc(cr.SteadyState.Domenico)
+			conc(cr.SteadyState.Numeric)
+			if cr.Peak != nil {
+				conc(&cr.Peak.Concentration)
+				fixP(cr.Peak.Time)
+			}
+			fixP(cr.FirstExceedanceTime)
 		}
 		if a := rr.NumericAgreement; a != nil {
 			fix(&a.MaxRelativeDifference)

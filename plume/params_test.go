@@ -46,6 +46,7 @@ func TestParamTableCoversScenario(t *testing.T) {
 	sc := demoScenario()
 	sc.Sources = []Source{sc.Source}
 	sc.Transects = []Transect{{}}
+	sc.Contaminants = []Constituent{{}}
 	for _, path := range ParamPaths() {
 		concrete := strings.Replace(path, "[]", "[0]", 1)
 		p, err := ParseParam(concrete)

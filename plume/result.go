@@ -1,5 +1,10 @@
 package plume
 
+import (
+	"bytes"
+	"encoding/json"
+)
+
 // Result is the response of a screening (DESIGN.md section 4). Lengths, times
 // and concentrations are in the request's units (echoed in Units); every
 // number is finite.
@@ -123,6 +128,9 @@ type Derived struct {
 	InputUnits map[string]string `json:"input_units"`
 	// Each source's strength and depletion (an array even for one source).
 	Sources []SourceDerived `json:"sources"`
+	// Each compound of several (contaminants[]); omitted for one. The
+	// single-compound fields above then describe the first compound.
+	Compounds []CompoundDerived `json:"compounds,omitempty"`
 }
 
 // ReceptorDispersivity is a receptor's own dispersivities, L, estimated at
@@ -208,6 +216,11 @@ type ReceptorResult struct {
 	AllowableScaleFactor *Allowance `json:"allowable_scale_factor,omitempty"`
 	// Each source's contribution (several sources and contributions: true).
 	Contributions []Contribution `json:"contributions,omitempty"`
+	// Each compound's answer (several compounds); the receptor's own
+	// series, steady state, peak and first exceedance are then left out,
+	// and its exceeds_screening_level is true if any compound's is, else
+	// null if any compound's is, else false.
+	Compounds []CompoundResult `json:"compounds,omitempty"`
 }
 
 // Allowance is a quantity that bounds the source, at steady state and
@@ -385,6 +398,9 @@ type Caveat struct {
 	Message string `json:"message"`
 	// Receptor concerned; empty when the caveat concerns the whole result.
 	ReceptorID string `json:"receptor_id,omitempty"`
+	// Compound concerned, for a scenario of several compounds
+	// (contaminants[].name); empty when the caveat concerns all of them.
+	Compound string `json:"compound,omitempty"`
 }
 
 // MethodValue returns the value of method m in a per-method triple (nil
@@ -399,4 +415,28 @@ func MethodValue(m string, exact, domenico, numeric *float64) *float64 {
 		return numeric
 	}
 	return nil
+}
+
+// MarshalJSON writes the receptor; with several compounds its own series,
+// steady state, peak and first exceedance (which belong to each compound)
+// are left out.
+func (r ReceptorResult) MarshalJSON() ([]byte, error) {
+	type plain ReceptorResult
+	var v any = plain(r)
+	if len(r.Compounds) > 0 {
+		v = struct {
+			plain
+			Series              *struct{} `json:"series,omitempty"`
+			SteadyState         *struct{} `json:"steady_state,omitempty"`
+			Peak                *struct{} `json:"peak,omitempty"`
+			FirstExceedanceTime *struct{} `json:"first_exceedance_time,omitempty"`
+		}{plain: plain(r)}
+	}
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(v); err != nil {
+		return nil, err
+	}
+	return bytes.TrimRight(buf.Bytes(), "\n"), nil
 }

@@ -11,6 +11,10 @@ type Scenario struct {
 	Aquifer Aquifer `json:"aquifer"`
 	// Contaminant properties; Name may pick defaults from the reference table.
 	Contaminant Contaminant `json:"contaminant"`
+	// Several compounds instead of Contaminant, each with its own source
+	// concentration, sorption, decay and level, optionally linked by decay
+	// (decays_to, yield).
+	Contaminants []Constituent `json:"contaminants,omitempty"`
 	// Source geometry, strength and history, in site coordinates.
 	Source Source `json:"source"`
 	// Several sources instead of Source (3D planar sources sharing the
@@ -123,6 +127,34 @@ type Contaminant struct {
 	// alike, decay rate used as is) or "dissolved" (dissolved phase only; the
 	// decay rate in the retarded equation is divided by R).
 	DecayAppliesTo string `json:"decay_applies_to,omitempty"`
+}
+
+// Constituent is one compound of a scenario with several: the fields of
+// Contaminant, its source concentration, and the compound it decays to.
+type Constituent struct {
+	// Name of the compound (required, unique in the scenario); matched
+	// against the reference table as Contaminant.Name is.
+	Name string `json:"name"`
+	// Concentration at the source, C, >= 0 (a daughter may have none of its own).
+	SourceConcentration *float64 `json:"source_concentration"`
+	Koc                 *float64 `json:"koc"`
+	HalfLife            *float64 `json:"half_life"`
+	UseTableHalfLife    bool     `json:"use_table_half_life,omitempty"`
+	Retardation         *float64 `json:"retardation"`
+	ScreeningLevel      *float64 `json:"screening_level"`
+	Solubility          *float64 `json:"solubility"`
+	DecayAppliesTo      string   `json:"decay_applies_to,omitempty"`
+	// Name of the compound of this scenario this one decays to ("" none).
+	DecaysTo string `json:"decays_to,omitempty"`
+	// Mass of daughter formed per mass of this compound degraded, >= 0;
+	// default the ratio of molar masses (both in the reference table).
+	Yield *float64 `json:"yield"`
+}
+
+// contaminant is the Contaminant form of a constituent (its properties).
+func (k Constituent) contaminant() Contaminant {
+	return Contaminant{Name: k.Name, Koc: k.Koc, HalfLife: k.HalfLife, UseTableHalfLife: k.UseTableHalfLife,
+		Retardation: k.Retardation, ScreeningLevel: k.ScreeningLevel, Solubility: k.Solubility, DecayAppliesTo: k.DecayAppliesTo}
 }
 
 // Source describes the release. A continuous source has Concentration; an

@@ -77,25 +77,17 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 	}
 
 	if run.numeric {
-		nr, reason, err := m.runNumeric(ctx, pts, taus, opt.CellBudget)
-		if err != nil {
-			if ctxErr := ctx.Err(); ctxErr != nil {
-				return nil, ctxErr
-			}
+		if err := m.screenNumeric(ctx, res, pts, sp, opt); err != nil {
 			return nil, err
-		}
-		if nr == nil {
-			res.caveat(CaveatNumericNotRun, SeverityCaution, "", "The numeric cross-check was not run: %s.", reason)
-		} else {
-			res.Numeric = nr.report
-			m.attachNumeric(res, nr, pts, md.sc.Times, taus, sp.floor, opt.NumericTolerance)
 		}
 	}
 
 	if len(m.extra) > 0 && c.Contributions {
 		m.contributions(res, pts, sp)
 	}
-	m.allowances(res, pts, sp)
+	if len(m.compounds) == 0 {
+		m.allowances(res, pts, sp)
+	}
 	res.Transects = m.screenTransects(c, sp)
 	m.addCaveats(res, pts, run, opt, md.units, md.uf)
 	crsCaveat(res, md.sc)
@@ -169,14 +161,10 @@ type screenPlan struct {
 // screenReceptor computes everything but the numeric values at one receptor,
 // in canonical units except the series times, which echo the request's.
 func (m *model) screenReceptor(ctx context.Context, p Point, sp screenPlan) ReceptorResult {
-	rr := ReceptorResult{ID: p.ID, PlumeX: p.X, PlumeY: p.Y, Z: p.mid(), Status: p.Status, Series: make([]SeriesPoint, len(sp.taus))}
-	if p.Screen {
-		rr.ScreenTop, rr.ScreenBottom = Ptr(p.Top), Ptr(p.Bottom)
+	if len(m.compounds) > 0 {
+		return m.screenReceptorCompounds(ctx, p, sp)
 	}
-	if m.basis == BasisReceptorDistance && p.Status == StatusModelled {
-		a := m.aquiferFor(p)
-		rr.Dispersivity = &ReceptorDispersivity{a.alpha[0], a.alpha[1], a.alpha[2], *a.travel}
-	}
+	rr := m.receptorHeader(p, len(sp.taus))
 	dev := deviation{floor: sp.floor, max: math.Inf(-1)}
 	known, ok := m.receptorSeries(ctx, p, sp, rr.Series, &dev)
 	if !ok {
@@ -200,6 +188,20 @@ func (dv *deviation) compare(e, d float64) {
 	if math.Max(e, d) >= dv.floor {
 		dv.max = math.Max(dv.max, math.Abs(d-e)/math.Max(e, dv.floor))
 	}
+}
+
+// receptorHeader is a receptor's place, status and own dispersivities,
+// with room for n series points.
+func (m *model) receptorHeader(p Point, n int) ReceptorResult {
+	rr := ReceptorResult{ID: p.ID, PlumeX: p.X, PlumeY: p.Y, Z: p.mid(), Status: p.Status, Series: make([]SeriesPoint, n)}
+	if p.Screen {
+		rr.ScreenTop, rr.ScreenBottom = Ptr(p.Top), Ptr(p.Bottom)
+	}
+	if m.basis == BasisReceptorDistance && p.Status == StatusModelled {
+		a := m.aquiferFor(p)
+		rr.Dispersivity = &ReceptorDispersivity{a.alpha[0], a.alpha[1], a.alpha[2], *a.travel}
+	}
+	return rr
 }
 
 // receptorSeries fills the series at the requested times and returns the
@@ -294,4 +296,40 @@ func InputSHA256(sc Scenario) string {
 	}
 	sum := sha256.Sum256(b)
 	return hex.EncodeToString(sum[:])
+}
+
+// screenNumeric runs the numeric cross-check (one grid for every source,
+// or the coupled chain of several compounds) and attaches its values, or
+// says in a caveat why it was not run. The error is ctx's or the solver's.
+func (m *model) screenNumeric(ctx context.Context, res *Result, pts []Point, sp screenPlan, opt Options) error {
+	fail := func(err error) error {
+		if ctxErr := ctx.Err(); ctxErr != nil {
+			return ctxErr
+		}
+		return err
+	}
+	if len(m.compounds) > 0 {
+		values, rep, reason, err := m.runNumericChain(ctx, pts, sp.taus, opt.CellBudget)
+		if err != nil {
+			return fail(err)
+		}
+		if rep == nil {
+			res.caveat(CaveatNumericNotRun, SeverityCaution, "", "The numeric cross-check was not run: %s.", reason)
+			return nil
+		}
+		res.Numeric = rep
+		m.attachNumericCompounds(res, values, pts, sp)
+		return nil
+	}
+	nr, reason, err := m.runNumeric(ctx, pts, sp.taus, opt.CellBudget)
+	if err != nil {
+		return fail(err)
+	}
+	if nr == nil {
+		res.caveat(CaveatNumericNotRun, SeverityCaution, "", "The numeric cross-check was not run: %s.", reason)
+		return nil
+	}
+	res.Numeric = nr.report
+	m.attachNumeric(res, nr, pts, sp.reqTimes, sp.taus, sp.floor, opt.NumericTolerance)
+	return nil
 }

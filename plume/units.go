@@ -166,6 +166,16 @@ func toCanonical(sc Scenario) Scenario {
 		DecayAppliesTo:   c.DecayAppliesTo,
 	}
 
+	if len(sc.Contaminants) > 0 {
+		out.Contaminants = make([]Constituent, len(sc.Contaminants))
+		for i, k := range sc.Contaminants {
+			out.Contaminants[i] = k
+			out.Contaminants[i].SourceConcentration = scaled(k.SourceConcentration, C)
+			out.Contaminants[i].HalfLife = scaled(k.HalfLife, T)
+			out.Contaminants[i].ScreeningLevel = scaled(k.ScreeningLevel, C)
+			out.Contaminants[i].Solubility = scaled(k.Solubility, C)
+		}
+	}
 	out.Source = canonicalSource(sc.Source, f)
 	if len(sc.Sources) > 0 {
 		out.Sources = make([]Source, len(sc.Sources))

@@ -178,24 +178,34 @@ func validateAquifer(fe *FieldErrors, sc Scenario) {
 }
 
 func validateContaminant(fe *FieldErrors, sc Scenario) {
-	c, a := sc.Contaminant, sc.Aquifer
-	fe.CheckText("contaminant.name", c.Name, false)
-	fe.Check("contaminant.koc", c.Koc, NonNegative)
-	fe.Check("contaminant.half_life", c.HalfLife, Positive)
-	fe.Check("contaminant.retardation", c.Retardation, atLeastOne)
-	fe.Check("contaminant.screening_level", c.ScreeningLevel, Positive)
-	fe.Check("contaminant.solubility", c.Solubility, Positive)
+	if len(sc.Contaminants) > 0 {
+		validateContaminants(fe, sc)
+		return
+	}
+	validateOneContaminant(fe, sc.Aquifer, "contaminant", sc.Contaminant)
+}
+
+// validateOneContaminant checks one compound's properties; at is its JSON
+// path ("contaminant" or "contaminants[i]").
+func validateOneContaminant(fe *FieldErrors, a Aquifer, at string, c Contaminant) {
+	path := func(f string) string { return at + "." + f }
+	fe.CheckText(path("name"), c.Name, false)
+	fe.Check(path("koc"), c.Koc, NonNegative)
+	fe.Check(path("half_life"), c.HalfLife, Positive)
+	fe.Check(path("retardation"), c.Retardation, atLeastOne)
+	fe.Check(path("screening_level"), c.ScreeningLevel, Positive)
+	fe.Check(path("solubility"), c.Solubility, Positive)
 	switch c.DecayAppliesTo {
 	case "", DecayTotal, DecayDissolved:
 	default:
-		fe.Add("contaminant.decay_applies_to", fmt.Sprintf("must be %q or %q, got %q", DecayTotal, DecayDissolved, c.DecayAppliesTo))
+		fe.Add(path("decay_applies_to"), fmt.Sprintf("must be %q or %q, got %q", DecayTotal, DecayDissolved, c.DecayAppliesTo))
 	}
 	if c.Retardation == nil {
-		const why = "required unless contaminant.retardation is given (R = 1 + rho_b Koc f_oc / n_e)"
+		why := "required unless " + path("retardation") + " is given (R = 1 + rho_b Koc f_oc / n_e)"
 		if c.Koc == nil {
 			ref, ok := lookupReference(c.Name)
 			if !ok || ref.Koc == nil {
-				fe.Add("contaminant.koc", "required unless contaminant.retardation is given or contaminant.name is in the reference table with a Koc")
+				fe.Add(path("koc"), "required unless "+path("retardation")+" is given or "+path("name")+" is in the reference table with a Koc")
 			}
 		}
 		if a.OrganicCarbonFraction == nil {
@@ -226,6 +236,13 @@ func validateOneSource(fe *FieldErrors, sc Scenario, at string, s Source) {
 	fe.Check(path("mass"), s.Mass, Positive)
 	fe.Check(path("release_depth"), s.ReleaseDepth, NonNegative)
 	switch {
+	case len(sc.Contaminants) > 0:
+		if s.Concentration != nil {
+			fe.Add(path("concentration"), "with contaminants, give each compound's source_concentration instead")
+		}
+		if s.Mass != nil {
+			fe.Add(path("mass"), "several compounds need a continuous source (each compound's source_concentration), not an instantaneous release")
+		}
 	case s.Concentration == nil && s.Mass == nil:
 		fe.Add(path("concentration"), "required (or source.mass for an instantaneous release)")
 	case s.Concentration != nil && s.Mass != nil:
@@ -272,7 +289,7 @@ func validateOneSource(fe *FieldErrors, sc Scenario, at string, s Source) {
 // direction, no two source zones overlapping.
 func validateSource(fe *FieldErrors, sc Scenario) {
 	if len(sc.Sources) == 0 {
-		if sc.Source == (Source{}) {
+		if sc.Source == (Source{}) && len(sc.Contaminants) == 0 {
 			fe.Add("source", "required: the release, as source (one) or sources (several), with a concentration (or a mass for an instantaneous release)")
 			return
 		}

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strconv"
 	"strings"
 
 	"gonum.org/v1/gonum/mat"
@@ -21,6 +22,22 @@ var CalibrationParameters = []string{
 	"source.half_life",
 	"aquifer.dispersivity.longitudinal",
 	"aquifer.seepage_velocity",
+	"contaminants[].half_life",
+	"contaminants[].source_concentration",
+}
+
+// calibrationPattern is a fit path with any index replaced by [] (the
+// form of CalibrationParameters), and the index (-1 without one).
+func calibrationPattern(path string) (string, int) {
+	open, end := strings.IndexByte(path, '['), strings.IndexByte(path, ']')
+	if open < 0 || end < open {
+		return path, -1
+	}
+	i, err := strconv.Atoi(path[open+1 : end])
+	if err != nil || i < 0 {
+		return path, -1
+	}
+	return path[:open+1] + path[end:], i
 }
 
 // CalibrationConfidence is the level of the fitted values' intervals.
@@ -39,6 +56,9 @@ type CalibrationRequest struct {
 	// Optional bounds per fitted path, [low, high], 0 < low < high, in the
 	// field's unit; default [start/1000, start*1000].
 	Bounds map[string][2]float64
+	// The compound observed, for a scenario of several (contaminants[]);
+	// "" for a scenario of one. See plume.Model.Focus.
+	Compound string
 }
 
 // CalibrationResult is a fit, in the request's units.
@@ -152,11 +172,14 @@ func checkCalibration(req CalibrationRequest) ([]plume.Param, error) {
 	}
 	params := make([]plume.Param, 0, len(req.Fit))
 	for i, p := range req.Fit {
+		pat, idx := calibrationPattern(p)
 		ok := false
 		for _, c := range CalibrationParameters {
-			ok = ok || c == p
+			ok = ok || c == pat
 		}
 		switch {
+		case ok && idx >= len(req.Scenario.Contaminants):
+			fe.Add(fmt.Sprintf("fit[%d]", i), fmt.Sprintf("%q: the scenario has %d compound(s) in contaminants", p, len(req.Scenario.Contaminants)))
 		case !ok:
 			fe.Add(fmt.Sprintf("fit[%d]", i), fmt.Sprintf("must be one of %s, got %q", strings.Join(CalibrationParameters, ", "), p))
 		case seen[p]:
@@ -218,6 +241,9 @@ type fitProblem struct {
 func newFitProblem(req CalibrationRequest, params []plume.Param) (*fitProblem, error) {
 	sc := req.Scenario
 	base, err := plume.Prepare(sc)
+	if err == nil {
+		base, err = base.Focus(req.Compound)
+	}
 	if err != nil {
 		return nil, err
 	}
@@ -290,7 +316,18 @@ func (pb *fitProblem) startingValues() {
 	pb.init, pb.lo, pb.hi = make([]float64, pb.np), make([]float64, pb.np), make([]float64, pb.np)
 	for j, p := range pb.req.Fit {
 		var v float64
-		switch p {
+		pat, idx := calibrationPattern(p)
+		switch pat {
+		case "contaminants[].half_life":
+			v = math.Max(maxTau, 1) / uf.T
+			if hl := pb.req.Scenario.Contaminants[idx].HalfLife; hl != nil && *hl > 0 {
+				v = *hl
+			}
+		case "contaminants[].source_concentration":
+			v = 1
+			if c := pb.req.Scenario.Contaminants[idx].SourceConcentration; c != nil && *c > 0 {
+				v = *c
+			}
 		case "source.concentration":
 			v = src.Concentration / uf.C
 		case "contaminant.half_life":
@@ -349,6 +386,9 @@ func (pb *fitProblem) residuals(p []float64, r, model []float64) bool {
 		}
 	}
 	md, err := plume.Prepare(s)
+	if err == nil {
+		md, err = md.Focus(pb.req.Compound)
+	}
 	if err != nil {
 		return false
 	}

@@ -186,3 +186,54 @@ func BenchmarkCalibration(b *testing.B) {
 
 // f is a test shorthand for a *float64.
 var f = plumetest.F
+
+// A chain (invented, equal retardation so the closed forms apply): the
+// daughter TCE is observed, and the half-lives of parent and daughter are
+// recovered by their contaminants[] paths (issue 13).
+func TestCalibrationCompoundOfChain(t *testing.T) {
+	truth := calibrationTruth()
+	truth.Contaminant = plume.Contaminant{}
+	truth.Source.Concentration = nil
+	truth.Contaminants = []plume.Constituent{
+		{Name: "PCE", SourceConcentration: f(12), Retardation: f(1.37), HalfLife: f(500), DecaysTo: "TCE"},
+		{Name: "TCE", SourceConcentration: f(0), Retardation: f(1.37), HalfLife: f(900), ScreeningLevel: f(0.005)},
+	}
+	// Observations of TCE: the exact values of the focused model.
+	rng := rand.New(rand.NewPCG(5, 9))
+	var obs []Observation
+	md, err := plume.Prepare(truth)
+	if err == nil {
+		md, err = md.Focus("TCE")
+	}
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range 10 {
+		x, y := 20+30*float64(i), float64(i%3)-1
+		for _, tm := range []float64{1000, 2000, 3650} {
+			p := md.LocateSite(fmt.Sprintf("MW-%d", i+1), x, y, 1)
+			c := md.Value(plume.MethodExact, p, md.Elapsed(tm)) * math.Pow(10, 0.03*rng.NormFloat64())
+			obs = append(obs, Observation{WellID: p.ID, X: f(x), Y: f(y), Z: f(1), Time: f(tm), Concentration: f(c)})
+		}
+	}
+	start := truth
+	start.Contaminants = append([]plume.Constituent(nil), truth.Contaminants...)
+	start.Contaminants[0].HalfLife, start.Contaminants[1].HalfLife = f(200), f(3000)
+	fitPaths := []string{"contaminants[0].half_life", "contaminants[1].half_life"}
+	res, err := Calibrate(context.Background(), CalibrationRequest{Scenario: start, Observations: obs, Fit: fitPaths, Compound: "TCE"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for p, v := range map[string]float64{fitPaths[0]: 500, fitPaths[1]: 900} {
+		if fv := res.Fitted[p]; math.Abs(math.Log(fv.Value/v)) > 0.2 {
+			t.Errorf("%s: fitted %g (CI %v), true %g", p, fv.Value, fv.CI, v)
+		}
+	}
+	// The compound must be named, and exist.
+	for _, name := range []string{"", "vinyl chloride"} {
+		_, err := Calibrate(context.Background(), CalibrationRequest{Scenario: start, Observations: obs, Fit: fitPaths, Compound: name})
+		if fe := plume.FieldsOf(err); len(fe) == 0 || fe[0].Field != "compound" {
+			t.Errorf("compound %q: err %v, want one naming compound", name, err)
+		}
+	}
+}

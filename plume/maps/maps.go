@@ -87,6 +87,9 @@ type MapOptions struct {
 	Extent *Extent `json:"extent"`
 	// Method: "exact" (default) or "domenico".
 	Method string `json:"method,omitempty"`
+	// The compound mapped, for a scenario of several (contaminants[]);
+	// "" for a scenario of one (see plume.Model.Focus).
+	Compound string `json:"compound,omitempty"`
 }
 
 // Extent is a rectangle of the map's frame, L.

@@ -92,6 +92,13 @@ func prepareMap(sc plume.Scenario, mo MapOptions) (*plume.Model, error) {
 			return nil, err
 		}
 	}
+	if md != nil {
+		if focused, err := md.Focus(mo.Compound); err != nil {
+			bad = append(bad, plume.FieldsOf(err)...)
+		} else {
+			md = focused
+		}
+	}
 	if len(bad) == 0 {
 		bad = checkOptionsFinite(md, mo)
 	}

@@ -10,6 +10,7 @@ import (
 	"github.com/paulmach/orb"
 
 	"downgradient/analytic"
+	"downgradient/internal/plumetest"
 	"downgradient/plume"
 )
 
@@ -275,5 +276,34 @@ func BenchmarkPlumeMapDemo(b *testing.B) {
 		if _, err := PlumeMap(context.Background(), sc, mo, plume.Options{}); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+// A map of one compound of a chain (issue 13): the invented demo with an
+// equal-retardation chain; the daughter's outline at its own level, the
+// default levels from that level, and the compound required.
+func TestPlumeMapOfACompound(t *testing.T) {
+	sc := demoSiteScenario(t)
+	sc.Contaminant = plume.Contaminant{}
+	sc.Source.Concentration = nil
+	sc.Contaminants = []plume.Constituent{
+		{Name: "TCE", SourceConcentration: plumetest.F(12), Retardation: plumetest.F(2), HalfLife: plumetest.F(700), DecaysTo: "vinyl chloride"},
+		{Name: "vinyl chloride", SourceConcentration: plumetest.F(0), Retardation: plumetest.F(2), HalfLife: plumetest.F(1500), ScreeningLevel: plumetest.F(0.002)},
+	}
+	mp, err := PlumeMap(context.Background(), sc, MapOptions{Compound: "vinyl chloride"}, plume.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if mp.Levels[0] != 0.002 || len(mp.Outlines[0].Geometry) == 0 {
+		t.Errorf("levels %v, first outline %d polygons", mp.Levels, len(mp.Outlines[0].Geometry))
+	}
+	// No vinyl chloride at the source face: the daughter forms downgradient.
+	x, y := mp.Frame.ToSite(0.5, 0)
+	if containsPoint(mp.Outlines[2].Geometry, orb.Point{x, y}) {
+		t.Errorf("the 100x level outline of a daughter reaches the source face")
+	}
+	_, err = PlumeMap(context.Background(), sc, MapOptions{}, plume.Options{})
+	if fe := plume.FieldsOf(err); len(fe) == 0 || fe[0].Field != "compound" {
+		t.Errorf("no compound: err %v, want one naming compound", err)
 	}
 }

@@ -43,6 +43,9 @@ type UncertaintyRequest struct {
 	Methods []string
 	// Parallel workers; 0 means runtime.GOMAXPROCS(0).
 	Workers int
+	// The compound analysed, for a scenario of several (contaminants[]);
+	// "" for a scenario of one. See plume.Model.Focus.
+	Compound string
 }
 
 type UncertaintyResult struct {
@@ -201,6 +204,9 @@ func RunUncertainty(ctx context.Context, req UncertaintyRequest, opt plume.Optio
 	tmpl.Methods = methods
 	base, err := plume.Prepare(tmpl)
 	if err != nil {
+		return nil, err
+	}
+	if base, err = base.Focus(req.Compound); err != nil {
 		return nil, err
 	}
 	samples := SampleLatinHypercube(req.Parameters, n, req.Seed)
@@ -447,6 +453,9 @@ func drivers(params []UncertainParameter, paramRanks [][]float64, pr []float64) 
 
 func (r *run) realizeClosed(sc plume.Scenario, k int) error {
 	md, err := plume.Prepare(sc)
+	if err == nil {
+		md, err = md.Focus(r.req.Compound)
+	}
 	if err != nil {
 		return err
 	}
@@ -504,6 +513,9 @@ func (r *run) realizeClosed(sc plume.Scenario, k int) error {
 
 func (r *run) realizeScreen(ctx context.Context, sc plume.Scenario, k int) error {
 	res, err := plume.Screen(ctx, sc, r.opt)
+	if err == nil {
+		res, err = res.Focus(r.req.Compound)
+	}
 	if err != nil {
 		return err
 	}

@@ -205,3 +205,48 @@ func BenchmarkUncertaintyDemo(b *testing.B) {
 		}
 	}
 }
+
+// A compound of a chain (invented, equal retardation): the daughter's
+// concentration is linear in the parent's source concentration when the
+// daughter has no source of its own, so the exceedance probability of TCE
+// with contaminants[0].source_concentration log-normal has the closed form
+// of TestUncertainExceedanceClosedForm (issue 13).
+func TestUncertainCompoundOfChain(t *testing.T) {
+	sc := uncertainDemo()
+	sc.Receptors = sc.Receptors[6:7]
+	sc.Times = []float64{1825}
+	sc.Contaminant = plume.Contaminant{}
+	sc.Source.Concentration = nil
+	sc.Contaminants = []plume.Constituent{
+		{Name: "PCE", SourceConcentration: f(1), Retardation: f(1.5), HalfLife: f(400), DecaysTo: "TCE"},
+		{Name: "TCE", SourceConcentration: f(0), Retardation: f(1.5), HalfLife: f(900)},
+	}
+	md, err := plume.Prepare(sc)
+	if err == nil {
+		md, err = md.Focus("TCE")
+	}
+	if err != nil {
+		t.Fatal(err)
+	}
+	fac := md.Value(plume.MethodExact, md.Receptors()[0], md.Elapsed(1825))
+	level := 15 * fac
+	sc.Contaminants[1].ScreeningLevel = f(level)
+	d := Distribution{Kind: DistLognormal, P05: 2, P95: 40}
+	sc.Contaminants[0].SourceConcentration = f(d.Median())
+	const n = 1000
+	req := UncertaintyRequest{Template: sc, Parameters: []UncertainParameter{{Param: param(t, "contaminants[0].source_concentration"), Dist: d}},
+		Realizations: n, Seed: 3, Compound: "TCE"}
+	ur, err := RunUncertainty(context.Background(), req, plume.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	mu, sigma := d.lognormalParams()
+	want := 1 - distuv.UnitNormal.CDF((math.Log(level/fac)-mu)/sigma)
+	if got := ur.Receptors[0].Series[0].ExceedanceProbability; got == nil || math.Abs(*got-want) > 1.5/n {
+		t.Fatalf("P = %v, closed form %g", got, want)
+	}
+	req.Compound = ""
+	if _, err := RunUncertainty(context.Background(), req, plume.Options{}); len(plume.FieldsOf(err)) == 0 || plume.FieldsOf(err)[0].Field != "compound" {
+		t.Errorf("no compound named: err %v, want one naming compound", err)
+	}
+}

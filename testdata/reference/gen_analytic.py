@@ -3,7 +3,7 @@
 
 Run by hand with the Debian interpreter (python3-mpmath, python3-scipy):
 
-    /usr/bin/python3 testdata/reference/gen_analytic.py [erfcx|1d|3d|puff|all]
+    /usr/bin/python3 testdata/reference/gen_analytic.py [erfcx|1d|3d|puff|1dhist|3dx|all]
 
 and commit the JSON files it writes beside itself:
 
@@ -11,6 +11,10 @@ and commit the JSON files it writes beside itself:
     analytic_1d.json     OgataBanks (first-type inlet) and OgataBanksFlux (third-type)
     analytic_3d.json     Exact3D (time integral) and Domenico (1987)
     analytic_puff.json   Puff3D, Puff2D, Puff1D (instantaneous releases)
+    analytic_1d_history.json  OgataBanksAt with finite-duration and depleting sources
+    analytic_3d_extremes.json Exact3DAt (and DomenicoAt) at the extremes: Peclet
+                         1e-2 and 1e6, values down to 1e-30 and below, screens,
+                         receptors inside and below the source, histories
 
 Every input is a float64 (written with Python's round-trip repr, or "+Inf"),
 and every reference value is the exact function of those float64 inputs,
@@ -541,6 +545,127 @@ def gen_1d():
 
 
 # ---------------------------------------------------------------------------
+# 1D column with a source history (finite duration, depletion)
+# ---------------------------------------------------------------------------
+
+def hist_closed(kind, x, t, V, D, R, Mu, Dur, g):
+    """C/C0 for a source C0 exp(-g s) active for 0 <= s <= Dur (Dur = +Inf:
+    never stops), by superposition of the closed forms: the response to
+    C0 exp(-g s) from s = 0 is exp(-g t) times the constant-source solution
+    with the decay rate Mu - g, so
+        C = exp(-g t) [F(t) - F(t - Dur)],  F = ob1 or ob3 with Mu - g.
+    Evaluated at the working precision, which must exceed the digits lost
+    to the subtraction (the callers use 120 and 200 digits)."""
+    fn = ob1 if kind == 1 else ob3
+    c = fn(x, t, V, D, R, Mu - g)
+    if not mp.isinf(Dur) and t > Dur:
+        c -= fn(x, t - Dur, V, D, R, Mu - g)
+    return mp.exp(-g * t) * c
+
+
+def hist_integral(kind, x, t, V, D, R, Mu, Dur, g):
+    """The same value as the time integral of the impulse response over the
+    ages max(0, t - Dur) <= tau <= t with the depletion weight
+    exp(-g (t - tau)): independent of the closed forms."""
+    with mp.workdps(DPS + 15):
+        x, t, V, D, R, Mu, Dur, g = [mp.mpf(a) for a in (x, t, V, D, R, Mu, Dur, g)]
+        Vp, Dp = V / R, D / R
+        t0 = t - Dur if (not mp.isinf(Dur) and t > Dur) else mp.mpf(0)
+        tr = x / Vp
+        sig = tr * mp.sqrt(2 * Dp / (Vp * x))
+        E = lambda tau: -Mu * tau - (x - Vp * tau) ** 2 / (4 * Dp * tau) - g * (t - tau)
+        pts = [p for p in time_breakpoints(t, tr, sig, Mu + g, log_slope_at_end(E, t))[1:-1] if p > t0]
+        if t0 > 0:
+            # a ladder away from the lower end, on the scale of the
+            # integrand's fall there
+            d = mp.diff(E, t0)
+            scale = min(1 / abs(d), (t - t0) / 4) if d != 0 else (t - t0) / 4
+            pts += [t0 + scale * mp.mpf(4) ** j for j in range(-6, 30) if t0 + scale * mp.mpf(4) ** j < t]
+        pts = [t0] + sorted(set(pts)) + [t]
+        k = kernel_1d_first if kind == 1 else kernel_1d_third
+        f = lambda tau: k(x, tau, Vp, Dp, Mu) * mp.exp(-g * (t - tau))
+        return integrate(f, pts)
+
+
+def gen_1d_history():
+    """analytic_1d_history.json: OgataBanksAt for finite-duration and
+    depleting sources, both inlets, including long after the pulse, where
+    two step responses of nearly equal size are subtracted."""
+    t0 = time.time()
+    cases = []
+    L2 = mp.log(2)
+
+    def add(label, kind, x, t, V, D, R, Mu, Dur, g):
+        args = [x, t, V, D, R, Mu, Dur, g]
+        with mp.workdps(120):
+            v1 = hist_closed(kind, *[mp.mpf(a) for a in args])
+        with mp.workdps(200):
+            v2 = hist_closed(kind, *[mp.mpf(a) for a in args])
+        prec = relerr(v1, v2)
+        iv = hist_integral(kind, *args)
+        agree = relerr(iv, v2)
+        if v2 < TINY_ZERO:
+            return
+        with mp.workdps(120):
+            fn = lambda *a: hist_closed(kind, *a)
+            cond = condition(fn, args, [0, 1, 2, 3, 4, 5, 6, 7])
+        row = {"label": label, "inlet": "first" if kind == 1 else "third",
+               "x": fnum(x), "t": fnum(t), "V": fnum(V), "Dx": fnum(D), "R": fnum(R), "Mu": fnum(Mu),
+               "duration": fnum(Dur), "depletion": fnum(g),
+               "value": dstr(v2), "cond": dstr(cond),
+               "precision_check": mp.nstr(prec, 3), "time_integral_relerr": mp.nstr(agree, 3)}
+        if agree > AGREE:
+            print("DISAGREE", label, dstr(v2), dstr(iv), file=sys.stderr)
+            row["independent_check"] = "FAILED"
+        else:
+            row["independent_check"] = "ok"
+        cases.append(row)
+
+    # The audit case: v 0.3 m/d, alpha_L 5 m (D = 1.5 m2/d), R 1.5, a
+    # half-life of 365 d on dissolved and sorbed mass (Mu = ln2/365), a
+    # source active for 300 d; during, just after and long after the pulse.
+    V, D, R, Mu, Dur = 0.3, 1.5, 1.5, float(L2 / 365), 300.0
+    for kind in (1, 3):
+        kl = "first" if kind == 1 else "third"
+        for x, t in ((50.0, 3000.0), (10.0, 3000.0), (10.0, 5000.0), (10.0, 6000.0), (10.0, 7000.0),
+                     (10.0, 8000.0), (50.0, 200.0), (50.0, 400.0), (50.0, 1000.0), (10.0, 301.0),
+                     (120.0, 900.0), (120.0, 2500.0), (1.0, 4000.0), (0.01, 1000.0)):
+            add("%s audit finite duration x=%g t=%g" % (kl, x, t), kind, x, t, V, D, R, Mu, Dur, 0.0)
+        # depletion, slower and faster than the decay, and both histories
+        for g in (float(L2 / 730), float(L2 / 100)):
+            for x, t in ((10.0, 500.0), (50.0, 3000.0), (10.0, 6000.0)):
+                add("%s audit depletion g=%.3g x=%g t=%g" % (kl, g, x, t), kind, x, t, V, D, R, Mu, INF, g)
+                add("%s audit depletion and duration g=%.3g x=%g t=%g" % (kl, g, x, t), kind, x, t, V, D, R,
+                    Mu, Dur, g)
+    # Other Peclet numbers (x V/D = 0.01, 1e2, 1e4): a short pulse long
+    # after, and without decay.
+    for Pe in (1e-2, 1e2, 1e4):
+        x = 30.0
+        V = 0.25
+        D = V * x / Pe
+        R = 2.0
+        tr = R * x / V
+        for kind in (1, 3):
+            kl = "first" if kind == 1 else "third"
+            for Mu in (0.0, 0.1 / tr):
+                for f, df in ((3.0, 0.1), (10.0, 0.5), (0.9, 0.5)):
+                    t, Dur = f * tr, df * tr
+                    add("%s Pe=%g Mu*tr=%g pulse t=%g*tr duration=%g*tr" % (kl, Pe, Mu * tr, f, df),
+                        kind, x, t, V, D, R, Mu, Dur, 0.0)
+    doc = header("OgataBanksAt: C/C0 in a semi-infinite column for a source C0 exp(-depletion s) "
+                 "active for 0 <= s <= duration, both inlet types")
+    doc["formula"] = ("exp(-g t) [F(t) - F(t - duration)] with F the constant-source solution (Ogata & Banks "
+                      "1961; van Genuchten & Alves 1982, decay Mu - g), evaluated at 120 and 200 digits; "
+                      "checked against the time integral of the impulse response over the ages the source "
+                      "was active (time_integral_relerr)")
+    doc["sources"] = ["Ogata & Banks (1961), USGS Professional Paper 411-A",
+                      "van Genuchten & Alves (1982), USDA Technical Bulletin 1661"]
+    doc["cases"] = cases
+    write("analytic_1d_history.json", doc)
+    print("1d history cases", len(cases), "%.0fs" % (time.time() - t0), file=sys.stderr)
+
+
+# ---------------------------------------------------------------------------
 # 3D exact and Domenico
 # ---------------------------------------------------------------------------
 
@@ -688,6 +813,182 @@ def gen_3d():
 
 
 # ---------------------------------------------------------------------------
+# 3D extremes: Peclet 1e-2 and 1e6, tiny values, screens, histories
+# ---------------------------------------------------------------------------
+
+def ierfc_mp(u):
+    """integral_u^inf erfc = exp(-u^2)/sqrt(pi) - u erfc(u), u >= 0, at 40
+    digits more than the working precision (the two terms cancel)."""
+    with mp.workdps(mp.mp.dps + 40):
+        u = mp.mpf(u)
+        v = mp.exp(-u * u) / mp.sqrt(mp.pi) - u * mp.erfc(u)
+    return +v
+
+
+def strip_avg(z1, z2, Z, Dp, tau):
+    """Mean over z in [z1, z2] of strip_factor(z, Z, Dp, tau) (z1 == z2: the
+    point), from the antiderivative |s| + ierfc(|s|) of erf(s) with the
+    linear parts written exactly for the position of the screen against Z
+    (a closed form, not the Go code's: the Go code also switches to a
+    Gauss rule for short screens)."""
+    if z1 == z2:
+        return strip_factor(z1, Z, Dp, tau)
+    if mp.isinf(Z):
+        return mp.mpf(1)
+    c = 1 / (2 * mp.sqrt(Dp * tau))
+    if z1 >= Z:
+        lin = mp.mpf(0)
+    elif z2 <= Z:
+        lin = 2 * (z2 - z1)
+    else:
+        lin = 2 * (Z - z1)
+    corr = (ierfc_mp(c * (z2 + Z)) - ierfc_mp(c * (z1 + Z))
+            - ierfc_mp(c * abs(z2 - Z)) + ierfc_mp(c * abs(z1 - Z)))
+    return (c * lin + corr) / (2 * c * (z2 - z1))
+
+
+def exact3d_x(x, y, z1, z2, t, V, Dx, Dy, Dz, R, Mu, W, Z, Dur, g, method='tanh-sinh'):
+    """The exact 3D value for a screen [z1, z2] and a source C0 exp(-g s)
+    active for 0 <= s <= Dur: the point-source kernel times the transverse
+    factors (the vertical one averaged over the screen), integrated over the
+    ages max(0, t - Dur) <= tau <= t with the weight exp(-g (t - tau))."""
+    Vp, Dxp, Dyp, Dzp = V / R, Dx / R, Dy / R, Dz / R
+    tr = x / Vp
+    sig = tr * mp.sqrt(2 * Dxp / (Vp * x))
+    t0 = t - Dur if (not mp.isinf(Dur) and not mp.isinf(t) and t > Dur) else mp.mpf(0)
+    ylo = max(abs(y) - W / 2, 0) if not mp.isinf(W) else 0
+    zlo = max(z1 - Z, 0) if not mp.isinf(Z) else 0
+    E = lambda tau: (-Mu * tau - (x - Vp * tau) ** 2 / (4 * Dxp * tau)
+                     - ylo ** 2 / (4 * Dyp * tau) - zlo ** 2 / (4 * Dzp * tau) - g * (t - tau))
+    pts = time_breakpoints(t, tr, sig, Mu + g, log_slope_at_end(E, t))[1:-1]
+    for dist, Dp in ((ylo, Dyp), (zlo, Dzp), (abs(y) + W / 2, Dyp), (z1 + Z, Dzp), (z2 + Z, Dzp),
+                     (abs(z2 - Z), Dzp)):
+        if dist > 0 and not mp.isinf(dist):
+            for k in (0.25, 1, 4):
+                pts.append(k * dist ** 2 / (4 * Dp))
+    if t0 > 0:
+        d = mp.diff(E, t0)
+        scale = min(1 / abs(d), (t - t0) / 4) if d != 0 else (t - t0) / 4
+        pts += [t0 + scale * mp.mpf(4) ** j for j in range(-6, 30)]
+    pts = [t0] + sorted(set(p for p in pts if t0 < p < t)) + [t]
+    f = lambda tau: (kernel_1d_first(x, tau, Vp, Dxp, Mu) * strip_factor(y, W / 2, Dyp, tau)
+                     * strip_avg(z1, z2, Z, Dzp, tau) * (mp.exp(-g * (t - tau)) if g else 1))
+    return integrate(f, pts, method=method)
+
+
+def dom_long(x, t, V, Dx, R, Mu):
+    ax = Dx / V
+    q = mp.sqrt(1 + 4 * Mu * ax * R / V)
+    e = mp.mpf(2) if mp.isinf(t) else mp.erfc((x - (V / R) * t * q) / (2 * mp.sqrt(ax * (V / R) * t)))
+    return mp.exp(x / (2 * ax) * (1 - q)) * e / 2
+
+
+def domenico_x(x, y, z1, z2, t, V, Dx, Dy, Dz, R, Mu, W, Z, Dur, g):
+    """DomenicoAt's definition: the longitudinal factor of the depleting
+    source (g <= Mu: exp(-g t) L(t; Mu - g); g > Mu: exp(-g max(t - Rx/V,
+    0)) L(t; Mu)), minus exp(-g Dur) times the same at t - Dur after the
+    source stops; times the transverse factors at the travel distance, the
+    vertical one averaged over the screen."""
+    def dep(tt):
+        if tt <= 0:
+            return mp.mpf(0)
+        if g == 0:
+            return dom_long(x, tt, V, Dx, R, Mu)
+        if mp.isinf(tt):
+            return mp.mpf(0)
+        if g <= Mu:
+            return mp.exp(-g * tt) * dom_long(x, tt, V, Dx, R, Mu - g)
+        return mp.exp(-g * max(tt - R * x / V, 0)) * dom_long(x, tt, V, Dx, R, Mu)
+    L = dep(t)
+    if not mp.isinf(Dur) and not mp.isinf(t) and t > Dur:
+        L -= mp.exp(-g * Dur) * dep(t - Dur)
+    ay, az = Dy / V, Dz / V
+    return L * strip_factor(y, W / 2, ay * x, 1) * strip_avg(z1, z2, Z, az * x, 1)
+
+
+def gen_3d_extremes():
+    t0 = time.time()
+    cases = []
+    names = ["x", "y", "top", "bottom", "t", "V", "Dx", "Dy", "Dz", "R", "Mu", "Width", "Depth",
+             "duration", "depletion"]
+
+    def add(label, args):
+        args = [float(a) for a in args]
+        with mp.workdps(DPS):
+            ma = [mp.mpf(a) for a in args]
+            v1 = exact3d_x(*ma)
+            v2 = exact3d_x(*ma, method='gauss-legendre')
+        agree = relerr(v1, v2) if v2 != 0 else mp.mpf(0)
+        with mp.workdps(2 * DPS):
+            dv = domenico_x(*[mp.mpf(a) for a in args])
+            dcond = condition(lambda *a: domenico_x(*a), args, range(15)) if dv > TINY_KEEP else mp.mpf(0)
+        if v1 < TINY_KEEP:
+            print("dropped (below 1e-300)", label, file=sys.stderr)
+            return
+        row = {k: fnum(a) for k, a in zip(names, args)}
+        row.update({"label": label, "exact": dstr(v1), "exact_quadrature_agreement": mp.nstr(agree, 3),
+                    "domenico": dstr(dv), "domenico_cond": dstr(dcond)})
+        if agree > AGREE:
+            print("QUAD DISAGREE", label, v1, v2, file=sys.stderr)
+        cases.append(row)
+        print(len(cases), label, mp.nstr(v1, 6), "%.0fs" % (time.time() - t0), file=sys.stderr, flush=True)
+
+    inf = INF
+    W, Z = 15.0, 3.0
+    # Peclet 1e-2 at the receptor (x V/Dx): 0.1 m from the source, alpha_L 10 m.
+    V, aL, aT, aV = 0.3, 10.0, 1.0, 0.1
+    for R, Mu in ((1.0, 0.0), (2.0, 1e-3)):
+        x = 0.1
+        tr = R * x / V
+        for f in (0.1, 1.0, 10.0, inf):
+            for y, z1, z2, pl in ((0, 1, 1, "centreline"), (5, 2, 2, "inside"), (12, 1, 1, "beside"),
+                                  (0, 6, 6, "below"), (0, 0, 3, "screen 0-3 m"), (0, 2, 6, "screen 2-6 m")):
+                add("Pe=0.01 %s t=%s R=%g Mu=%g" % (pl, "steady" if math.isinf(f) else "%g*tr" % f, R, Mu),
+                    [x, y, z1, z2, f * tr, V, aL * V, aT * V, aV * V, R, Mu, W, Z, inf, 0])
+    # Peclet 1e6: alpha_L 0.3 mm at 300 m; times around the travel time.
+    V, aL, aT, aV = 0.3, 3e-4, 3e-5, 3e-6
+    for R, Mu in ((1.0, 0.0), (1.5, 1e-4)):
+        x = 300.0
+        tr = R * x / V
+        for f in (0.999, 1.0, 1.001, 2.0, inf):
+            for y, z1, z2, pl in ((0, 1, 1, "centreline"), (7, 2.9, 2.9, "inside near corner"),
+                                  (7.6, 1, 1, "just beside"), (0, 1, 4, "screen 1-4 m")):
+                add("Pe=1e6 %s t=%s R=%g Mu=%g" % (pl, "steady" if math.isinf(f) else "%g*tr" % f, R, Mu),
+                    [x, y, z1, z2, f * tr, V, aL * V, aT * V, aV * V, R, Mu, W, Z, inf, 0])
+    # Tiny values: the early tail, far beside, far below (moderate Peclet).
+    V, aL, aT, aV = 0.1, 10.0, 1.0, 0.1
+    R, Mu = 1.4, math.log(2) / 720
+    for x, y, z1, z2, t, pl in ((300.0, 0, 1, 1, 600.0, "early tail"), (300.0, 0, 1, 1, 350.0, "early tail"),
+                                 (50.0, 60, 1, 1, inf, "60 m beside"), (50.0, 100, 1, 1, inf, "100 m beside"),
+                                 (30.0, 0, 25, 25, inf, "25 m below"), (30.0, 0, 20, 40, 3650.0, "screen 20-40 m"),
+                                 (1500.0, 0, 1, 1, inf, "1500 m downgradient"),
+                                 (100.0, 40, 12, 12, 3650.0, "beside and below")):
+        add("tiny %s x=%g t=%s" % (pl, x, t), [x, y, z1, z2, t, V, aL * V, aT * V, aV * V, R, Mu, W, Z, inf, 0])
+    # Screens and histories at the benchmark's parameters.
+    for x, y, z1, z2 in ((50.0, 0, 0, 3), (50.0, 0, 2, 5), (50.0, 4, 5, 10), (210.0, 6, 1, 20), (30.0, 5, 1, 1)):
+        for t, Dur, g, hl in ((3650.0, 1825.0, 0, "5 y source"), (9000.0, 1825.0, 0, "long after a 5 y source"),
+                              (30000.0, 1825.0, 0, "very long after"), (3650.0, inf, math.log(2) / 3000, "depleting"),
+                              (3650.0, inf, 0.01, "depleting fast"), (7300.0, 1825.0, 0.01, "depleting, stopped")):
+            add("history %s x=%g y=%g z=[%g,%g] t=%g" % (hl, x, y, z1, z2, t),
+                [x, y, z1, z2, t, V, aL * V, aT * V, aV * V, R, Mu, W, Z, Dur, g])
+    doc = header("Exact3DAt and DomenicoAt at the extremes: Peclet numbers 1e-2 and 1e6 at the receptor, "
+                 "values far below the source, well screens, receptors inside and below the source, "
+                 "finite-duration and depleting sources")
+    doc["exact_formula"] = ("int over ages max(0, t - duration) .. t of x/(2 sqrt(pi Dx' tau^3)) exp(-Mu tau - "
+                            "(x - V' tau)^2/(4 Dx' tau)) Fy(tau) <Fz(tau)> exp(-depletion (t - tau)) dtau; primes: "
+                            "divided by R; <Fz> the mean of Fz over [top, bottom] from the antiderivative of erf")
+    doc["domenico_formula"] = ("longitudinal factor of the depleting source (depletion g <= Mu: exp(-g t) L(t; Mu-g); "
+                               "g > Mu: exp(-g max(t - R x/V, 0)) L(t; Mu)) minus exp(-g duration) times the same at "
+                               "t - duration; L = 1/2 exp(x/(2 ax)(1-q)) erfc((x - V t q/R)/(2 sqrt(ax V t/R))); "
+                               "times the transverse factors at the travel distance (vertical one averaged)")
+    doc["sources"] = ["exact: time integral of the point-source kernel (e.g. Wexler 1992, USGS TWRI 3-B7)",
+                      "Domenico (1987), J. Hydrology 91, 49-58"]
+    doc["cases"] = cases
+    write("analytic_3d_extremes.json", doc)
+    print("3d extremes", len(cases), "%.0fs" % (time.time() - t0), file=sys.stderr)
+
+
+# ---------------------------------------------------------------------------
 # Puffs
 # ---------------------------------------------------------------------------
 
@@ -759,3 +1060,7 @@ if __name__ == "__main__":
         gen_puff()
     if what in ("3d", "all"):
         gen_3d()
+    if what in ("1dhist", "all"):
+        gen_1d_history()
+    if what in ("3dx", "all"):
+        gen_3d_extremes()

@@ -1,0 +1,144 @@
+package plume
+
+import (
+	"context"
+	"errors"
+	"math"
+	"sort"
+
+	"downgradient/numeric"
+)
+
+// runNumericChain is runNumeric for several compounds: the coupled species
+// on one finite-volume grid (numeric.ScreenChain3D or ScreenChain1D), at
+// the finite requested times (a chain has no directly solved steady state).
+// values[c][r][j] is compound c at receptor r and requested time j, mg/L
+// (NaN where the method has no value).
+func (m *model) runNumericChain(ctx context.Context, pts []Point, taus []float64, budget int) (values [][][]float64, report *NumericReport, reason string, err error) {
+	idx, times, reason := m.numericTargets(pts, taus)
+	if reason != "" {
+		return nil, nil, reason, nil
+	}
+	if n := len(times); n > 0 && math.IsInf(times[n-1], 1) {
+		times = times[:n-1]
+	}
+	if len(times) == 0 {
+		return nil, nil, "no requested time falls after the source start (a chain's steady state is not solved numerically)", nil
+	}
+	aq := m.aquiferFor(pts[idx[0]])
+	for _, i := range idx[1:] {
+		if m.aquiferFor(pts[i]).alpha != aq.alpha {
+			return nil, nil, "the dispersivities were estimated at each receptor's own travel distance, and one finite-volume grid holds one dispersivity: give aquifer.dispersivity or aquifer.dispersivity_scale", nil
+		}
+	}
+	species := make([]numeric.Species, len(m.compounds))
+	for i, cp := range m.compounds {
+		species[i] = numeric.Species{R: cp.r, Mu: cp.mu, Daughter: cp.daughter, Yield: cp.yield, Source: cp.srcConc}
+	}
+	hist := numeric.History{Duration: m.duration, Depletion: m.depletion}
+	var r *numeric.ChainResult
+	if m.kind == SourceKind1D {
+		inlet := numeric.InletConcentration
+		if m.inlet == InletFlux {
+			inlet = numeric.InletFlux
+		}
+		xs := make([]float64, len(idx))
+		for k, i := range idx {
+			xs[k] = pts[i].X
+		}
+		r, err = numeric.ScreenChain1D(ctx, numeric.ChainProblem1D{Species: species, Problem1D: numeric.Problem1D{
+			V: m.v, Dx: aq.disp[0], Dm: math.Min(m.de, aq.disp[0]), R: 1, Inlet: inlet, History: hist,
+			Receptors: xs, Times: times, CellBudget: budget}})
+	} else {
+		rs := make([]numeric.Receptor, len(idx))
+		for k, i := range idx {
+			p := pts[i]
+			rs[k] = numeric.Receptor{X: p.X, Y: p.Y, Top: p.Top, Bottom: p.Bottom}
+		}
+		r, err = numeric.ScreenChain3D(ctx, numeric.ChainProblem3D{Species: species, Problem3D: numeric.Problem3D{
+			V: m.v, Dx: aq.disp[0], Dy: aq.disp[1], Dz: aq.disp[2], R: 1,
+			Width: m.width, Depth: m.depth, History: hist, Receptors: rs, Times: times, CellBudget: budget}})
+	}
+	switch {
+	case err == nil:
+	case ctx.Err() != nil:
+		return nil, nil, "", ctx.Err()
+	case errors.Is(err, numeric.ErrWorkBudget):
+		return nil, nil, "the time steps it needs exceed the work budget (" + err.Error() + ")", nil
+	case errors.Is(err, numeric.ErrBudget):
+		return nil, nil, "the grid it needs exceeds the cell budget (" + err.Error() + ")", nil
+	default:
+		return nil, nil, err.Error(), nil
+	}
+	values = make([][][]float64, len(m.compounds))
+	for c := range values {
+		values[c] = make([][]float64, len(pts))
+		for i := range pts {
+			values[c][i] = make([]float64, len(taus))
+			for j := range taus {
+				values[c][i][j] = math.NaN()
+			}
+		}
+		for k, i := range idx {
+			for j, t := range taus {
+				if !(t > 0) {
+					values[c][i][j] = 0
+					continue
+				}
+				values[c][i][j] = r.C[c][k][sort.SearchFloat64s(times, t)]
+			}
+		}
+	}
+	rep := numericReport(numericOutput{solver: m.kind, grid: r.Grid}, budget)
+	rep.MassBalanceError = chainClosure(r.Total)
+	return values, rep, "", nil
+}
+
+// chainClosure is the closure error of a chain's budget relative to the
+// mass that entered or was formed.
+func chainClosure(b numeric.SpeciesBudget) float64 {
+	in := math.Abs(b.In) + math.Abs(b.Produced)
+	if in == 0 {
+		return 0
+	}
+	return math.Abs(b.In+b.Produced-b.Outflow-b.Decayed-b.Stored) / in
+}
+
+// attachNumericCompounds stores the chain's numeric values and, for each
+// compound without a closed form, its peak and verdict from them (over the
+// requested times only; a caveat says so).
+func (m *model) attachNumericCompounds(res *Result, values [][][]float64, pts []Point, sp screenPlan) {
+	for r := range res.Receptors {
+		rr := &res.Receptors[r]
+		for c := range rr.Compounds {
+			cr := &rr.Compounds[c]
+			best, bestJ := 0.0, -1
+			for j := range cr.Series {
+				v := values[c][r][j]
+				if math.IsNaN(v) {
+					continue
+				}
+				cr.Series[j].Numeric = Ptr(v)
+				if v > best || bestJ < 0 {
+					best, bestJ = v, j
+				}
+			}
+			if cr.Peak != nil || bestJ < 0 {
+				continue
+			}
+			cr.Peak = &Peak{Concentration: best, Method: MethodNumeric, Time: Ptr(m.start + sp.taus[bestJ])}
+			cp := m.compounds[c]
+			if cp.screening == nil || pts[r].upgradient() {
+				continue
+			}
+			cr.ExceedsScreeningLevel = new(best >= *cp.screening && best > 0)
+			for j := range cr.Series {
+				if v := values[c][r][j]; v >= *cp.screening && v > 0 {
+					cr.FirstExceedanceTime = Ptr(m.start + sp.taus[j])
+					break
+				}
+			}
+		}
+		rr.ExceedsScreeningLevel = aggregateExceeds(rr.Compounds)
+	}
+}
