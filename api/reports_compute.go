@@ -72,7 +72,7 @@ func (s *server) computeFigures(ctx context.Context, sc plume.Scenario, res *plu
 	}
 	if needs.profile {
 		parts = append(parts, func() (err error) {
-			fi.profile, err = maps.CentrelineProfile(ctx, sc, 0, denseSteps, opt)
+			fi.profile, err = maps.CentrelineProfile(ctx, sc, "", 0, denseSteps, opt)
 			return err
 		})
 	}
