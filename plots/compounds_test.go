@@ -206,18 +206,45 @@ func TestBreakthroughScaleSeveralLevels(t *testing.T) {
 // volumes did not run) is named in the legend, with no line drawn.
 func TestBreakthroughCompoundWithoutValues(t *testing.T) {
 	b := chainFigure(true)
-	b.Curves[1] = Curve{Label: "no values: no closed form", Compound: "TCE", Method: "exact"}
+	b.Curves[1] = Curve{Label: "no values", Compound: "TCE", Method: "exact"}
 	f, err := BreakthroughFigure(b)
 	if err != nil {
 		t.Fatal(err)
 	}
 	svg := renderSVG(t, f, 1)
-	if !strings.Contains(svgTexts(t, svg), "TCE, no values: no closed form") {
+	if !strings.Contains(svgTexts(t, svg), "TCE, no values") {
 		t.Error("no legend entry for the compound without values")
 	}
 	for _, p := range strokedPaths(svg) {
 		if p.stroke == inkHex(1) && p.width == 2 && len(p.points) > 2 {
 			t.Errorf("a line drawn for the compound without values: %v", p.points)
+		}
+	}
+}
+
+// A map or section title wider than the plot (a compound's name before
+// it) is set in smaller type under FitTitle and stays inside the figure;
+// without it the title is as given.
+func TestFitTitle(t *testing.T) {
+	long := "tetrachloroethene: section along the plume axis 365 yr after the release began (exact solution)"
+	for _, fit := range []bool{false, true} {
+		f, err := SectionFigure(Section{Title: long, FitTitle: fit, LengthUnit: "m", ConcUnit: "mg/L", XMin: 0, XMax: 400, DepthMax: 12})
+		if err != nil {
+			t.Fatal(err)
+		}
+		svg := renderSVG(t, f, 0)
+		boxes, err := svgtext.Boxes(svg)
+		if err != nil {
+			t.Fatal(err)
+		}
+		inside := true
+		for _, b := range boxes {
+			if strings.HasPrefix(b.Text, "tetrachloroethene") && (b.MinX < 0 || b.MaxX > float64(DefaultWidth)) {
+				inside = false
+			}
+		}
+		if inside != fit {
+			t.Errorf("FitTitle %v: title inside the figure %v", fit, inside)
 		}
 	}
 }

@@ -21,7 +21,7 @@ type Outline struct {
 type PlanMap struct {
 	// Title, e.g. "Plume at steady state, water table".
 	Title string
-	// FitTitle breaks a title wider than the plot into lines (the longer
+	// FitTitle sets a title wider than the plot in smaller type (the longer
 	// titles of a compound of several).
 	FitTitle bool
 	// Units, for the labels.

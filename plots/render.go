@@ -69,7 +69,7 @@ type Figure struct {
 	// then wrapped to the legend's room in either layout (a breakthrough
 	// figure of several compounds); otherwise the size is fixed.
 	grow bool
-	// fitTitle breaks a title wider than the plot into lines.
+	// fitTitle sets a title wider than the plot in smaller type (fitTitle).
 	fitTitle bool
 }
 
@@ -235,15 +235,24 @@ func (f *Figure) draw(c draw.Canvas) (err error) {
 	return nil
 }
 
-// fitTitle breaks a title wider than the plot area c into lines that fit,
+// fitTitle sets a title wider than the plot area c in smaller type, down
+// to minTitleSize, and breaks it into lines only if it is still too wide,
 // instead of letting it run off the figure.
 func fitTitle(p *plot.Plot, c draw.Canvas) {
 	t := &p.Title
 	room := c.Max.X - c.Min.X - vg.Points(12)
-	if t.Text != "" && room > 0 && t.TextStyle.Width(t.Text) > room {
+	w := t.TextStyle.Width(t.Text)
+	if t.Text == "" || room <= 0 || w <= room {
+		return
+	}
+	t.TextStyle.Font.Size = max(minTitleSize, t.TextStyle.Font.Size*room/w)
+	if t.TextStyle.Width(t.Text) > room {
 		t.Text = wrapText(t.Text, t.TextStyle, room)
 	}
 }
+
+// minTitleSize is the smallest type fitTitle sets a title in.
+const minTitleSize = vg.Length(9)
 
 // drawLegend draws the legend in its column (or under the plot) and
 // returns the area left for the plot.

@@ -17,7 +17,7 @@ import (
 type Section struct {
 	// Title, e.g. "Section along the plume axis at steady state".
 	Title string
-	// FitTitle breaks a title wider than the plot into lines (the longer
+	// FitTitle sets a title wider than the plot in smaller type (the longer
 	// titles of a compound of several).
 	FitTitle bool
 	// Units, for the labels.
