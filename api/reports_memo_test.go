@@ -357,8 +357,9 @@ func TestReportSourceKinds(t *testing.T) {
 }
 
 // A scenario of several compounds gets a row per receptor and compound
-// with a compound column, a breakthrough plot per row and an input group
-// per compound; one of several sources gets a group per source.
+// with a compound column, a breakthrough plot per receptor (a line per
+// compound, reports_chain_test.go) and an input group per compound; one
+// of several sources gets a group per source.
 func TestReportCompoundsAndSources(t *testing.T) {
 	ts := newTestServer(t, Config{})
 	read := func(name string) map[string]any {
@@ -387,6 +388,9 @@ func TestReportCompoundsAndSources(t *testing.T) {
 	}
 	if !strings.Contains(page, "PCE: plume") {
 		t.Error("the map does not name the compound it shows")
+	}
+	if n := strings.Count(page, `<figure class="plot bt">`); n != receptors {
+		t.Errorf("%d breakthrough plots, want one per receptor (%d)", n, receptors)
 	}
 	sb := read("sources-and-brook.json")
 	page = report(t, ts, "", mustJSON(t, sb))
