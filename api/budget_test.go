@@ -182,6 +182,7 @@ func TestOutputEstimatesBound(t *testing.T) {
 		if n > 0 {
 			m["receptors"], m["times"] = manyReceptors(n), manyTimes(nt)
 		}
+		m["methods"] = []any{"exact", "domenico"} // the coupled numeric chain takes minutes under -race
 		return m
 	}
 	for _, m := range []map[string]any{demoMap(t), long, bigScenario(t, 400, 60, "exact"), dry(0, 0), dry(100, 20)} {

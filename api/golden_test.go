@@ -77,6 +77,8 @@ var goldenBodies = map[string]func(testing.TB) []byte{
 	"bad-fields":   func(t testing.TB) []byte { return mustJSON(t, goldenBadFields(t)) },
 	"bad-scenario": func(t testing.TB) []byte { return mustJSON(t, goldenBadScenario(t)) },
 	"malformed":    func(t testing.TB) []byte { return []byte("{\n  \"aquifer\": {\"hydraulic_conductivity\": 8.6,,}\n}\n") },
+	// The invented dry cleaner's chain with one retardation factor, closed forms only.
+	"chain": func(t testing.TB) []byte { return mustJSON(t, equalRDryCleaner(t)) },
 }
 
 // goldenCases: the demo in the three representations of a screening, one
@@ -130,6 +132,10 @@ var goldenCases = []goldenCase{
 	{name: "plots-profile", ext: "svg", method: "POST", target: "/v1/plots?kind=profile", body: "demo"},
 	{name: "plots-map", ext: "svg", method: "POST", target: "/v1/plots?kind=map", body: "demo"},
 	{name: "plots-breakthrough-png", ext: "png", method: "POST", target: "/v1/plots?kind=breakthrough", body: "demo", header: map[string]string{"Accept": "image/png"}},
+	// Several compounds: the memo (a row per receptor and compound, maps of
+	// two compounds) and a breakthrough plot with a line per compound.
+	{name: "reports-chain", ext: "html", method: "POST", target: "/v1/reports", body: "chain"},
+	{name: "plots-breakthrough-chain", ext: "svg", method: "POST", target: "/v1/plots?kind=breakthrough&receptor=Orchard%20Lane%20well", body: "chain"},
 	// Problems.
 	{name: "problem-422-schema", ext: "json", method: "POST", target: "/v1/screenings", body: "bad-fields"},
 	{name: "problem-422-scenario", ext: "json", method: "POST", target: "/v1/screenings", body: "bad-scenario"},

@@ -17,7 +17,7 @@ import (
 )
 
 // Each limit, exceeded, answers its documented status (openapi.yaml, "Errors
-// and limits" in the README) as problem+json naming the field. The limits
+// and limits" in docs/errors.md) as problem+json naming the field. The limits
 // are the service's own choices (no external source).
 func TestLimitsExceeded(t *testing.T) {
 	demo := demoMap(t)

@@ -66,17 +66,20 @@ func (s *server) reports(c echo.Context) error {
 		if err != nil {
 			return nil, err
 		}
-		if opts.Time == nil {
-			opts.Time = peakMapTime(views[0].Res)
-			opts.atPeak = opts.Time != nil
+		var md *plume.Model
+		if len(views) > 1 {
+			if md, err = plume.Prepare(sc); err != nil {
+				return nil, err
+			}
 		}
-		needs := figureNeeds{breakthrough: plotReceptors(plotRows(views)), profile: true, planMap: true, section: true, compound: views[0].Name,
+		plan := planMemoMaps(md, sc, views, opts)
+		needs := figureNeeds{breakthrough: plotReceptors(plotRows(views)), profile: true, planMap: true, section: true, mapped: plan.targets,
 			mapCells: reportMapCells, sectionCells: reportSectionCells, opts: opts, unc: rq.unc}
 		fi, err := s.computeFigures(ctx, sc, res, needs)
 		if err != nil {
 			return nil, err
 		}
-		rv, err := buildReport(rq.body, res, views, fi, opts)
+		rv, err := buildReport(rq.body, res, views, plan, fi, opts)
 		if err != nil {
 			return nil, err
 		}
@@ -93,11 +96,12 @@ func (s *server) reports(c echo.Context) error {
 	return s.send(c, &reply{contentType: "text/html; charset=utf-8", body: page, header: [][2]string{{headerCSP, contentPolicy}}})
 }
 
-// peakMapTime is the time of the memo's map and section when none was
-// asked for: when values peak and fall (a spill, a finite or depleting
-// source, whose steady state shows little or nothing), the time of the
-// peak at the first receptor of the results table (res: the first
-// compound, which the map shows); else nil, the steady state.
+// peakMapTime is the time of the memo's map and section of a compound
+// when none was asked for: when values peak and fall (a spill, a finite
+// or depleting source, whose steady state shows little or nothing), the
+// time of the compound's peak at the first receptor of the results table
+// (res: the screening seen through the compound); else nil, the steady
+// state.
 func peakMapTime(res *plume.Result) *maps.MapTime {
 	for _, i := range receptorOrder(res) {
 		rr := res.Receptors[i]

@@ -2,12 +2,14 @@ package api
 
 import (
 	"fmt"
+	"math"
 	"sort"
 
 	"github.com/paulmach/orb"
 
 	"downgradient/plots"
 	"downgradient/plume"
+	"downgradient/plume/maps"
 )
 
 // memoView is a screening seen through one compound of several
@@ -44,13 +46,16 @@ func focusOn(r *plume.Result, name string) (*plume.Result, error) {
 }
 
 // plotRow is one breakthrough plot: a receptor (index of the screening)
-// and a compound (index of the views).
+// and a compound (index of the views; allCompounds for a line per
+// compound of several).
 type plotRow struct{ receptor, compound int }
 
-// plotRows are the plots of the memo: every modelled receptor and
-// compound, in the results table's order (reaching the level first, then
-// by peak concentration), at most maxReportReceptorPlots.
-func plotRows(views []memoView) []plotRow {
+// allCompounds is the compound of a plot of every compound of several.
+const allCompounds = -1
+
+// rankedRows are every modelled receptor and compound, in the results
+// table's order (reaching the level first, then by peak concentration).
+func rankedRows(views []memoView) []plotRow {
 	type keyed struct {
 		plotRow
 		exceeds bool
@@ -71,14 +76,26 @@ func plotRows(views []memoView) []plotRow {
 		}
 		return all[a].peak > all[b].peak
 	})
-	out := make([]plotRow, 0, min(len(all), maxReportReceptorPlots))
-	for _, k := range all {
-		if len(out) == maxReportReceptorPlots {
-			break
-		}
-		out = append(out, k.plotRow)
+	out := make([]plotRow, len(all))
+	for i, k := range all {
+		out[i] = k.plotRow
 	}
 	return out
+}
+
+// plotRows are the breakthrough plots of the memo, at most
+// maxReportReceptorPlots: one per modelled receptor in the results
+// table's order; for several compounds one per receptor with a line per
+// compound, the receptors in the order of their first row.
+func plotRows(views []memoView) []plotRow {
+	rows := rankedRows(views)
+	if len(views) > 1 {
+		rows = rows[:0:0]
+		for _, ri := range plotReceptors(rankedRows(views)) {
+			rows = append(rows, plotRow{ri, allCompounds})
+		}
+	}
+	return rows[:min(len(rows), maxReportReceptorPlots)]
 }
 
 // plotReceptors are the distinct receptors of rows, in order.
@@ -92,6 +109,102 @@ func plotReceptors(rows []plotRow) []int {
 		}
 	}
 	return out
+}
+
+// maxMemoCompoundMaps is the most compounds whose map, section and
+// profile one memo draws (about a page and a half each), so that a memo
+// of several compounds prints within the pages of one of a single
+// compound (see TestReportPrint).
+const maxMemoCompoundMaps = 2
+
+// memoMapPlan says which compounds' map, section and profile the memo
+// draws: targets, in order; leftOut, those the closed forms give but the
+// page budget leaves out (the memo names them); noClosedForm, those no closed form gives (a
+// compound formed by decay in 3D with distinct retardation factors),
+// which cannot be mapped. Indices are of the views.
+type memoMapPlan struct {
+	targets      []mapTarget
+	leftOut      []int
+	noClosedForm []int
+}
+
+// planMemoMaps picks the compounds the memo maps: for one compound, it;
+// for several, those the closed forms give, the ones reaching their
+// level at the most receptors first (ties in the scenario's order), at
+// most maxMemoCompoundMaps, drawn in the scenario's order. Each map shows
+// the time o asks for, else the steady state or the time of the
+// compound's peak (peakMapTime). md is the prepared scenario, whose Focus
+// says which compounds the closed forms give (nil for a scenario of one
+// compound).
+func planMemoMaps(md *plume.Model, sc plume.Scenario, views []memoView, o figureOptions) memoMapPlan {
+	var plan memoMapPlan
+	order := make([]int, len(views))
+	reached := make([]int, len(views))
+	for k, v := range views {
+		order[k], reached[k] = k, exceedingReceptors(v.Res)
+	}
+	sort.SliceStable(order, func(a, b int) bool { return reached[order[a]] > reached[order[b]] })
+	for _, k := range order {
+		v := views[k]
+		if md != nil && v.Name != "" {
+			if _, err := md.Focus(v.Name); err != nil {
+				plan.noClosedForm = append(plan.noClosedForm, k)
+				continue
+			}
+		}
+		if len(plan.targets) == maxMemoCompoundMaps {
+			plan.leftOut = append(plan.leftOut, k)
+			continue
+		}
+		t := mapTarget{view: k, name: v.Name, time: o.Time, levels: targetLevels(sc, views, k, o)}
+		if t.time == nil {
+			t.time = peakMapTime(v.Res)
+			t.atPeak = t.time != nil
+		}
+		plan.targets = append(plan.targets, t)
+	}
+	sort.SliceStable(plan.targets, func(a, b int) bool { return plan.targets[a].view < plan.targets[b].view })
+	sort.Ints(plan.noClosedForm)
+	sort.Ints(plan.leftOut)
+	return plan
+}
+
+// exceedingReceptors counts the receptors at which a compound reaches its level.
+func exceedingReceptors(res *plume.Result) int {
+	n := 0
+	for _, rr := range res.Receptors {
+		if rr.ExceedsScreeningLevel != nil && *rr.ExceedsScreeningLevel {
+			n++
+		}
+	}
+	return n
+}
+
+// targetLevels are the outline levels of compound k's map and section:
+// those o gives; else nil (the default: the compound's screening level
+// and 10 and 100 times it) when a level is known; else a thousandth, a
+// hundredth and a tenth of its source concentration (of the largest of
+// the scenario's when it is not released at the source).
+func targetLevels(sc plume.Scenario, views []memoView, k int, o figureOptions) []float64 {
+	if len(o.Levels) > 0 {
+		return o.Levels
+	}
+	res := views[k].Res
+	if views[k].Name == "" || res.Derived.ScreeningLevel != nil {
+		return maps.FigureLevels(sc, res.Derived.ScreeningLevel)
+	}
+	c0 := 0.0
+	for _, cd := range res.Derived.Compounds {
+		if cd.Name == views[k].Name {
+			c0 = cd.SourceConcentration
+		}
+	}
+	if !(c0 > 0) {
+		for _, cd := range res.Derived.Compounds {
+			c0 = math.Max(c0, cd.SourceConcentration)
+		}
+	}
+	return []float64{c0 * 1e-3, c0 * 1e-2, c0 * 1e-1}
 }
 
 // compoundTitle prefixes a picture's title with the compound it shows,

@@ -25,16 +25,32 @@ const (
 type figureNeeds struct {
 	// Receptors (indices of the screening) whose dense curves are drawn.
 	breakthrough []int
-	profile      bool
-	planMap      bool
-	section      bool
+	// The kinds of picture drawn of each compound of mapped.
+	profile, planMap, section bool
 	// Node budgets of the map and the section; 0: the maps default.
 	mapCells, sectionCells int
 	opts                   figureOptions
-	// compound the map and section show (the first of several; "" for one).
-	compound string
+	// mapped are the compounds whose map, section and profile are drawn
+	// (one, named "", for a scenario of one compound).
+	mapped []mapTarget
 	// unc, when set, is run beside the pictures.
 	unc *uncertainty.UncertaintyRequest
+}
+
+// mapTarget is a compound whose map, section and profile are drawn, with
+// the time and levels of its map and section.
+type mapTarget struct {
+	// view is the compound's index in the memo's views; name its name
+	// ("" for a scenario of one compound).
+	view int
+	name string
+	// time of the map and section; nil for the steady state.
+	time *maps.MapTime
+	// atPeak: time is the report's choice, the time of a peak (peakMapTime).
+	atPeak bool
+	// levels of the outlines; nil for the default (the compound's level
+	// and 10 and 100 times it).
+	levels []float64
 }
 
 // figureInputs are the computations the pictures need.
@@ -44,10 +60,16 @@ type figureInputs struct {
 	// screened at DenseTimes; denseIndex maps a screening index to it.
 	dense      *plume.Result
 	denseIndex map[int]int
-	profile    *maps.Profile
-	planMap    *maps.Map
-	section    *maps.Map
-	unc        *uncertainty.UncertaintyResult
+	// maps are the pictures of each compound of needs.mapped, in order.
+	maps []compoundMaps
+	unc  *uncertainty.UncertaintyResult
+}
+
+// compoundMaps are the profile, plan map and section of one compound
+// (those asked for; the others nil).
+type compoundMaps struct {
+	profile          *maps.Profile
+	planMap, section *maps.Map
 }
 
 // computeFigures runs what needs asks for, the parts side by side (each
@@ -70,29 +92,9 @@ func (s *server) computeFigures(ctx context.Context, sc plume.Scenario, res *plu
 			return err
 		})
 	}
-	if needs.profile {
-		parts = append(parts, func() (err error) {
-			fi.profile, err = maps.CentrelineProfile(ctx, sc, 0, denseSteps, opt)
-			return err
-		})
-	}
-	levels := needs.opts.Levels
-	if len(levels) == 0 {
-		levels = maps.FigureLevels(sc, res.Derived.ScreeningLevel)
-	}
-	if needs.planMap {
-		parts = append(parts, func() (err error) {
-			mo := maps.MapOptions{Levels: levels, Time: needs.opts.Time, Cells: cellsOpt(needs.mapCells), Compound: needs.compound}
-			fi.planMap, err = maps.PlumeMap(ctx, sc, mo, opt)
-			return err
-		})
-	}
-	if needs.section {
-		parts = append(parts, func() (err error) {
-			mo := maps.MapOptions{View: maps.ViewSection, Levels: levels, Time: needs.opts.Time, Cells: cellsOpt(needs.sectionCells), Compound: needs.compound}
-			fi.section, err = maps.PlumeMap(ctx, sc, mo, opt)
-			return err
-		})
+	fi.maps = make([]compoundMaps, len(needs.mapped))
+	for k, t := range needs.mapped {
+		parts = append(parts, mapParts(ctx, sc, needs, t, &fi.maps[k], opt)...)
 	}
 	if needs.unc != nil {
 		parts = append(parts, func() (err error) {
@@ -104,6 +106,33 @@ func (s *server) computeFigures(ctx context.Context, sc plume.Scenario, res *plu
 		return nil, err
 	}
 	return fi, nil
+}
+
+// mapParts are the computations of one compound's pictures: its profile,
+// plan map and section, as needs asks, into out.
+func mapParts(ctx context.Context, sc plume.Scenario, needs figureNeeds, t mapTarget, out *compoundMaps, opt plume.Options) []func() error {
+	var parts []func() error
+	if needs.profile {
+		parts = append(parts, func() (err error) {
+			out.profile, err = maps.CentrelineProfile(ctx, sc, t.name, 0, denseSteps, opt)
+			return err
+		})
+	}
+	if needs.planMap {
+		parts = append(parts, func() (err error) {
+			mo := maps.MapOptions{Levels: t.levels, Time: t.time, Cells: cellsOpt(needs.mapCells), Compound: t.name}
+			out.planMap, err = maps.PlumeMap(ctx, sc, mo, opt)
+			return err
+		})
+	}
+	if needs.section {
+		parts = append(parts, func() (err error) {
+			mo := maps.MapOptions{View: maps.ViewSection, Levels: t.levels, Time: t.time, Cells: cellsOpt(needs.sectionCells), Compound: t.name}
+			out.section, err = maps.PlumeMap(ctx, sc, mo, opt)
+			return err
+		})
+	}
+	return parts
 }
 
 // earlySteps is the number of times, spaced evenly in log time, that

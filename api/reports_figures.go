@@ -97,8 +97,74 @@ func breakthroughData(v memoView, dr plume.ReceptorResult, i int, o figureOption
 	return b
 }
 
+// compoundsBreakthroughData is the breakthrough plot of receptor i with a
+// line per compound of several (views): each compound's primary method,
+// the one its results-table row shows (primaryMethod: the closed form
+// where one gives the compound, densely from dense, the screening of the
+// plotted receptors at denseTimes; else the finite-volume values at the
+// requested times, as points joined by lines), and each compound's level
+// with its first exceedance.
+func compoundsBreakthroughData(views []memoView, dense *plume.Result, di, i int, o figureOptions) (plots.Breakthrough, error) {
+	res := views[0].Res
+	rr := res.Receptors[i]
+	b := plots.Breakthrough{Receptor: rr.ID, TimeUnit: res.Units.Time, ConcUnit: res.Units.Concentration, Scale: o.Scale,
+		Floor: res.Derived.ConcentrationFloor, Compact: o.compact}
+	if rr.Status == plume.StatusUpgradient {
+		b.Receptor += " (not modelled)"
+	}
+	for _, v := range views {
+		m := primaryMethod(methodsRan(v.Res))
+		c := plots.Curve{Compound: v.Name, Method: m, Label: shortMethodNames[m]}
+		cr := v.Res.Receptors[i]
+		if m == plume.MethodNumeric {
+			c.Points = true
+			for _, sp := range cr.Series {
+				if sp.Numeric != nil {
+					c.X, c.Y = append(c.X, sp.Time), append(c.Y, *sp.Numeric)
+				}
+			}
+		} else if hasValues(cr, m) {
+			dv, err := dense.Focus(v.Name)
+			if err != nil {
+				return b, err
+			}
+			for _, sp := range dv.Receptors[di].Series {
+				if val := plume.MethodValue(m, sp.Exact, sp.Domenico, sp.Numeric); val != nil {
+					c.X, c.Y = append(c.X, sp.Time), append(c.Y, *val)
+				}
+			}
+		}
+		switch {
+		case cr.Status == plume.StatusUpgradient:
+			c.Label = "not modelled"
+		case len(c.X) == 0:
+			c.Label = "no values"
+		}
+		b.Curves = append(b.Curves, c)
+		if l := v.Res.Derived.ScreeningLevel; l != nil {
+			b.Levels = append(b.Levels, plots.CompoundLevel{Compound: v.Name, Level: *l, FirstExceedance: cr.FirstExceedanceTime})
+		}
+	}
+	return b, nil
+}
+
+// hasValues reports whether method m gave the receptor a value at some
+// requested time or at steady state (a compound no closed form gives has
+// none, whatever its dense curve holds at time 0).
+func hasValues(rr plume.ReceptorResult, m string) bool {
+	if plume.MethodValue(m, rr.SteadyState.Exact, rr.SteadyState.Domenico, rr.SteadyState.Numeric) != nil {
+		return true
+	}
+	for _, sp := range rr.Series {
+		if plume.MethodValue(m, sp.Exact, sp.Domenico, sp.Numeric) != nil {
+			return true
+		}
+	}
+	return false
+}
+
 // profileData turns a centreline profile into plot data (the profile of
-// the scenario's first compound, v).
+// the compound of v).
 func profileData(pr *maps.Profile, v memoView, o figureOptions) plots.Profile {
 	res := v.Res
 	p := plots.Profile{LengthUnit: res.Units.Length, ConcUnit: res.Units.Concentration, Depth: pr.Depth, Compound: v.Name,
@@ -128,7 +194,7 @@ func whenText(t maps.MapTime, timeUnit string) string {
 
 // mapData turns a plan-view map into plot data: the outlines, every
 // source's face and zone, and the receptors by outcome (the map and v are
-// of the scenario's first compound).
+// of one compound).
 func mapData(mp *maps.Map, v memoView, sc plume.Scenario, o figureOptions) plots.PlanMap {
 	u := mp.Units
 	depth := fmt.Sprintf("%s %s below the water table", plots.FormatNumber(mp.Depth), u.Length)
@@ -141,6 +207,7 @@ func mapData(mp *maps.Map, v memoView, sc plume.Scenario, o figureOptions) plots
 	g := mp.Grid
 	pm := plots.PlanMap{
 		Title:      compoundTitle(v.Name, fmt.Sprintf("Plume %s, %s (%s solution)", whenText(mp.Time, u.Time), depth, mp.Method)),
+		FitTitle:   v.Name != "",
 		LengthUnit: u.Length, ConcUnit: u.Concentration, Labels: o.Labels,
 		XMin: g.X0, XMax: g.X(g.NX - 1), YMin: g.Y0, YMax: g.Y(g.NY - 1),
 		FlowAzimuthDeg: mp.Frame.AzimuthDeg,
@@ -182,6 +249,7 @@ func sectionData(mp *maps.Map, v memoView, sc plume.Scenario, o figureOptions) p
 	u, g, res := mp.Units, mp.Grid, v.Res
 	s := plots.Section{
 		Title:      compoundTitle(v.Name, fmt.Sprintf("Section along the plume axis %s (%s solution)", whenText(mp.Time, u.Time), mp.Method)),
+		FitTitle:   v.Name != "",
 		LengthUnit: u.Length, ConcUnit: u.Concentration, Labels: o.Labels,
 		Outlines: sortedOutlines(mp),
 		XMin:     g.X0, XMax: g.X(g.NX - 1), DepthMax: g.Y(g.NY - 1),

@@ -110,8 +110,11 @@ func TestReportFooterMethods(t *testing.T) {
 	if f := footer(report(t, ts, "", mustJSON(t, m))); strings.Contains(f, "Domenico") || strings.Contains(f, "finite-volume") {
 		t.Errorf("exact-only footer: %s", f)
 	}
+	// One receptor and one time keep the finite-volume run short (the
+	// footer is the point here, not the run).
 	m["methods"] = []any{"exact", "numeric"}
 	m["receptors"] = []any{map[string]any{"id": "MW-1", "x": 1287.6, "y": 816.3, "z": 1}}
+	m["times"] = []any{365}
 	if f := footer(report(t, ts, "", mustJSON(t, m))); !strings.Contains(f, "finite-volume cross-check") || strings.Contains(f, "Domenico") {
 		t.Errorf("numeric footer: %s", f)
 	}
@@ -357,8 +360,9 @@ func TestReportSourceKinds(t *testing.T) {
 }
 
 // A scenario of several compounds gets a row per receptor and compound
-// with a compound column, a breakthrough plot per row and an input group
-// per compound; one of several sources gets a group per source.
+// with a compound column, a breakthrough plot per receptor (a line per
+// compound, reports_chain_test.go) and an input group per compound; one
+// of several sources gets a group per source.
 func TestReportCompoundsAndSources(t *testing.T) {
 	ts := newTestServer(t, Config{})
 	read := func(name string) map[string]any {
@@ -387,6 +391,9 @@ func TestReportCompoundsAndSources(t *testing.T) {
 	}
 	if !strings.Contains(page, "PCE: plume") {
 		t.Error("the map does not name the compound it shows")
+	}
+	if n := strings.Count(page, `<figure class="plot bt">`); n != receptors {
+		t.Errorf("%d breakthrough plots, want one per receptor (%d)", n, receptors)
 	}
 	sb := read("sources-and-brook.json")
 	page = report(t, ts, "", mustJSON(t, sb))

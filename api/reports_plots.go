@@ -34,8 +34,6 @@ type figureOptions struct {
 	Levels []float64
 	// compact lays breakthrough plots out for half a page (the report).
 	compact bool
-	// atPeak: Time is the report's choice, the time of a peak (peakMapTime).
-	atPeak bool
 }
 
 // figureOptionsOf reads the picture options of a request.
@@ -98,9 +96,14 @@ func (s *server) plotsHandler(c echo.Context) error {
 	if p != nil {
 		return p
 	}
-	needs := figureNeeds{opts: opts, profile: kind == kindProfile, planMap: kind == kindMap, section: kind == kindSection, compound: views[0].Name}
+	needs := figureNeeds{opts: opts, profile: kind == kindProfile, planMap: kind == kindMap, section: kind == kindSection}
 	if kind == kindBreakthrough {
 		needs.breakthrough = []int{ri}
+	} else {
+		if ci == allCompounds {
+			ci = firstMappable(sc, views)
+		}
+		needs.mapped = []mapTarget{{view: ci, name: views[ci].Name, time: opts.Time, levels: targetLevels(sc, views, ci, opts)}}
 	}
 	img, p := compute(c.Request().Context(), s, renameFigureField, func(ctx context.Context) ([]byte, error) {
 		fi, err := s.computeFigures(ctx, sc, res, needs)
@@ -125,9 +128,10 @@ func (s *server) plotsHandler(c echo.Context) error {
 }
 
 // plotTarget is the receptor (index of the screening) and the compound
-// (index of views) the query names: receptor by id, compound by name
-// (a scenario of several compounds); what is not named is the first of
-// the results table's order (reaching the level, highest peak).
+// (index of views) the query names: receptor by id, compound by name (a
+// scenario of several compounds). A receptor not named is the first of
+// the results table's order (reaching the level, highest peak) among the
+// named compound's rows; a compound not named of several is allCompounds.
 func plotTarget(c echo.Context, views []memoView) (int, int, *Problem) {
 	ri, ci := -1, -1
 	if id := c.QueryParam("receptor"); id != "" {
@@ -158,33 +162,72 @@ func plotTarget(c echo.Context, views []memoView) (int, int, *Problem) {
 			return -1, -1, newProblem(kindInvalid, "no compound has this name", FieldProblem{Field: "compound", Message: msg})
 		}
 	}
-	for _, row := range append(plotRows(views), plotRow{0, 0}) {
-		if (ri < 0 || row.receptor == ri) && (ci < 0 || row.compound == ci) {
-			return row.receptor, row.compound, nil
+	if ci < 0 && len(views) == 1 {
+		ci = 0
+	}
+	if ri < 0 {
+		ri = 0
+		for _, row := range rankedRows(views) {
+			if ci < 0 || row.compound == ci {
+				ri = row.receptor
+				break
+			}
 		}
 	}
-	return max(ri, 0), max(ci, 0), nil
+	return ri, ci, nil
+}
+
+// firstMappable is the first compound of views that the closed forms give
+// (plume.Model.Focus accepts it), which a map, section or profile shows
+// when the query names none; 0 when the scenario cannot be prepared (the
+// map then reports why).
+func firstMappable(sc plume.Scenario, views []memoView) int {
+	md, err := plume.Prepare(sc)
+	if err != nil {
+		return 0
+	}
+	for k, v := range views {
+		if _, err := md.Focus(v.Name); err == nil {
+			return k
+		}
+	}
+	return 0
 }
 
 // figure builds one figure: a breakthrough plot of one receptor and
-// compound, or the profile, map or section of the first compound.
+// compound (or, at allCompounds, a line per compound), or the profile,
+// map or section of fi.maps[0] (of the compound at.compound).
 func (fi *figureInputs) figure(kind string, views []memoView, at plotRow, sc plume.Scenario, o figureOptions) (*plots.Figure, error) {
 	switch kind {
 	case kindBreakthrough:
-		v := views[at.compound]
-		dense, err := focusOn(fi.dense, v.Name)
+		return fi.breakthrough(views, at, o)
+	case kindProfile:
+		return plots.ProfileFigure(profileData(fi.maps[0].profile, views[at.compound], o))
+	case kindMap:
+		return plots.MapFigure(mapData(fi.maps[0].planMap, views[at.compound], sc, o))
+	case kindSection:
+		return plots.SectionFigure(sectionData(fi.maps[0].section, views[at.compound], sc, o))
+	}
+	return nil, plume.Invalid("kind", "must be breakthrough, profile, map or section")
+}
+
+// breakthrough is the breakthrough plot of at: of one compound, or of
+// every compound of several (allCompounds).
+func (fi *figureInputs) breakthrough(views []memoView, at plotRow, o figureOptions) (*plots.Figure, error) {
+	di := fi.denseIndex[at.receptor]
+	if at.compound == allCompounds {
+		b, err := compoundsBreakthroughData(views, fi.dense, di, at.receptor, o)
 		if err != nil {
 			return nil, err
 		}
-		return plots.BreakthroughFigure(breakthroughData(v, dense.Receptors[fi.denseIndex[at.receptor]], at.receptor, o))
-	case kindProfile:
-		return plots.ProfileFigure(profileData(fi.profile, views[0], o))
-	case kindMap:
-		return plots.MapFigure(mapData(fi.planMap, views[0], sc, o))
-	case kindSection:
-		return plots.SectionFigure(sectionData(fi.section, views[0], sc, o))
+		return plots.BreakthroughFigure(b)
 	}
-	return nil, plume.Invalid("kind", "must be breakthrough, profile, map or section")
+	v := views[at.compound]
+	dense, err := focusOn(fi.dense, v.Name)
+	if err != nil {
+		return nil, err
+	}
+	return plots.BreakthroughFigure(breakthroughData(v, dense.Receptors[di], at.receptor, o))
 }
 
 // negotiatePicture picks svg (default) or png; format wins over Accept.

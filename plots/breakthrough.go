@@ -33,6 +33,22 @@ type Breakthrough struct {
 	Floor float64
 	// Compact lays the figure out for half a page width (legend below).
 	Compact bool
+	// Levels are the screening levels of a figure of several compounds
+	// (whose curves name their Compound), one per compound that has one:
+	// each drawn across the plot in its compound's colour, with the
+	// compound's first exceedance ringed on it. ScreeningLevel and
+	// FirstExceedance are those of a figure of one compound.
+	Levels []CompoundLevel
+}
+
+// CompoundLevel is one compound's screening level in a breakthrough
+// figure of several compounds.
+type CompoundLevel struct {
+	Compound string
+	Level    float64
+	// FirstExceedance is the time the compound first reaches Level; nil
+	// when it never does.
+	FirstExceedance *float64
 }
 
 // LogDecades is the ratio between the larger and the smaller of the peak
@@ -40,20 +56,71 @@ type Breakthrough struct {
 // logarithmic axis (two decades).
 const LogDecades = 100
 
-// UsesLog reports whether the figure of b has a logarithmic axis.
+// UsesLog reports whether the figure of b has a logarithmic axis: under
+// ScaleAuto when the peak and the screening levels (every compound's, in a
+// figure of several) span more than LogDecades.
 func (b Breakthrough) UsesLog() bool {
+	lv := b.levels()
 	switch b.Scale {
 	case ScaleLog:
-		return b.peak() > 0 || b.ScreeningLevel != nil
+		return b.peak() > 0 || len(lv) > 0
 	case ScaleLinear:
 		return false
 	}
 	pk := b.peak()
-	if b.ScreeningLevel == nil || !(pk > 0) {
+	if len(lv) == 0 || !(pk > 0) {
 		return false
 	}
-	l := *b.ScreeningLevel
-	return math.Max(pk, l)/math.Min(pk, l) > LogDecades
+	lo, hi := pk, pk
+	for _, l := range lv {
+		lo, hi = math.Min(lo, l), math.Max(hi, l)
+	}
+	return hi/lo > LogDecades
+}
+
+// levels are the figure's screening levels: its one compound's, or every
+// compound's of several.
+func (b Breakthrough) levels() []float64 {
+	var out []float64
+	if b.ScreeningLevel != nil {
+		out = append(out, *b.ScreeningLevel)
+	}
+	for _, l := range b.Levels {
+		out = append(out, l.Level)
+	}
+	return out
+}
+
+// several reports whether b is a figure of several compounds.
+func (b Breakthrough) several() bool {
+	if len(b.Levels) > 0 {
+		return true
+	}
+	for _, c := range b.Curves {
+		if c.Compound != "" {
+			return true
+		}
+	}
+	return false
+}
+
+// compoundIndex numbers the compounds of a figure of several in the order
+// its curves, then its levels, first name them: compound k is drawn in
+// compoundStyle(k).
+func (b Breakthrough) compoundIndex() map[string]int {
+	idx := map[string]int{}
+	add := func(name string) {
+		if _, ok := idx[name]; !ok {
+			idx[name] = len(idx)
+		}
+	}
+	for _, c := range b.Curves {
+		add(c.Compound)
+	}
+	for _, l := range b.Levels {
+		add(l.Compound)
+	}
+	return idx
 }
 
 // peak is the largest value of the curves.
@@ -69,9 +136,11 @@ func (b Breakthrough) peak() float64 {
 
 // BreakthroughFigure is concentration against time at one receptor, every
 // method on one plot, with the screening level as a line and the first
-// exceedance marked. The concentration axis is logarithmic when UsesLog
-// (two decades below the smaller of the peak and the level, never below
-// Floor), else linear from 0; either way the level lies inside it.
+// exceedance marked; or, for several compounds, a line per compound (each
+// curve names its Compound) with every compound's level in its colour (see
+// addCompounds). The concentration axis is logarithmic when UsesLog (two
+// decades below the smallest of the peak and the levels, never below
+// Floor), else linear from 0; either way every level lies inside it.
 func BreakthroughFigure(b Breakthrough) (*Figure, error) {
 	logAxis := b.UsesLog()
 	ylabel := fmt.Sprintf("Concentration (%s)", b.ConcUnit)
@@ -101,6 +170,12 @@ func BreakthroughFigure(b Breakthrough) (*Figure, error) {
 	p.X.Min, p.X.Max = 0, xmax
 	p.X.Tick.Marker = roundTicks{}
 	floor, tr := b.concentrationAxis(f, logAxis)
+	if b.several() {
+		if err := addCompounds(f, b, xmax, floor, tr); err != nil {
+			return nil, err
+		}
+		return f, nil
+	}
 	if err := addCurves(f, b.Curves, 0, floor, tr); err != nil {
 		return nil, err
 	}
@@ -122,14 +197,15 @@ func BreakthroughFigure(b Breakthrough) (*Figure, error) {
 func (b Breakthrough) concentrationAxis(f *Figure, logAxis bool) (float64, func(float64) float64) {
 	p := f.Plot
 	pk := b.peak()
-	top := pk
-	if b.ScreeningLevel != nil {
-		top = math.Max(top, *b.ScreeningLevel)
+	lv := b.levels()
+	top, lowest, highest := pk, math.Inf(1), 0.0
+	for _, l := range lv {
+		top, lowest, highest = math.Max(top, l), math.Min(lowest, l), math.Max(highest, l)
 	}
 	if !logAxis {
 		ymax := pk
-		if b.ScreeningLevel != nil {
-			ymax = math.Max(ymax, *b.ScreeningLevel*1.5)
+		if len(lv) > 0 {
+			ymax = math.Max(ymax, highest*1.5)
 		}
 		if !(ymax > 0) {
 			ymax = 1
@@ -139,12 +215,19 @@ func (b Breakthrough) concentrationAxis(f *Figure, logAxis bool) (float64, func(
 		return 0, func(v float64) float64 { return v }
 	}
 	low := top
-	if b.ScreeningLevel != nil && pk > 0 {
-		low = math.Min(pk, *b.ScreeningLevel)
+	if len(lv) > 0 {
+		low = lowest
+		if pk > 0 {
+			low = math.Min(pk, lowest)
+		}
 	}
 	lo := math.Floor(math.Log10(low) - 2)
 	if b.Floor > 0 {
 		lo = math.Max(lo, math.Log10(b.Floor))
+	}
+	if len(lv) > 0 && lo > math.Log10(lowest)-0.3 {
+		// A level at or below the floor: still in view, a little above the bottom.
+		lo = math.Floor(math.Log10(lowest) - 0.3)
 	}
 	hi := math.Log10(top * 2)
 	if hi-lo < 1 {

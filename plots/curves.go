@@ -21,6 +21,9 @@ type Curve struct {
 	X, Y   []float64
 	// Markers draws symbols only (values at the requested times).
 	Markers bool
+	// Points draws symbols at the values joined by straight lines (values
+	// at the requested times only, in a figure of several compounds).
+	Points bool
 }
 
 // legendLabel is the curve's legend text, with its compound when named.
@@ -88,34 +91,55 @@ func addCurves(f *Figure, curves []Curve, ramp int, floor float64, tr func(float
 		if ramp > 0 && c.Method == "" {
 			k++
 		}
-		segs := segments(c, floor, tr)
-		label := c.legendLabel()
-		if len(segs) == 0 {
-			label += " (below the axis)"
+		if err := drawCurve(f, c, ls, floor, tr); err != nil {
+			return err
 		}
-		if c.Markers {
-			if err := addMarkers(f, c, segs, ls, label); err != nil {
-				return err
-			}
-			continue
-		}
-		var first *plotter.Line
-		for _, s := range segs {
-			ln, err := plotter.NewLine(s)
-			if err != nil {
-				return err
-			}
-			ln.LineStyle = ls
-			f.Plot.Add(ln)
-			if first == nil {
-				first = ln
-			}
-		}
-		if first == nil {
-			first = &plotter.Line{LineStyle: ls}
-		}
-		f.addLegend(label, first)
 	}
+	return nil
+}
+
+// drawCurve draws curve c in style ls, stopped where it falls below floor
+// (values mapped by tr), and adds its legend entry.
+func drawCurve(f *Figure, c Curve, ls draw.LineStyle, floor float64, tr func(float64) float64) error {
+	segs := segments(c, floor, tr)
+	label := c.legendLabel()
+	if len(segs) == 0 {
+		label += " (below the axis)"
+	}
+	if c.Markers {
+		return addMarkers(f, c, segs, ls, label)
+	}
+	var first *plotter.Line
+	var all plotter.XYs
+	for _, s := range segs {
+		ln, err := plotter.NewLine(s)
+		if err != nil {
+			return err
+		}
+		ln.LineStyle = ls
+		f.Plot.Add(ln)
+		if first == nil {
+			first = ln
+		}
+		all = append(all, s...)
+	}
+	if first == nil {
+		first = &plotter.Line{LineStyle: ls}
+	}
+	if !c.Points {
+		f.addLegend(label, first)
+		return nil
+	}
+	gs := draw.GlyphStyle{Color: ls.Color, Radius: vg.Points(2.8), Shape: methodGlyph(c.Method)}
+	if len(all) > 0 {
+		sc, err := plotter.NewScatter(all)
+		if err != nil {
+			return err
+		}
+		sc.GlyphStyle = gs
+		f.Plot.Add(sc)
+	}
+	f.addLegend(label, first, glyphThumb{gs})
 	return nil
 }
 

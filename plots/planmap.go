@@ -21,6 +21,9 @@ type Outline struct {
 type PlanMap struct {
 	// Title, e.g. "Plume at steady state, water table".
 	Title string
+	// FitTitle sets a title wider than the plot in smaller type (the longer
+	// titles of a compound of several).
+	FitTitle bool
 	// Units, for the labels.
 	LengthUnit, ConcUnit string
 	// Outlines, lowest level first.
@@ -43,7 +46,7 @@ type PlanMap struct {
 // one scale on both axes.
 func MapFigure(m PlanMap) (*Figure, error) {
 	f := newFigure(m.Title, fmt.Sprintf("Easting, site x (%s)", m.LengthUnit), fmt.Sprintf("Northing, site y (%s)", m.LengthUnit))
-	f.EqualScale = true
+	f.EqualScale, f.fitTitle = true, m.FitTitle
 	p := f.Plot
 	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = m.XMin, m.XMax, m.YMin, m.YMax
 	p.X.Tick.Marker = roundTicks{}

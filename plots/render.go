@@ -62,6 +62,15 @@ type Figure struct {
 	Overlays []func(c draw.Canvas, x, y func(float64) vg.Length)
 	// entries are the legend's entries, kept to lay them out in columns.
 	entries []legendEntry
+	// legendSplit is the number of entries in the first column of a
+	// legend below the plot; 0 for half of them (the first column the longer).
+	legendSplit int
+	// grow lets the figure grow taller with its legend, whose entries are
+	// then wrapped to the legend's room in either layout (a breakthrough
+	// figure of several compounds); otherwise the size is fixed.
+	grow bool
+	// fitTitle sets a title wider than the plot in smaller type (fitTitle).
+	fitTitle bool
 }
 
 // legendEntry is one line of the legend.
@@ -120,10 +129,17 @@ func compact(f *Figure) {
 // legend below a narrow plot: CompactHeight), or for a figure at one scale
 // on both axes the height that fits its data ranges (between 3 and 8 inches).
 func (f *Figure) Size(w vg.Length) (vg.Length, vg.Length) {
-	if f.LegendBelow {
+	switch {
+	case f.LegendBelow && f.grow:
+		_, h := f.belowLegends(w)
+		return w, max(CompactHeight, h+compactPlotHeight)
+	case f.LegendBelow:
 		return w, CompactHeight
-	}
-	if !f.EqualScale {
+	case f.grow:
+		lg := f.rightLegend(w)
+		r := lg.Rectangle(draw.Canvas{})
+		return w, max(DefaultHeight, r.Max.Y-r.Min.Y+legendTop+vg.Points(12))
+	case !f.EqualScale:
 		return w, DefaultHeight
 	}
 	p := f.Plot
@@ -158,11 +174,39 @@ func Render(f *Figure, w, h vg.Length, format string) ([]byte, error) {
 	return buf.Bytes(), nil
 }
 
-// legendWidth is the width of the legend column for f's entries.
-func (f *Figure) legendWidth(c draw.Canvas) vg.Length {
-	r := f.Legend.Rectangle(c)
+// compactPlotHeight is the least height of the plot above a legend below
+// it when the figure grows with its legend: about that of a compact
+// figure of one compound.
+const compactPlotHeight = 2.5 * vg.Inch
+
+// legendTop is the space above the legend column right of the plot.
+const legendTop = vg.Length(34)
+
+// legendShare is the largest share of the figure's width the legend column
+// right of the plot takes.
+const legendShare = 0.38
+
+// legendWidth is the width of the legend column for the legend lg.
+func legendWidth(lg plot.Legend, c draw.Canvas) vg.Length {
+	r := lg.Rectangle(c)
 	w := r.Max.X - r.Min.X
-	return vg.Length(math.Min(float64(w+vg.Points(16)), float64(c.Max.X-c.Min.X)*0.38))
+	return vg.Length(math.Min(float64(w+vg.Points(16)), float64(c.Max.X-c.Min.X)*legendShare))
+}
+
+// rightLegend is the legend drawn right of the plot in a figure of width
+// w: f.Legend, or for a figure that grows with its legend the same
+// entries wrapped to the column's room.
+func (f *Figure) rightLegend(w vg.Length) plot.Legend {
+	if !f.grow {
+		return f.Legend
+	}
+	lg := newLegendLike(f.Legend)
+	lg.Top, lg.Left = f.Legend.Top, f.Legend.Left
+	room := vg.Length(float64(w)*legendShare) - f.Legend.ThumbnailWidth - vg.Points(22)
+	for _, e := range f.entries {
+		lg.Add(wrapText(e.text, f.Legend.TextStyle, room), e.thumbs...)
+	}
+	return lg
 }
 
 func (f *Figure) draw(c draw.Canvas) (err error) {
@@ -174,6 +218,9 @@ func (f *Figure) draw(c draw.Canvas) (err error) {
 	c.SetColor(color.White)
 	c.Fill(c.Rectangle.Path())
 	plotArea := f.drawLegend(c)
+	if f.fitTitle {
+		fitTitle(f.Plot, plotArea)
+	}
 	if f.EqualScale {
 		equalise(f.Plot, plotArea)
 	}
@@ -188,32 +235,63 @@ func (f *Figure) draw(c draw.Canvas) (err error) {
 	return nil
 }
 
+// fitTitle sets a title wider than the plot area c in smaller type, down
+// to minTitleSize, and breaks it into lines only if it is still too wide,
+// instead of letting it run off the figure.
+func fitTitle(p *plot.Plot, c draw.Canvas) {
+	t := &p.Title
+	room := c.Max.X - c.Min.X - vg.Points(12)
+	w := t.TextStyle.Width(t.Text)
+	if t.Text == "" || room <= 0 || w <= room {
+		return
+	}
+	t.TextStyle.Font.Size = max(minTitleSize, t.TextStyle.Font.Size*room/w)
+	if t.TextStyle.Width(t.Text) > room {
+		t.Text = wrapText(t.Text, t.TextStyle, room)
+	}
+}
+
+// minTitleSize is the smallest type fitTitle sets a title in.
+const minTitleSize = vg.Length(9)
+
 // drawLegend draws the legend in its column (or under the plot) and
 // returns the area left for the plot.
 func (f *Figure) drawLegend(c draw.Canvas) draw.Canvas {
+	w := c.Max.X - c.Min.X
 	if !f.LegendBelow {
-		lw := f.legendWidth(c)
-		f.Legend.Draw(draw.Crop(c, c.Max.X-c.Min.X-lw+vg.Points(8), 0, 0, -vg.Points(34)))
+		lg := f.rightLegend(w)
+		lw := legendWidth(lg, c)
+		lg.Draw(draw.Crop(c, c.Max.X-c.Min.X-lw+vg.Points(8), 0, 0, -legendTop))
 		return draw.Crop(c, 0, -lw, 0, 0)
 	}
-	// Two columns, filled left first, under the plot.
-	half := (len(f.entries) + 1) / 2
-	cols := [2]plot.Legend{f.Legend, f.Legend}
-	for k := range cols {
-		cols[k] = newLegendLike(f.Legend)
-	}
-	w := c.Max.X - c.Min.X
-	room := w/2 - f.Legend.ThumbnailWidth - vg.Points(14)
-	for i, e := range f.entries {
-		cols[min(i/max(half, 1), 1)].Add(wrapText(e.text, f.Legend.TextStyle, room), e.thumbs...)
-	}
-	h := vg.Length(math.Max(float64(cols[0].Rectangle(c).Size().Y), float64(cols[1].Rectangle(c).Size().Y))) + vg.Points(8)
+	cols, h := f.belowLegends(w)
 	for k := range cols {
 		area := draw.Crop(c, vg.Points(6)+vg.Length(k)*w/2, -w/2*vg.Length(1-k), 0, 0)
 		area.Max.Y = c.Min.Y + h
 		cols[k].Draw(area)
 	}
 	return draw.Crop(c, 0, 0, h, 0)
+}
+
+// belowLegends are the two columns of a legend below a plot of width w,
+// filled left first (legendSplit entries, or half of them, in the first),
+// each entry wrapped to its column, and the height they take.
+func (f *Figure) belowLegends(w vg.Length) ([2]plot.Legend, vg.Length) {
+	half := (len(f.entries) + 1) / 2
+	if f.legendSplit > 0 {
+		half = f.legendSplit
+	}
+	cols := [2]plot.Legend{f.Legend, f.Legend}
+	for k := range cols {
+		cols[k] = newLegendLike(f.Legend)
+	}
+	room := w/2 - f.Legend.ThumbnailWidth - vg.Points(14)
+	for i, e := range f.entries {
+		cols[min(i/max(half, 1), 1)].Add(wrapText(e.text, f.Legend.TextStyle, room), e.thumbs...)
+	}
+	var c draw.Canvas // a legend's size does not depend on where it is drawn
+	h := vg.Length(math.Max(float64(cols[0].Rectangle(c).Size().Y), float64(cols[1].Rectangle(c).Size().Y))) + vg.Points(8)
+	return cols, h
 }
 
 // wrapText breaks txt into lines no wider than w in style st, at spaces.

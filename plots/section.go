@@ -17,6 +17,9 @@ import (
 type Section struct {
 	// Title, e.g. "Section along the plume axis at steady state".
 	Title string
+	// FitTitle sets a title wider than the plot in smaller type (the longer
+	// titles of a compound of several).
+	FitTitle bool
 	// Units, for the labels.
 	LengthUnit, ConcUnit string
 	// Outlines, lowest level first, in (distance along flow, depth).
@@ -38,6 +41,7 @@ type Section struct {
 func SectionFigure(s Section) (*Figure, error) {
 	f := newFigure(s.Title, fmt.Sprintf("Distance downgradient of the source face (%s)", s.LengthUnit),
 		fmt.Sprintf("Depth below the water table (%s)", s.LengthUnit))
+	f.fitTitle = s.FitTitle
 	p := f.Plot
 	dmax := math.Max(s.DepthMax, 1e-3)
 	p.X.Min, p.X.Max = s.XMin, s.XMax
