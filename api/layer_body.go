@@ -20,10 +20,11 @@ import (
 // name what is wrong with one receptor; any other error is the body's).
 // finish reads what follows the receptors and says what is wrong with it.
 type receptorInput struct {
-	head   map[string]json.RawMessage
-	names  *layerNames
-	next   func() (plume.Receptor, []issue, error)
-	finish func() ([]issue, error)
+	multipart bool // the body is multipart/form-data (else a JSON scenario)
+	head      map[string]json.RawMessage
+	names     *layerNames
+	next      func() (plume.Receptor, []issue, error)
+	finish    func() ([]issue, error)
 }
 
 // layerSettings reads from a scenario's members the two that say how to
@@ -100,7 +101,7 @@ func openJSONScenario(dec *json.Decoder, prefix string) (*receptorInput, []issue
 		}
 		in.next = fr.next
 		in.finish = func() ([]issue, error) {
-			if issues, err := finishFeatures(dec, prefix); err != nil || len(issues) > 0 {
+			if issues, err := fr.finish(); err != nil || len(issues) > 0 {
 				return issues, err
 			}
 			return endScenario(dec, prefix)
@@ -249,6 +250,7 @@ func openMultipart(body io.Reader, boundary string, maxScenario int64) (*recepto
 	if err != nil || len(issues) > 0 {
 		return nil, issues, err
 	}
+	in.multipart = true
 	finish := in.finish
 	in.finish = func() ([]issue, error) {
 		if issues, err := finish(); err != nil || len(issues) > 0 {
@@ -288,7 +290,7 @@ func openReceptorPart(part *multipart.Part, head map[string]json.RawMessage) (*r
 		return nil, issues, err
 	}
 	return &receptorInput{head: head, names: names, next: fr.next, finish: func() ([]issue, error) {
-		if issues, err := finishFeatures(dec, "receptors"); err != nil || len(issues) > 0 {
+		if issues, err := fr.finish(); err != nil || len(issues) > 0 {
 			return issues, err
 		}
 		if _, err := dec.Token(); !errors.Is(err, io.EOF) {
@@ -374,7 +376,7 @@ type layerReceptor struct {
 // collectLayer reads every receptor of in (a body already in memory), with
 // the issues of all of them (up to maxLayerIssues) and of what follows.
 func collectLayer(in *receptorInput) ([]layerReceptor, []issue, error) {
-	var out []layerReceptor
+	out := []layerReceptor{}
 	var issues []issue
 	for len(issues) < maxLayerIssues {
 		r, is, err := in.next()
@@ -444,7 +446,7 @@ func normalizeLayer(body []byte, at string) ([]byte, *layerNames, *Problem) {
 		if len(issues) > 0 {
 			return nil, nil, problemFromIssues(issues, "the receptor layer cannot be read")
 		}
-		in := &receptorInput{names: names, next: fr.next, finish: func() ([]issue, error) { return finishFeatures(dec, prefix) }}
+		in := &receptorInput{names: names, next: fr.next, finish: func() ([]issue, error) { return fr.finish() }}
 		rs, issues, err := collectLayer(in)
 		if err != nil {
 			return nil, nil, bodyDecodeProblem(err, raw)

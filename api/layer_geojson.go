@@ -36,6 +36,7 @@ type featureReader struct {
 	names *layerNames
 	ids   *idSet
 	code  string // the scenario's crs
+	typed bool   // the collection's type was read (before its features)
 	i     int
 	done  bool
 }
@@ -352,25 +353,44 @@ func memberKey(dec *json.Decoder) (string, error) {
 	return key, nil
 }
 
-// finishFeatures reads the rest of a FeatureCollection after its
-// features array: members other than crs (which would have changed how the
-// features were read) are skipped.
-func finishFeatures(dec *json.Decoder, at string) ([]issue, error) {
-	for dec.More() {
-		key, err := memberKey(dec)
+// finish reads the rest of a FeatureCollection after its features array:
+// its type, when it comes after the features (as a writer that sorts
+// members writes it), must be FeatureCollection; a crs member there would
+// have changed how the features were read; other members are skipped.
+func (r *featureReader) finish() ([]issue, error) {
+	at := r.names.prefix
+	for r.dec.More() {
+		key, err := memberKey(r.dec)
 		if err != nil {
 			return nil, err
 		}
 		var raw json.RawMessage
-		if err := dec.Decode(&raw); err != nil {
+		if err := r.dec.Decode(&raw); err != nil {
 			return nil, err
 		}
-		if key == "crs" {
+		switch key {
+		case "crs":
 			return []issue{{at + ".crs", "must come before the features (it says how they are read)", kindInvalid}}, nil
+		case "type":
+			if is := collectionType(raw, at); is != nil {
+				return []issue{*is}, nil
+			}
+			r.typed = true
 		}
 	}
-	_, err := dec.Token() // }
+	if !r.typed {
+		return []issue{{at + ".type", notALayer + `: "type": "FeatureCollection" is required`, kindMissing}}, nil
+	}
+	_, err := r.dec.Token() // }
 	return nil, err
+}
+
+// collectionType checks a layer's type member.
+func collectionType(raw json.RawMessage, at string) *issue {
+	if t := jsonString(raw); t != "FeatureCollection" {
+		return &issue{at + ".type", fmt.Sprintf("must be \"FeatureCollection\" (a layer of Point features), got %s", shortJSON(raw)), kindInvalid}
+	}
+	return nil
 }
 
 // openFeatures reads a FeatureCollection from dec up to the start of its
@@ -405,9 +425,6 @@ func featuresAfterBrace(dec *json.Decoder, names *layerNames, scenarioCRS string
 		}
 		switch key {
 		case "features":
-			if !typed {
-				return nil, []issue{{at, notALayer + ` (its "type": "FeatureCollection" must come before its features)`, kindMalformed}}, nil
-			}
 			if tok, err := dec.Token(); err != nil {
 				return nil, nil, err
 			} else if tok != json.Delim('[') {
@@ -418,10 +435,10 @@ func featuresAfterBrace(dec *json.Decoder, names *layerNames, scenarioCRS string
 				return nil, []issue{*is}, nil
 			}
 			names.form, names.lonLat = formGeoJSON, lonLat
-			return &featureReader{dec: dec, names: names, ids: ids, code: scenarioCRS}, nil, nil
+			return &featureReader{dec: dec, names: names, ids: ids, code: scenarioCRS, typed: typed}, nil, nil
 		case "type":
-			if t := jsonString(raw); t != "FeatureCollection" {
-				return nil, []issue{{at + ".type", fmt.Sprintf("must be \"FeatureCollection\" (a layer of Point features), got %s", shortJSON(raw)), kindInvalid}}, nil
+			if is := collectionType(raw, at); is != nil {
+				return nil, []issue{*is}, nil
 			}
 			typed = true
 		case "crs":

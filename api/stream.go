@@ -132,7 +132,7 @@ func (s *server) streamScreenings(c echo.Context) error {
 	br.limit = math.MaxInt64 // the receptors: up to MaxStreamBodyBytes (the scope's limit)
 	sb, layer, p := s.prepareStreamHead(in.head)
 	if p != nil {
-		return p
+		return lastMemberHint(p, in)
 	}
 	if err := s.limiter.take(ctx); err != nil {
 		if errors.Is(err, errBusy) {
@@ -226,6 +226,24 @@ func (s *server) prepareStreamHead(head map[string]json.RawMessage) (scenarioBod
 		return sb, nil, s.problemFromError(context.Background(), err, nil)
 	}
 	return sb, l, nil
+}
+
+// lastMemberHint adds to the problem of a streamed JSON scenario that
+// lacks a required member the likely cause: the member comes after the
+// receptors (a writer that sorts members puts "receptors" before
+// "source", "times" and "units"), where a body read in one pass cannot
+// see it before the scenario is checked.
+func lastMemberHint(p *Problem, in *receptorInput) *Problem {
+	if in.names == nil || in.names.form == formCSV || in.multipart {
+		return p
+	}
+	for _, e := range p.Errors {
+		if strings.HasPrefix(e.Message, "required") {
+			p.Detail += `; a streamed scenario is read in one pass, so its receptors must be its last member: a member written after them (as a writer that sorts members writes "source", "times" and "units") is not seen`
+			return p
+		}
+	}
+	return p
 }
 
 // startHash starts engine.input_sha256: the hash of the scenario's

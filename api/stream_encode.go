@@ -216,4 +216,4 @@ func (csvStream) part(_ *plume.Layer, sc plume.Scenario, rs []plume.Receptor, _ 
 }
 
 func (csvStream) end(plume.Result) ([]byte, error) { return nil, nil }
-func (csvStream) fail(*Problem) []byte            { return nil }
+func (csvStream) fail(*Problem) []byte             { return nil }
