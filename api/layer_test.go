@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"math"
 	"mime/multipart"
 	"net/http"
 	"net/textproto"
@@ -124,6 +125,21 @@ func TestLayersInEqualArrays(t *testing.T) {
 	sameResult(t, "GeoJSON in the body", screenResult(t, ts, "/v1/screenings", mustJSON(t, inBody), nil), want)
 	body, hdr = formBody(t, scen, string(mustJSON(t, layer)), "application/geo+json")
 	sameResult(t, "GeoJSON part", screenResult(t, ts, "/v1/screenings", body, hdr), want)
+	// The same wells as testdata/demo/wells.csv (UTM x, y to the cm).
+	csvText, err := os.ReadFile("../testdata/demo/wells.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	body, hdr = formBody(t, scen, string(csvText), "")
+	fromCSV := screenResult(t, ts, "/v1/screenings", body, hdr)
+	if fromCSV.Summary.Text != want.Summary.Text || len(fromCSV.Receptors) != len(want.Receptors) {
+		t.Fatalf("wells.csv: %q, want %q", fromCSV.Summary.Text, want.Summary.Text)
+	}
+	for i, rr := range fromCSV.Receptors {
+		if w := want.Receptors[i]; rr.ID != w.ID || rr.Status != w.Status || math.Abs(rr.X-w.X) > 0.01 || math.Abs(rr.Y-w.Y) > 0.01 {
+			t.Errorf("wells.csv receptor %d: %s %s (%v, %v), want %s %s (%v, %v)", i, rr.ID, rr.Status, rr.X, rr.Y, w.ID, w.Status, w.X, w.Y)
+		}
+	}
 	// A layer is accepted wherever a scenario is: a plot of its wells.
 	rec := ts.call(t, http.MethodPost, "/v1/plots?kind=breakthrough&receptor=PW-02", mustJSON(t, inBody), nil)
 	if rec.Code != 200 {
