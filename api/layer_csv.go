@@ -143,9 +143,11 @@ func (c *csvReader) next() (plume.Receptor, []issue, error) {
 	if err != nil && !errors.As(err, &pe) {
 		return plume.Receptor{}, nil, err
 	}
-	line, _ := c.r.FieldPos(0)
+	var line int
 	if err != nil {
-		line = pe.StartLine
+		line = pe.StartLine // no record: FieldPos would panic
+	} else {
+		line, _ = c.r.FieldPos(0)
 	}
 	c.names.line = line
 	if c.names.lines != nil {

@@ -306,7 +306,7 @@ func (st *stream) read() {
 	}
 	for {
 		j := &streamJob{first: i, rs: make([]plume.Receptor, 0, streamChunk), done: make(chan struct{})}
-		fail, eof := st.readPart(j, &i, perReceptor, maxEvals)
+		fail, eof := st.safeReadPart(j, &i, perReceptor, maxEvals)
 		if len(j.rs) > 0 && (fail == nil || sent) {
 			if sc := scopeOf(st.ctx); sc != nil && sc.deadline != nil {
 				evals := float64(len(j.rs) * perReceptor)
@@ -326,6 +326,18 @@ func (st *stream) read() {
 			return
 		}
 	}
+}
+
+// safeReadPart is readPart with a panic (a bug) recovered and logged as
+// the engine's are: it ends the stream with a 500, not the process.
+func (st *stream) safeReadPart(j *streamJob, i *int, perReceptor, maxEvals int) (p *Problem, eof bool) {
+	defer func() {
+		if r := recover(); r != nil {
+			slog.Error("panic reading a streamed layer", "panic", fmt.Sprint(r), "stack", string(debug.Stack()), "request_id", RequestID(st.ctx))
+			p, eof = newProblem(kindInternal, "the server could not complete the request"), false
+		}
+	}()
+	return st.readPart(j, i, perReceptor, maxEvals)
 }
 
 // readPart reads up to streamChunk receptors into j, counting them in i;
