@@ -272,6 +272,7 @@ var badLayers = []layerCase{
 	{"CSV decimal comma", csvForm("id;x;y\nA;1300,5;800\n", nil), 400, "receptors row 2 column x"},
 	{"CSV empty id", csvForm("id,x,y\nA,1300,800\n,1310,790\n", nil), 422, "receptors row 3 column id"},
 	{"CSV duplicate id", csvForm("id,x,y\nA,1300,800\nB,1310,790\nA,1320,780\n", nil), 422, "receptors row 4 column id"},
+	{"CSV bare quote", csvForm("id,x,y\nA,1300,800\nB,13\"10,790\n", nil), 400, "receptors row 3"},
 	{"CSV ragged row", csvForm("id,x,y\nA,1300,800\nB,1310\n", nil), 400, "receptors row 3"},
 	{"CSV missing x value", csvForm("id,x,y\nA,,800\n", nil), 422, "receptors row 2 column x"},
 	{"CSV longitude out of range", csvForm("id,lon,lat\nA,-80.86,37.78\nB,-280.86,37.78\n", func(m map[string]any) {
