@@ -125,6 +125,21 @@ func TestLayersInEqualArrays(t *testing.T) {
 	sameResult(t, "GeoJSON in the body", screenResult(t, ts, "/v1/screenings", mustJSON(t, inBody), nil), want)
 	body, hdr = formBody(t, scen, string(mustJSON(t, layer)), "application/geo+json")
 	sameResult(t, "GeoJSON part", screenResult(t, ts, "/v1/screenings", body, hdr), want)
+	// The same wells as a CSV of lon, lat (any order and case of columns).
+	var lonlat strings.Builder
+	lonlat.WriteString("Lat,Lon,well_id,screen_bottom,screen_top,z\n")
+	for _, r := range arr {
+		rm := r.(map[string]any)
+		cell := func(k string) string {
+			if v, ok := rm[k]; ok {
+				return fmt.Sprint(v)
+			}
+			return ""
+		}
+		fmt.Fprintf(&lonlat, "%s,%s,%s,%s,%s,%s\n", cell("lat"), cell("lon"), cell("id"), cell("screen_bottom"), cell("screen_top"), cell("z"))
+	}
+	body, hdr = formBody(t, scen, lonlat.String(), "text/csv")
+	sameResult(t, "lon/lat CSV", screenResult(t, ts, "/v1/screenings", body, hdr), want)
 	// The same wells as testdata/demo/wells.csv (UTM x, y to the cm).
 	csvText, err := os.ReadFile("../testdata/demo/wells.csv")
 	if err != nil {
