@@ -318,3 +318,36 @@ func TestStreamReceptorsLast(t *testing.T) {
 		t.Errorf("problem %+v", p)
 	}
 }
+
+// How a request picks the streaming path and its format.
+func TestStreamNegotiation(t *testing.T) {
+	ts := newTestServer(t, Config{})
+	body := streamBody(t, demoMap(t))
+	cases := []struct {
+		target, accept string
+		status         int
+		ctype, field   string
+	}{
+		{"/v1/screenings", mimeNDJSON, 200, mimeNDJSON, ""},
+		{"/v1/screenings?stream=true", "", 200, mimeNDJSON, ""},
+		{"/v1/screenings?stream=true", "text/csv", 200, "text/csv; charset=utf-8; header=present", ""},
+		{"/v1/screenings?stream=true", mimeGeoJSON, 200, mimeGeoJSON, ""},
+		{"/v1/screenings?stream=1&format=geojson", "text/csv", 200, mimeGeoJSON, ""},
+		{"/v1/screenings?stream=true&format=json", "", 422, "", "format"},
+		{"/v1/screenings?stream=false&format=ndjson", "", 422, "", "stream"},
+		{"/v1/screenings?stream=true", "image/png", 406, "", "Accept"},
+		{"/v1/screenings", "application/json", 200, "application/json", ""},
+	}
+	for _, tc := range cases {
+		rec := ts.call(t, http.MethodPost, tc.target, body, map[string]string{"Accept": tc.accept})
+		if tc.status != 200 {
+			if p := problemOf(t, rec, tc.status); !hasField(p, tc.field) {
+				t.Errorf("%s Accept %q: %+v, want %q named", tc.target, tc.accept, p.Errors, tc.field)
+			}
+			continue
+		}
+		if rec.Code != 200 || rec.Header().Get("Content-Type") != tc.ctype {
+			t.Errorf("%s Accept %q: %d %s, want %s", tc.target, tc.accept, rec.Code, rec.Header().Get("Content-Type"), tc.ctype)
+		}
+	}
+}
