@@ -119,12 +119,7 @@ func (s *server) streamScreenings(c echo.Context) error {
 	st.sctx, st.stop = context.WithCancelCause(ctx)
 	defer st.stop(context.Canceled)
 	// A read blocked on the body wakes when the request or the stream ends.
-	stopWake := context.AfterFunc(st.sctx, func() {
-		if !st.readerEnd.Load() {
-			_ = rc.SetReadDeadline(time.Now())
-		}
-	})
-	defer stopWake()
+	defer wakeReader(st, rc)()
 	in, p := s.openStream(c, br)
 	if p != nil {
 		return p
@@ -148,6 +143,31 @@ func (s *server) streamScreenings(c echo.Context) error {
 		(*h)(st)
 	}
 	return st.run(rc)
+}
+
+// wakeReader arranges that a read of st's body blocked on the client
+// wakes when the stream ends (its read deadline set to now), and returns
+// the function that disarms it. The handler calls that before it returns:
+// it waits for a wake already under way, so that nothing touches the
+// response (which echo reuses for its next request) or the connection
+// after the handler returned.
+func wakeReader(st *stream, rc *http.ResponseController) (disarm func()) {
+	var mu sync.Mutex
+	over := false
+	stop := context.AfterFunc(st.sctx, func() {
+		mu.Lock()
+		defer mu.Unlock()
+		if !over && !st.readerEnd.Load() {
+			_ = rc.SetReadDeadline(time.Now())
+		}
+	})
+	return func() {
+		if !stop() {
+			mu.Lock()
+			over = true
+			mu.Unlock()
+		}
+	}
 }
 
 // streamEncoder picks the format and checks the body's media type.
