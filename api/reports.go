@@ -229,7 +229,8 @@ func inputGroups(sc plume.Scenario, u plume.Units) []reportGroup {
 		{Name: "Start", Value: given(src.Start), Unit: T},
 		{Name: "Duration", Value: given(src.Duration), Unit: T},
 		{Name: "Depletion half-life", Value: given(src.HalfLife), Unit: T},
-		{Name: "Released mass", Value: given(src.Mass), Unit: "kg"},
+		{Name: massLabel(src), Value: given(src.Mass), Unit: "kg"},
+		{Name: "Depletion exponent", Value: given(src.DepletionExponent), Unit: "–"},
 	}}
 	for _, g := range []*reportGroup{&aq, &ct, &so} {
 		rows := g.Rows[:0]
@@ -241,6 +242,15 @@ func inputGroups(sc plume.Scenario, u plume.Units) []reportGroup {
 		g.Rows = rows
 	}
 	return []reportGroup{aq, ct, so}
+}
+
+// massLabel names source.mass: a released mass, or with a concentration
+// the source's dissolvable mass.
+func massLabel(src plume.Source) string {
+	if src.Concentration != nil {
+		return "Dissolvable source mass"
+	}
+	return "Released mass"
 }
 
 // receptorInputs lists the receptors as given.
@@ -398,5 +408,34 @@ func derivedRows(d plume.Derived, u plume.Units) []reportRow {
 	}
 	rows = append(rows, reportRow{Name: "Screening level", Value: sl, Unit: u.Concentration, Origin: o, Estimated: e})
 	rows = append(rows, reportRow{Name: "Source model", Value: map[string]string{"3d": "vertical rectangle (3D)", "1d": "column (1D)", "instantaneous": "instantaneous release"}[d.SourceKind], Origin: "from the source fields given"})
+	return append(rows, sourceMassRows(d, u)...)
+}
+
+// sourceMassRows lists the depletion of each source with a mass: its
+// rate, when it falls below the screening level and when its mass is gone.
+func sourceMassRows(d plume.Derived, u plume.Units) []reportRow {
+	var rows []reportRow
+	orNever := func(p *float64) string {
+		if p == nil {
+			return "never"
+		}
+		return fmtReportNumber(*p)
+	}
+	for _, sd := range d.Sources {
+		if sd.DepletionRate == nil {
+			continue
+		}
+		of := ""
+		if sd.ID != "" {
+			of = " (" + sd.ID + ")"
+		}
+		rows = append(rows,
+			reportRow{Name: "Source depletion rate" + of, Value: fmtReportNumber(*sd.DepletionRate), Unit: "1/" + u.Time,
+				Origin: "Q C0 / M0 with Q = n_e v W D (source mass; Falta, Rao & Basu 2005)"},
+			reportRow{Name: "Source mass exhausted" + of, Value: orNever(sd.TimeMassExhausted), Unit: u.Time, Origin: "on the scenario's clock"})
+		if d.ScreeningLevel != nil {
+			rows = append(rows, reportRow{Name: "Source below the screening level" + of, Value: orNever(sd.TimeBelowScreeningLevel), Unit: u.Time, Origin: "on the scenario's clock"})
+		}
+	}
 	return rows
 }

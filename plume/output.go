@@ -76,7 +76,11 @@ func (r *Result) fromCanonical(f unitFactors) {
 		}
 	}
 	for i := range d.Sources {
-		d.Sources[i].MassDischarge = scaled(d.Sources[i].MassDischarge, 1/f.M)
+		sd := &d.Sources[i]
+		sd.MassDischarge = scaled(sd.MassDischarge, 1/f.M)
+		sd.DepletionRate = scaled(sd.DepletionRate, T)
+		sd.TimeBelowScreeningLevel = scaled(sd.TimeBelowScreeningLevel, 1/T)
+		sd.TimeMassExhausted = scaled(sd.TimeMassExhausted, 1/T)
 	}
 	for i := range d.Compounds {
 		cd := &d.Compounds[i]
@@ -258,6 +262,9 @@ func (r *Result) sanitizeExtras() {
 		cleanP(a.WithinTimes)
 	}
 	for i := range r.Derived.Sources {
-		cleanP(r.Derived.Sources[i].MassDischarge)
+		sd := &r.Derived.Sources[i]
+		for _, p := range []*float64{sd.MassDischarge, sd.DepletionRate, sd.TimeBelowScreeningLevel, sd.TimeMassExhausted} {
+			cleanP(p)
+		}
 	}
 }

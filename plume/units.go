@@ -239,18 +239,19 @@ func Clean(x float64) float64 {
 func canonicalSource(s Source, f unitFactors) Source {
 	L, T, C := f.L, f.T, f.C
 	return Source{
-		ID:             s.ID,
-		X:              scaled(s.X, L),
-		Y:              scaled(s.Y, L),
-		FlowAzimuthDeg: scaled(s.FlowAzimuthDeg, 1),
-		Concentration:  scaled(s.Concentration, C),
-		Width:          scaled(s.Width, L),
-		Depth:          scaled(s.Depth, L),
-		Start:          scaled(s.Start, T),
-		Duration:       scaled(s.Duration, T),
-		HalfLife:       scaled(s.HalfLife, T),
-		Mass:           scaled(s.Mass, 1),
-		ReleaseDepth:   scaled(s.ReleaseDepth, L),
-		Inlet:          s.Inlet,
+		ID:                s.ID,
+		X:                 scaled(s.X, L),
+		Y:                 scaled(s.Y, L),
+		FlowAzimuthDeg:    scaled(s.FlowAzimuthDeg, 1),
+		Concentration:     scaled(s.Concentration, C),
+		Width:             scaled(s.Width, L),
+		Depth:             scaled(s.Depth, L),
+		Start:             scaled(s.Start, T),
+		Duration:          scaled(s.Duration, T),
+		HalfLife:          scaled(s.HalfLife, T),
+		Mass:              scaled(s.Mass, 1),
+		DepletionExponent: scaled(s.DepletionExponent, 1),
+		ReleaseDepth:      scaled(s.ReleaseDepth, L),
+		Inlet:             s.Inlet,
 	}
 }
