@@ -112,7 +112,14 @@ func (m *model) massScale(ctx context.Context, p Point, sp screenPlan, level flo
 	f := level / bound
 	gf := g(f)
 	if gf >= 0 {
-		return f, ctx.Err() == nil
+		// Depletion negligible over the times: the bound is reached to
+		// within the closed forms' accuracy. The root lies just below.
+		lo := f / massScaleStep
+		glo := g(lo)
+		if glo >= 0 || ctx.Err() != nil {
+			return lo, ctx.Err() == nil
+		}
+		return roots.Brent(g, lo, f, glo, gf, massScaleRelTol*f, 200), ctx.Err() == nil
 	}
 	drained := m.drainedFactor(sp)
 	for range massScaleSteps {
