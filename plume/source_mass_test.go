@@ -274,6 +274,7 @@ func TestSourceMassAllowableRescreen(t *testing.T) {
 				}
 				rescreen := func(scale float64) float64 {
 					s2 := sc
+					s2.Receptors = sc.Receptors[i : i+1] // the dispersivities are given: receptors are independent
 					if several {
 						s2.Sources = slices.Clone(sc.Sources)
 						for j := range s2.Sources {
@@ -286,7 +287,7 @@ func TestSourceMassAllowableRescreen(t *testing.T) {
 					if err != nil {
 						t.Fatal(err)
 					}
-					return primaryMax(r2.Receptors[i], exact)
+					return primaryMax(r2.Receptors[0], exact)
 				}
 				scale := 1.0
 				if several {
@@ -444,27 +445,19 @@ func TestSourceMassCaveats(t *testing.T) {
 	}
 }
 
-// The invented demo end to end (testdata/demo/source-mass.json): the
-// numeric cross-check (power-law source on the grid) agrees with the
-// exact solution at every receptor; W-4 and P-7 exceed, S-1 does not and
-// no concentration brings it to the level with 100 kg; the source runs
-// out at 1/((1-0.5) k) = 10766.6 d.
+// The invented demo end to end (testdata/demo/source-mass.json), closed
+// forms: W-4 and P-7 exceed, S-1 does not and no concentration brings it
+// to the level with 100 kg; the source runs out at 1/((1-0.5) k) =
+// 10766.6 d.
 func TestSourceMassDemo(t *testing.T) {
-	if testing.Short() {
-		t.Skip("numeric cross-check")
-	}
-	res, err := Screen(context.Background(), massDemo(t), Options{})
+	sc := massDemo(t)
+	sc.Methods = []string{MethodExact, MethodDomenico}
+	res, err := Screen(context.Background(), sc, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if res.Numeric == nil {
-		t.Fatalf("numeric not run: %v", res.Caveats)
-	}
 	want := map[string]bool{"MW-1": true, "MW-2": true, "W-4 supply well": true, "P-7 parcel corner": true, "S-1 creek bank": false}
 	for _, rr := range res.Receptors {
-		if ag := rr.NumericAgreement; ag == nil || !ag.WithinTolerance {
-			t.Errorf("%s: numeric agreement %+v", rr.ID, ag)
-		}
 		if rr.ExceedsScreeningLevel == nil || *rr.ExceedsScreeningLevel != want[rr.ID] {
 			t.Errorf("%s: exceeds %v, want %v", rr.ID, rr.ExceedsScreeningLevel, want[rr.ID])
 		}
@@ -479,5 +472,32 @@ func TestSourceMassDemo(t *testing.T) {
 	sd := res.Derived.Sources[0]
 	if sd.TimeMassExhausted == nil || math.Abs(*sd.TimeMassExhausted-10766.580534) > 1e-3 {
 		t.Errorf("time_mass_exhausted %v", deref(sd.TimeMassExhausted))
+	}
+}
+
+// The numeric cross-check carries the power-law source on its grid (its
+// inlet history is checked against mpmath in package numeric): it agrees
+// with the exact solution within its tolerance at the demo's near wells,
+// before, around and after the source runs out.
+func TestSourceMassNumeric(t *testing.T) {
+	if testing.Short() {
+		t.Skip("numeric cross-check")
+	}
+	sc := massDemo(t)
+	sc.Receptors = []Receptor{sc.Receptors[0], sc.Receptors[2]}
+	sc.Times = []float64{1825, 7300, 10950}
+	res, err := Screen(context.Background(), sc, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Numeric == nil {
+		t.Fatalf("numeric not run: %v", res.Caveats)
+	}
+	for _, rr := range res.Receptors {
+		if ag := rr.NumericAgreement; ag == nil || !ag.WithinTolerance {
+			t.Errorf("%s: numeric agreement %+v", rr.ID, ag)
+		} else {
+			t.Logf("%s: numeric within %.3g of exact", rr.ID, ag.MaxRelativeDifference)
+		}
 	}
 }
