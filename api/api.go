@@ -65,6 +65,8 @@ type Config struct {
 	// DefaultMaxHeaderBytes. The http.Server's own MaxHeaderBytes must be
 	// larger for the 431 to be problem+json.
 	MaxHeaderBytes int
+	// Clock gives the date and time a report says it was run; nil means time.Now.
+	Clock func() time.Time
 }
 
 func (c Config) withDefaults() Config {
@@ -100,6 +102,9 @@ func (c Config) withDefaults() Config {
 	}
 	if c.MaxHeaderBytes <= 0 {
 		c.MaxHeaderBytes = DefaultMaxHeaderBytes
+	}
+	if c.Clock == nil {
+		c.Clock = time.Now
 	}
 	return c
 }

@@ -1,10 +1,10 @@
 package api
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
-	"io"
 	"net"
 	"net/http"
 	"strings"
@@ -29,7 +29,8 @@ func checkContentEncoding(req *http.Request) *Problem {
 // readBody reads the request body, already capped at MaxBodyBytes by
 // scope, within BodyTimeout (and within the request's deadline: a
 // shutdown also ends the read), before the request takes any computation
-// slot. Problems: 413 over the cap; 408 when the body does not arrive in
+// slot; once it is read in full the request takes a decoding token
+// (limiter.takeDecode). Problems: 413 over the cap; 408 when the body does not arrive in
 // time; 503 when the deadline passed or the server is shutting down; 400
 // when the connection ends before the body does. No message carries a
 // network address.
@@ -43,7 +44,12 @@ func (s *server) readBody(c echo.Context) ([]byte, *Problem) {
 		_ = rc.SetReadDeadline(time.Now()) // wake the read
 		close(ended)
 	})
-	body, err := io.ReadAll(req.Body)
+	var buf bytes.Buffer
+	if n := req.ContentLength; n > 0 {
+		buf.Grow(int(min(n, s.cfg.MaxBodyBytes) + 1)) // one allocation, not a doubling series
+	}
+	_, err := buf.ReadFrom(req.Body)
+	body := buf.Bytes()
 	if !stop() {
 		<-ended
 	}
@@ -52,6 +58,9 @@ func (s *server) readBody(c echo.Context) ([]byte, *Problem) {
 		// background read would otherwise end the request's context when
 		// it expired in mid-computation.
 		_ = rc.SetReadDeadline(time.Time{})
+		if err := s.limiter.takeDecode(ctx); err != nil {
+			return nil, s.endedProblem(ctx)
+		}
 		return body, nil
 	}
 	// On failure the deadline stays passed, so that net/http does not wait

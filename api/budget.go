@@ -72,6 +72,9 @@ func scenarioMethods(sc plume.Scenario) int {
 	return len(sc.Methods)
 }
 
+// compoundCount is the number of compounds of sc (contaminants[], else one).
+func compoundCount(sc plume.Scenario) float64 { return float64(max(len(sc.Contaminants), 1)) }
+
 // screeningSize bounds the size of a screening's answer in format, bytes.
 func screeningSize(sc plume.Scenario, format outputFormat) float64 {
 	sh := shapeOf(sc, scenarioMethods(sc))
@@ -83,8 +86,8 @@ func screeningSize(sc plume.Scenario, format outputFormat) float64 {
 		// the method, the value, the status, the level, the flag, six
 		// source bounds, the caveat codes, the engine version and the
 		// input hash.
-		perRow := float64(11*(numBytes+1) + 10 + 24 + 6 + csvCodeBytes + 64 + 64 + 10)
-		rowsPerReceptor := (t + 1) * m
+		perRow := float64(11*(numBytes+1) + 10 + 24 + 6 + csvCodeBytes + 64 + 64 + 10 + 40)
+		rowsPerReceptor := (t + 1) * m * compoundCount(sc) // a row per compound too (its name in a column)
 		return fixedBytes + rowsPerReceptor*(2*ids+3*r+float64(sh.xyBytes)+perRow*r) + m*r*tb
 	}
 	// JSON: per receptor its members and caveats; per time a point of
@@ -93,7 +96,8 @@ func screeningSize(sc plume.Scenario, format outputFormat) float64 {
 	if format == formatGeoJSON {
 		// Geometry, site and flattened properties, and one attribute per
 		// method and time (and steady) named with the time and the units.
-		size += r*(1000+4*numBytes) + r*(t+1)*m*(40+numBytes) + r*m*tb
+		k := compoundCount(sc) // per-compound attribute columns
+		size += r*(1000+4*numBytes)*k + r*(t+1)*m*k*(60+numBytes) + r*m*k*tb
 	}
 	return size
 }

@@ -17,6 +17,7 @@ import (
 	"sort"
 	"strings"
 	"testing"
+	"time"
 )
 
 // updateGolden rewrites the golden files: go test ./api -run Golden -update.
@@ -28,6 +29,9 @@ const goldenDir = "testdata/golden"
 // goldenVersion is the engine version of the golden server, so that
 // engine.version in every result is a fixed string.
 const goldenVersion = "golden"
+
+// goldenClock is the fixed time the golden reports say they were run.
+func goldenClock() time.Time { return time.Date(2024, 5, 17, 9, 30, 0, 0, time.UTC) }
 
 // goldenCase is one request whose whole response is pinned: the body in
 // <name>.<ext>; the request line and headers, the status and the response
@@ -51,6 +55,15 @@ var goldenBodies = map[string]func(testing.TB) []byte{
 	"demo-spill":   func(t testing.TB) []byte { return mustJSON(t, goldenSpill(t)) },
 	"demo-numeric": func(t testing.TB) []byte { return mustJSON(t, goldenNumeric(t)) },
 	"imperial":     func(t testing.TB) []byte { return []byte(goldenImperial) },
+	// The invented dry-cleaner chain, closed forms only (the numeric chain
+	// takes seconds), and the same with one retardation factor so that the
+	// chain's closed forms give every compound.
+	"dry-cleaner": func(t testing.TB) []byte { return mustJSON(t, dryCleanerMapB(t)) },
+	"dry-cleaner-equal-r": func(t testing.TB) []byte {
+		m := dryCleanerMapB(t)
+		equalRChain(m)
+		return mustJSON(t, m)
+	},
 	"uncertainty": func(t testing.TB) []byte {
 		m := uncertaintyMap(t)
 		m["realizations"], m["methods"] = 50, []any{"exact"}
@@ -59,10 +72,13 @@ var goldenBodies = map[string]func(testing.TB) []byte{
 	"attenuation":  func(t testing.TB) []byte { return mustJSON(t, attenuationMap(t)) },
 	"calibration":  func(t testing.TB) []byte { return mustJSON(t, calibrationMap(t)) },
 	"map-plan":     func(t testing.TB) []byte { return mustJSON(t, mapRequest(t, map[string]any{"cells": 2000})) },
+	"demo-memo":    func(t testing.TB) []byte { return mustJSON(t, memoMap(t)) },
 	"map-section":  func(t testing.TB) []byte { return mustJSON(t, goldenSection(t)) },
 	"bad-fields":   func(t testing.TB) []byte { return mustJSON(t, goldenBadFields(t)) },
 	"bad-scenario": func(t testing.TB) []byte { return mustJSON(t, goldenBadScenario(t)) },
 	"malformed":    func(t testing.TB) []byte { return []byte("{\n  \"aquifer\": {\"hydraulic_conductivity\": 8.6,,}\n}\n") },
+	// The invented dry cleaner's chain with one retardation factor, closed forms only.
+	"chain": func(t testing.TB) []byte { return mustJSON(t, equalRDryCleaner(t)) },
 }
 
 // goldenCases: the demo in the three representations of a screening, one
@@ -81,6 +97,9 @@ var goldenCases = []goldenCase{
 	{name: "screenings-imperial-csv", ext: "csv", method: "POST", target: "/v1/screenings?format=csv", body: "imperial"},
 	{name: "screenings-imperial-geojson", ext: "geojson", method: "POST", target: "/v1/screenings?format=geojson", body: "imperial"},
 	{name: "screenings-numeric", ext: "json", method: "POST", target: "/v1/screenings", body: "demo-numeric"},
+	{name: "screenings-dry-cleaner", ext: "json", method: "POST", target: "/v1/screenings", body: "dry-cleaner"},
+	{name: "screenings-dry-cleaner-equal-r-csv", ext: "csv", method: "POST", target: "/v1/screenings?format=csv", body: "dry-cleaner-equal-r"},
+	{name: "screenings-dry-cleaner-equal-r-geojson", ext: "geojson", method: "POST", target: "/v1/screenings?format=geojson", body: "dry-cleaner-equal-r"},
 	// The spreadsheet GET (text/plain is its only representation).
 	{name: "concentration-demo-365", ext: "txt", method: "GET", target: concentrationQuery(1287.6, 816.3, 1, "365", "exact")},
 	{name: "concentration-demo-steady", ext: "txt", method: "GET", target: concentrationQuery(1449.4, 763.8, 5, "steady", "domenico")},
@@ -103,11 +122,20 @@ var goldenCases = []goldenCase{
 	{name: "plume-maps-section-grid", ext: "json", method: "POST", target: "/v1/plume-maps?format=grid", body: "map-section"},
 	// The printable report and every kind of picture (SVG; one PNG).
 	{name: "reports", ext: "html", method: "POST", target: "/v1/reports", body: "demo"},
+	{name: "reports-memo", ext: "html", method: "POST", target: "/v1/reports?labels=all", body: "demo-memo"},
+	{name: "reports-uncertainty", ext: "html", method: "POST", target: "/v1/reports", body: "uncertainty"},
+	{name: "plots-section", ext: "svg", method: "POST", target: "/v1/plots?kind=section", body: "demo"},
+	{name: "plots-map-options", ext: "svg", method: "POST", target: "/v1/plots?kind=map&time=3650&levels=0.01,0.1&labels=exceedances", body: "demo"},
+	{name: "plots-breakthrough-linear", ext: "svg", method: "POST", target: "/v1/plots?kind=breakthrough&receptor=MW-1&scale=linear", body: "demo"},
 	{name: "plots-breakthrough", ext: "svg", method: "POST", target: "/v1/plots?kind=breakthrough", body: "demo"},
 	{name: "plots-breakthrough-mw2", ext: "svg", method: "POST", target: "/v1/plots?kind=breakthrough&receptor=MW-2", body: "demo"},
 	{name: "plots-profile", ext: "svg", method: "POST", target: "/v1/plots?kind=profile", body: "demo"},
 	{name: "plots-map", ext: "svg", method: "POST", target: "/v1/plots?kind=map", body: "demo"},
 	{name: "plots-breakthrough-png", ext: "png", method: "POST", target: "/v1/plots?kind=breakthrough", body: "demo", header: map[string]string{"Accept": "image/png"}},
+	// Several compounds: the memo (a row per receptor and compound, maps of
+	// two compounds) and a breakthrough plot with a line per compound.
+	{name: "reports-chain", ext: "html", method: "POST", target: "/v1/reports", body: "chain"},
+	{name: "plots-breakthrough-chain", ext: "svg", method: "POST", target: "/v1/plots?kind=breakthrough&receptor=Orchard%20Lane%20well", body: "chain"},
 	// Problems.
 	{name: "problem-422-schema", ext: "json", method: "POST", target: "/v1/screenings", body: "bad-fields"},
 	{name: "problem-422-scenario", ext: "json", method: "POST", target: "/v1/screenings", body: "bad-scenario"},
@@ -139,7 +167,7 @@ func TestGolden(t *testing.T) {
 	if !goldenPlatformMatches(t) {
 		return
 	}
-	ts := newTestServer(t, Config{Version: goldenVersion})
+	ts := newTestServer(t, Config{Version: goldenVersion, Clock: goldenClock})
 	want := map[string]bool{"README.md": true, goldenPlatformFile: true}
 	seen := map[string]bool{}
 	for _, c := range goldenCases {

@@ -2,6 +2,7 @@ package api
 
 import (
 	"net/http"
+	"strings"
 	"testing"
 )
 
@@ -42,5 +43,19 @@ func TestControlCharactersInIds(t *testing.T) {
 		if !hasField(p, tc.field) {
 			t.Errorf("%s: %q not named: %+v", tc.target, tc.field, p)
 		}
+	}
+}
+
+// A report of a scenario whose dispersivities are all estimated (each
+// receptor at its own travel distance, so no model-wide value) answers
+// 200. Found by FuzzReportFields: it dereferenced the missing model-wide
+// dispersivity and answered 500.
+func TestReportWithReceptorDispersivities(t *testing.T) {
+	ts := newTestServer(t, Config{})
+	m := demoMap(t)
+	delete(m["aquifer"].(map[string]any), "dispersivity")
+	rec := ts.call(t, http.MethodPost, "/v1/reports", mustJSON(t, m), nil)
+	if rec.Code != http.StatusOK || !strings.Contains(rec.Body.String(), "per receptor") {
+		t.Fatalf("status %d: %.300s", rec.Code, rec.Body.String())
 	}
 }

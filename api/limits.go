@@ -36,6 +36,7 @@ var kindBusy = problemKind{"server-busy", "Server busy", http.StatusServiceUnava
 // are bounded by the body, workload and output limits.
 type limiter struct {
 	slots      chan struct{}
+	decoding   chan struct{} // requests decoding a body read in full (see takeDecode)
 	waiting    atomic.Int64
 	maxWaiting int64
 	wait       time.Duration
@@ -45,6 +46,7 @@ type limiter struct {
 func newLimiter(cfg Config, m *metrics) *limiter {
 	return &limiter{
 		slots:      make(chan struct{}, cfg.MaxHeavy),
+		decoding:   make(chan struct{}, max(4, 2*cfg.MaxHeavy)),
 		maxWaiting: int64(cfg.MaxWaiting),
 		wait:       cfg.WaitTimeout,
 		m:          m,
@@ -59,6 +61,9 @@ func (l *limiter) take(ctx context.Context) error {
 	sc := scopeOf(ctx)
 	if sc != nil && sc.holdsSlot() {
 		return nil
+	}
+	if sc != nil {
+		sc.endDecode() // decoded: the next request may decode while this one waits
 	}
 	if err := l.acquire(ctx); err != nil {
 		if errors.Is(err, errBusy) {
@@ -110,4 +115,25 @@ func (l *limiter) acquire(ctx context.Context) error {
 	case <-ctx.Done():
 		return ctx.Err()
 	}
+}
+
+// takeDecode makes a request whose body has been read in full wait for
+// one of a few decoding tokens (2 per computation slot, at least 4) before
+// it validates and decodes the body, which takes several times the body's
+// size in memory: a body is read without any token (a slow client holds
+// none), but no more than a few are expanded at once whatever the number
+// of connections. The token is given back when the request asks for a
+// computation slot, or ends. The error is the context's.
+func (l *limiter) takeDecode(ctx context.Context) error {
+	sc := scopeOf(ctx)
+	if sc == nil {
+		return nil
+	}
+	select {
+	case l.decoding <- struct{}{}:
+	case <-ctx.Done():
+		return ctx.Err()
+	}
+	sc.holdDecode(func() { <-l.decoding })
+	return nil
 }

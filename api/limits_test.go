@@ -17,7 +17,7 @@ import (
 )
 
 // Each limit, exceeded, answers its documented status (openapi.yaml, "Errors
-// and limits" in the README) as problem+json naming the field. The limits
+// and limits" in docs/errors.md) as problem+json naming the field. The limits
 // are the service's own choices (no external source).
 func TestLimitsExceeded(t *testing.T) {
 	demo := demoMap(t)
@@ -302,5 +302,48 @@ func TestRequestID(t *testing.T) {
 	rec := ts.call(t, http.MethodPost, "/v1/screenings", []byte("{"), map[string]string{HeaderRequestID: "req-1"})
 	if rec.Header().Get(HeaderRequestID) != "req-1" {
 		t.Errorf("problem response lacks the request ID")
+	}
+}
+
+// A request whose body is read takes a decoding token; at most a few
+// decode at once (2 per slot, at least 4), and a token is given back when
+// its request asks for a computation slot or ends, so that many large
+// bodies arriving together are not all expanded in memory at once.
+func TestDecodingTokens(t *testing.T) {
+	l := newLimiter(Config{MaxHeavy: 1, MaxWaiting: 8, WaitTimeout: time.Second}.withDefaults(), newMetrics())
+	scopes := make([]*requestScope, 5)
+	ctxs := make([]context.Context, 5)
+	for i := range scopes {
+		scopes[i] = &requestScope{}
+		ctxs[i] = context.WithValue(context.Background(), scopeKey{}, scopes[i])
+	}
+	for i := range 4 {
+		if err := l.takeDecode(ctxs[i]); err != nil {
+			t.Fatal(err)
+		}
+	}
+	fifth := make(chan error, 1)
+	go func() { fifth <- l.takeDecode(ctxs[4]) }()
+	select {
+	case <-fifth:
+		t.Fatal("a fifth request decodes while four hold the tokens")
+	case <-time.After(50 * time.Millisecond):
+	}
+	if err := l.take(ctxs[0]); err != nil { // asks for a slot: gives its token back
+		t.Fatal(err)
+	}
+	select {
+	case err := <-fifth:
+		if err != nil {
+			t.Fatal(err)
+		}
+	case <-time.After(5 * time.Second):
+		t.Fatal("the token given back did not reach the waiting request")
+	}
+	for _, sc := range scopes {
+		sc.end()
+	}
+	if len(l.decoding) != 0 || len(l.slots) != 0 {
+		t.Errorf("after every request ended: %d decoding tokens, %d slots held", len(l.decoding), len(l.slots))
 	}
 }

@@ -32,7 +32,7 @@ func (s *server) plumeMaps(c echo.Context) error {
 	if p := decodeBody(body, &mb, true); p != nil {
 		return p
 	}
-	if p := mb.Scenario.checkDescription(); p != nil {
+	if p := mb.Scenario.checkFreeText(); p != nil {
 		return p.under("scenario")
 	}
 	ctx := c.Request().Context()

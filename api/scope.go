@@ -53,7 +53,8 @@ type scopeKey struct{}
 // computation slot, once compute has taken it.
 type requestScope struct {
 	mu      sync.Mutex
-	release func()
+	release func() // frees the computation slot
+	decoded func() // gives back the decoding token
 }
 
 // scopeOf returns the scope of the request of ctx (nil outside one).
@@ -74,8 +75,25 @@ func (sc *requestScope) holdSlot(release func()) {
 	sc.release = release
 }
 
-// end frees the slot, if the request took one.
+func (sc *requestScope) holdDecode(giveBack func()) {
+	sc.mu.Lock()
+	defer sc.mu.Unlock()
+	sc.decoded = giveBack
+}
+
+// endDecode gives back the decoding token, if the request holds one.
+func (sc *requestScope) endDecode() {
+	sc.mu.Lock()
+	defer sc.mu.Unlock()
+	if sc.decoded != nil {
+		sc.decoded()
+		sc.decoded = nil
+	}
+}
+
+// end frees the slot and the decoding token the request holds.
 func (sc *requestScope) end() {
+	sc.endDecode()
 	sc.mu.Lock()
 	defer sc.mu.Unlock()
 	if sc.release != nil {

@@ -7,6 +7,7 @@ import (
 	"errors"
 	"fmt"
 	"reflect"
+	"sort"
 	"strings"
 	"unicode"
 
@@ -68,12 +69,19 @@ func (s *server) encodeScreening(ctx context.Context, format outputFormat, sc pl
 	return s.encodeJSON(res, echo.MIMEApplicationJSON, hint, "receptors", "times", "methods")
 }
 
-// scenarioBody is the request body: a scenario plus the free-text
-// description the engine ignores.
+// scenarioBody is the request body: a scenario plus the free text the
+// engine ignores (the description, the memo header and the sources of the
+// values, which a report prints). None of it is part of the scenario the
+// engine sees, so none of it changes engine.input_sha256.
 type scenarioBody struct {
 	plume.Scenario
 	// Free text for the caller's records; not passed to the engine.
 	Description *string `json:"description"`
+	// The header of a report; not passed to the engine.
+	Memo *memoHeader `json:"memo,omitempty"`
+	// Where each input value came from (a survey, a pumping test, a
+	// handbook), by the input's JSON path; printed beside it in a report.
+	SourcesOfValues map[string]string `json:"sources_of_values,omitempty"`
 }
 
 // decodeScenario decodes a body that has passed schema validation.
@@ -88,21 +96,39 @@ func decodeScenarioBody(body []byte) (scenarioBody, *Problem) {
 	if p := decodeBody(body, &sb, true); p != nil {
 		return sb, p
 	}
-	return sb, sb.checkDescription()
+	return sb, sb.checkFreeText()
 }
 
-// checkDescription refuses a description with control characters (tabs
-// and line breaks allowed): the report prints it.
-func (sb scenarioBody) checkDescription() *Problem {
-	if sb.Description == nil {
-		return nil
-	}
+// checkFreeText refuses control characters in the free text a report
+// prints: the description and the sources of values (tabs and line breaks
+// allowed), the memo header (one line each).
+func (sb scenarioBody) checkFreeText() *Problem {
 	var fe plume.FieldErrors
-	fe.CheckText("description", *sb.Description, true)
+	if sb.Description != nil {
+		fe.CheckText("description", *sb.Description, true)
+	}
+	if m := sb.Memo; m != nil {
+		for _, f := range []struct{ name, v string }{{"project", m.Project}, {"site", m.Site},
+			{"prepared_by", m.PreparedBy}, {"checked_by", m.CheckedBy}, {"date", m.Date}} {
+			fe.CheckText("memo."+f.name, f.v, false)
+		}
+	}
+	keys := make([]string, 0, len(sb.SourcesOfValues))
+	for k := range sb.SourcesOfValues {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		fe.CheckText("sources_of_values."+k, sb.SourcesOfValues[k], true)
+	}
 	if len(fe) == 0 {
 		return nil
 	}
-	return newProblem(kindInvalid, "the description holds control characters", FieldProblem{Field: fe[0].Field, Message: fe[0].Message})
+	fps := make([]FieldProblem, len(fe))
+	for i, e := range fe {
+		fps[i] = FieldProblem{Field: e.Field, Message: e.Message}
+	}
+	return newProblem(kindInvalid, "free text holds control characters", fps...)
 }
 
 // decodeBody is the one body decoder: it decodes a body that has passed

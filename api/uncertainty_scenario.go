@@ -80,22 +80,29 @@ func scenarioTree(body map[string]any) (map[string]any, *Problem) {
 // (400 for wrong types, 413 for arrays over their limits, 422 otherwise)
 // and decodes it.
 func (s *server) decodeScenarioTree(tree map[string]any) (plume.Scenario, *Problem) {
+	sb, p := s.decodeScenarioBodyTree(tree)
+	return sb.Scenario, p
+}
+
+// decodeScenarioBodyTree is decodeScenarioTree keeping the free text of
+// the body (description, memo, sources of values).
+func (s *server) decodeScenarioBodyTree(tree map[string]any) (scenarioBody, *Problem) {
 	schema := s.spec.Doc.Components.Schemas["Scenario"]
 	if schema == nil || schema.Value == nil {
-		return plume.Scenario{}, newProblem(kindInternal, "the Scenario schema is missing from the OpenAPI document")
+		return scenarioBody{}, newProblem(kindInternal, "the Scenario schema is missing from the OpenAPI document")
 	}
 	if err := schema.Value.VisitJSON(tree, openapi3.MultiErrors()); err != nil {
-		return plume.Scenario{}, problemFromValidation(err).under("scenario")
+		return scenarioBody{}, problemFromValidation(err).under("scenario")
 	}
 	b, err := json.Marshal(tree)
 	if err != nil {
-		return plume.Scenario{}, newProblem(kindMalformed, "the scenario could not be read: "+err.Error())
+		return scenarioBody{}, newProblem(kindMalformed, "the scenario could not be read: "+err.Error())
 	}
-	sc, p := decodeScenario(b)
+	sb, p := decodeScenarioBody(b)
 	if p != nil {
-		return sc, p.under("scenario")
+		return sb, p.under("scenario")
 	}
-	return sc, nil
+	return sb, nil
 }
 
 // under prefixes every field of p with prefix (a JSON path).

@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/paulmach/orb"
+	"gonum.org/v1/plot"
 )
 
 // sampleFigures builds one figure of each kind from small invented data.
@@ -50,12 +51,19 @@ func sampleFigures(t *testing.T) map[string]*Figure {
 			{Level: 0.05, Geometry: orb.MultiPolygon{{circle(20, true)}}},
 			{Level: 0.5},
 		},
-		SourceFace: [2]orb.Point{{60, 45}, {60, 55}}, SourceZone: orb.Ring{{60, 45}, {60, 55}, {50, 55}, {50, 45}, {60, 45}},
+		Sources:   []SourceShape{{Face: [2]orb.Point{{60, 45}, {60, 55}}, Zone: orb.Ring{{60, 45}, {60, 55}, {50, 55}, {50, 45}, {60, 45}}}},
 		Receptors: []Mark{{Label: "MW-1", X: 120, Y: 52}}, XMin: 0, XMax: 200, YMin: 0, YMax: 100, FlowAzimuthDeg: 90})
 	if err != nil {
 		t.Fatal(err)
 	}
-	return map[string]*Figure{"breakthrough": bt, "profile": pr, "map": mp}
+	sec, err := SectionFigure(Section{Title: "test section", LengthUnit: "m", ConcUnit: "mg/L",
+		Outlines: []Outline{{Level: 0.005, Geometry: orb.MultiPolygon{{orb.Ring{{0, 0}, {300, 0}, {200, 8}, {0, 5}, {0, 0}}}}}},
+		XMin:     -10, XMax: 400, DepthMax: 12, SourceDepth: 3,
+		Receptors: []Mark{{Label: "W-4", X: 210, Y: 2, Bottom: 8, Status: MarkExceeds}, {Label: "MW-1", X: 40, Y: 1}}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return map[string]*Figure{"breakthrough": bt, "profile": pr, "map": mp, "section": sec}
 }
 
 // xmlWellFormed reads every token of doc with encoding/xml.
@@ -108,24 +116,53 @@ func TestFiguresRender(t *testing.T) {
 	}
 }
 
-// Round ticks: 1, 2 or 5 times a power of ten; decade ticks label powers of ten.
+// Round ticks: 1, 2 or 5 times a power of ten; decade ticks label powers
+// of ten with the one number formatter.
 func TestTicks(t *testing.T) {
-	var labels []string
-	for _, tk := range (roundTicks{}).Ticks(1203.7, 1796.2) {
-		if tk.Label != "" {
-			labels = append(labels, tk.Label)
+	for _, c := range []struct {
+		lo, hi float64
+		want   string
+		ticks  interface {
+			Ticks(lo, hi float64) []plot.Tick
+		}
+	}{
+		{1203.7, 1796.2, "1300 1400 1500 1600 1700", roundTicks{}},
+		// A step of 0.2 whose multiples are not exact in binary: no 0.6000000000000001.
+		{0, 1.3, "0 0.2 0.4 0.6 0.8 1 1.2", roundTicks{}},
+		// Around zero: no "-0".
+		{-0.35, 0.35, "-0.3 -0.2 -0.1 0 0.1 0.2 0.3", roundTicks{}},
+		{-1e-17, 0.0031, "0 0.0005 0.001 0.0015 0.002 0.0025 0.003", roundTicks{}},
+		{math.Log10(0.0005), math.Log10(24), "0.001 0.01 0.1 1 10", decadeTicks{}},
+		{-9.2, -1.5, "1e-09 1e-08 1e-07 1e-06 1e-05 0.0001 0.001 0.01", decadeTicks{}},
+		// Depths: minus the axis value, nothing above the water table.
+		{-12, 1, "12 10 8 6 4 2 0", depthTicks{}},
+	} {
+		var labels []string
+		for _, tk := range c.ticks.Ticks(c.lo, c.hi) {
+			if tk.Label != "" {
+				labels = append(labels, tk.Label)
+			}
+		}
+		if got := strings.Join(labels, " "); got != c.want {
+			t.Errorf("%T [%g, %g]: %q, want %q", c.ticks, c.lo, c.hi, got, c.want)
 		}
 	}
-	if strings.Join(labels, " ") != "1300 1400 1500 1600 1700" {
-		t.Errorf("round ticks %v", labels)
-	}
-	labels = labels[:0]
-	for _, tk := range (decadeTicks{}).Ticks(math.Log10(0.0005), math.Log10(24)) {
-		if tk.Label != "" {
-			labels = append(labels, tk.Label)
+}
+
+// FormatNumber: four significant digits, no float noise, no "-0",
+// exponent form outside 1e-4..1e6.
+func TestFormatNumber(t *testing.T) {
+	for _, c := range []struct {
+		v    float64
+		want string
+	}{
+		{0, "0"}, {math.Copysign(0, -1), "0"}, {0.1 + 0.2, "0.3"}, {3 * 0.2, "0.6"}, {0.005, "0.005"},
+		{12, "12"}, {1115.951976297463, "1116"}, {0.12880404430872613, "0.1288"}, {56.2749, "56.27"},
+		{123456.7, "123500"}, {2.5e-7, "2.5e-07"}, {1.23456e7, "1.235e+07"}, {-4.2e-5, "-4.2e-05"},
+		{-0.00001, "-1e-05"}, {math.Inf(1), "–"}, {math.NaN(), "–"},
+	} {
+		if got := FormatNumber(c.v); got != c.want {
+			t.Errorf("FormatNumber(%v) = %q, want %q", c.v, got, c.want)
 		}
-	}
-	if strings.Join(labels, " ") != "0.001 0.01 0.1 1 10" {
-		t.Errorf("decade ticks %v", labels)
 	}
 }

@@ -13,12 +13,12 @@ import (
 	"fmt"
 	"image/color"
 	"math"
-	"strconv"
 	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/text"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
@@ -41,17 +41,48 @@ const (
 var (
 	DefaultWidth  = 7.2 * vg.Inch
 	DefaultHeight = 4.2 * vg.Inch
+	// CompactWidth and CompactHeight are the size of a figure with its
+	// legend below, two of which sit side by side on a printed page.
+	CompactWidth  = 3.6 * vg.Inch
+	CompactHeight = 3.1 * vg.Inch
 )
 
-// Figure is a plot with its legend drawn in a column to its right.
+// Figure is a plot with its legend drawn in a column to its right, or
+// (LegendBelow) in two columns under it.
 type Figure struct {
 	Plot   *plot.Plot
 	Legend plot.Legend
 	// EqualScale keeps one data unit the same length along both axes (maps).
 	EqualScale bool
+	// LegendBelow puts the legend under the plot in two columns, for a
+	// figure printed at half the page width.
+	LegendBelow bool
 	// Overlays are drawn over the data area after the plot (north arrow,
-	// scale bar), with the plot's data transforms.
+	// scale bar, labels), with the plot's data transforms.
 	Overlays []func(c draw.Canvas, x, y func(float64) vg.Length)
+	// entries are the legend's entries, kept to lay them out in columns.
+	entries []legendEntry
+	// legendSplit is the number of entries in the first column of a
+	// legend below the plot; 0 for half of them (the first column the longer).
+	legendSplit int
+	// grow lets the figure grow taller with its legend, whose entries are
+	// then wrapped to the legend's room in either layout (a breakthrough
+	// figure of several compounds); otherwise the size is fixed.
+	grow bool
+	// fitTitle sets a title wider than the plot in smaller type (fitTitle).
+	fitTitle bool
+}
+
+// legendEntry is one line of the legend.
+type legendEntry struct {
+	text   string
+	thumbs []plot.Thumbnailer
+}
+
+// addLegend adds an entry to the legend.
+func (f *Figure) addLegend(text string, thumbs ...plot.Thumbnailer) {
+	f.Legend.Add(text, thumbs...)
+	f.entries = append(f.entries, legendEntry{text, thumbs})
 }
 
 // newFigure returns a plot and legend in the house style.
@@ -78,11 +109,37 @@ func newFigure(title, xlabel, ylabel string) *Figure {
 	return &Figure{Plot: p, Legend: lg}
 }
 
-// Size is the figure's size for a width w: DefaultHeight, or for a figure
-// at one scale on both axes the height that fits its data ranges (between
-// 3 and 8 inches).
+// compact sets smaller type and the legend below, for a figure printed at
+// half the page width (CompactWidth).
+func compact(f *Figure) {
+	f.LegendBelow = true
+	p := f.Plot
+	p.Title.TextStyle.Font.Size = vg.Points(10.5)
+	p.Title.Padding = vg.Points(4)
+	for _, ax := range []*plot.Axis{&p.X, &p.Y} {
+		ax.Label.TextStyle.Font.Size = vg.Points(8.5)
+		ax.Tick.Label.Font.Size = vg.Points(8)
+	}
+	f.Legend.TextStyle.Font.Size = vg.Points(8)
+	f.Legend.ThumbnailWidth = vg.Points(16)
+	f.Legend.Padding = vg.Points(2.5)
+}
+
+// Size is the figure's size for a width w: DefaultHeight (less for a
+// legend below a narrow plot: CompactHeight), or for a figure at one scale
+// on both axes the height that fits its data ranges (between 3 and 8 inches).
 func (f *Figure) Size(w vg.Length) (vg.Length, vg.Length) {
-	if !f.EqualScale {
+	switch {
+	case f.LegendBelow && f.grow:
+		_, h := f.belowLegends(w)
+		return w, max(CompactHeight, h+compactPlotHeight)
+	case f.LegendBelow:
+		return w, CompactHeight
+	case f.grow:
+		lg := f.rightLegend(w)
+		r := lg.Rectangle(draw.Canvas{})
+		return w, max(DefaultHeight, r.Max.Y-r.Min.Y+legendTop+vg.Points(12))
+	case !f.EqualScale:
 		return w, DefaultHeight
 	}
 	p := f.Plot
@@ -94,56 +151,6 @@ func (f *Figure) Size(w vg.Length) (vg.Length, vg.Length) {
 	dw := float64(w) - 2.3*float64(vg.Inch) - 60
 	h := vg.Length(dw*yr/xr + 75)
 	return w, vg.Length(math.Min(math.Max(float64(h), float64(3*vg.Inch)), float64(8*vg.Inch)))
-}
-
-// roundTicks places major ticks at 1, 2 or 5 times a power of ten, about
-// six across the range, labelled without trailing zeros.
-type roundTicks struct{}
-
-func (roundTicks) Ticks(lo, hi float64) []plot.Tick {
-	if !(hi > lo) {
-		return nil
-	}
-	step := math.Pow(10, math.Floor(math.Log10((hi-lo)/6)))
-	for _, k := range []float64{1, 2, 5, 10} {
-		if (hi-lo)/(k*step) <= 7 {
-			step *= k
-			break
-		}
-	}
-	var ts []plot.Tick
-	for v := math.Ceil(lo/step) * step; v <= hi+step*1e-9; v += step {
-		ts = append(ts, plot.Tick{Value: v, Label: strconv.FormatFloat(math.Round(v/step)*step, 'f', -1, 64)})
-		for m := 1; m < 5; m++ {
-			if mv := v + float64(m)*step/5; mv <= hi {
-				ts = append(ts, plot.Tick{Value: mv})
-			}
-		}
-	}
-	return ts
-}
-
-// decadeTicks is the tick marker of an axis holding log10 of a value: the
-// powers of ten within the range are labelled as plain numbers (0.001, 1,
-// 100), with minor ticks at 2 to 9 times each power.
-type decadeTicks struct{}
-
-func (decadeTicks) Ticks(lo, hi float64) []plot.Tick {
-	if !(hi > lo) || math.IsInf(lo, 0) || math.IsInf(hi, 0) {
-		return nil
-	}
-	var ts []plot.Tick
-	for e := math.Floor(lo); e <= math.Ceil(hi); e++ {
-		if e >= lo && e <= hi {
-			ts = append(ts, plot.Tick{Value: e, Label: strconv.FormatFloat(math.Pow(10, e), 'f', -1, 64)})
-		}
-		for k := 2.0; k <= 9; k++ {
-			if v := e + math.Log10(k); v >= lo && v <= hi {
-				ts = append(ts, plot.Tick{Value: v})
-			}
-		}
-	}
-	return ts
 }
 
 // Render draws f at the given size as SVG or PNG (150 dpi).
@@ -167,11 +174,39 @@ func Render(f *Figure, w, h vg.Length, format string) ([]byte, error) {
 	return buf.Bytes(), nil
 }
 
-// legendWidth is the width of the legend column for f's entries.
-func (f *Figure) legendWidth(c draw.Canvas) vg.Length {
-	r := f.Legend.Rectangle(c)
+// compactPlotHeight is the least height of the plot above a legend below
+// it when the figure grows with its legend: about that of a compact
+// figure of one compound.
+const compactPlotHeight = 2.5 * vg.Inch
+
+// legendTop is the space above the legend column right of the plot.
+const legendTop = vg.Length(34)
+
+// legendShare is the largest share of the figure's width the legend column
+// right of the plot takes.
+const legendShare = 0.38
+
+// legendWidth is the width of the legend column for the legend lg.
+func legendWidth(lg plot.Legend, c draw.Canvas) vg.Length {
+	r := lg.Rectangle(c)
 	w := r.Max.X - r.Min.X
-	return vg.Length(math.Min(float64(w+vg.Points(16)), float64(c.Max.X-c.Min.X)*0.38))
+	return vg.Length(math.Min(float64(w+vg.Points(16)), float64(c.Max.X-c.Min.X)*legendShare))
+}
+
+// rightLegend is the legend drawn right of the plot in a figure of width
+// w: f.Legend, or for a figure that grows with its legend the same
+// entries wrapped to the column's room.
+func (f *Figure) rightLegend(w vg.Length) plot.Legend {
+	if !f.grow {
+		return f.Legend
+	}
+	lg := newLegendLike(f.Legend)
+	lg.Top, lg.Left = f.Legend.Top, f.Legend.Left
+	room := vg.Length(float64(w)*legendShare) - f.Legend.ThumbnailWidth - vg.Points(22)
+	for _, e := range f.entries {
+		lg.Add(wrapText(e.text, f.Legend.TextStyle, room), e.thumbs...)
+	}
+	return lg
 }
 
 func (f *Figure) draw(c draw.Canvas) (err error) {
@@ -182,14 +217,14 @@ func (f *Figure) draw(c draw.Canvas) (err error) {
 	}()
 	c.SetColor(color.White)
 	c.Fill(c.Rectangle.Path())
-	lw := f.legendWidth(c)
-	plotArea := draw.Crop(c, 0, -lw, 0, 0)
-	legendArea := draw.Crop(c, c.Max.X-c.Min.X-lw+vg.Points(8), 0, 0, -vg.Points(34))
+	plotArea := f.drawLegend(c)
+	if f.fitTitle {
+		fitTitle(f.Plot, plotArea)
+	}
 	if f.EqualScale {
 		equalise(f.Plot, plotArea)
 	}
 	f.Plot.Draw(plotArea)
-	f.Legend.Draw(legendArea)
 	if len(f.Overlays) > 0 {
 		dc := f.Plot.DataCanvas(plotArea)
 		x, y := f.Plot.Transforms(&dc)
@@ -198,6 +233,94 @@ func (f *Figure) draw(c draw.Canvas) (err error) {
 		}
 	}
 	return nil
+}
+
+// fitTitle sets a title wider than the plot area c in smaller type, down
+// to minTitleSize, and breaks it into lines only if it is still too wide,
+// instead of letting it run off the figure.
+func fitTitle(p *plot.Plot, c draw.Canvas) {
+	t := &p.Title
+	room := c.Max.X - c.Min.X - vg.Points(12)
+	w := t.TextStyle.Width(t.Text)
+	if t.Text == "" || room <= 0 || w <= room {
+		return
+	}
+	t.TextStyle.Font.Size = max(minTitleSize, t.TextStyle.Font.Size*room/w)
+	if t.TextStyle.Width(t.Text) > room {
+		t.Text = wrapText(t.Text, t.TextStyle, room)
+	}
+}
+
+// minTitleSize is the smallest type fitTitle sets a title in.
+const minTitleSize = vg.Length(9)
+
+// drawLegend draws the legend in its column (or under the plot) and
+// returns the area left for the plot.
+func (f *Figure) drawLegend(c draw.Canvas) draw.Canvas {
+	w := c.Max.X - c.Min.X
+	if !f.LegendBelow {
+		lg := f.rightLegend(w)
+		lw := legendWidth(lg, c)
+		lg.Draw(draw.Crop(c, c.Max.X-c.Min.X-lw+vg.Points(8), 0, 0, -legendTop))
+		return draw.Crop(c, 0, -lw, 0, 0)
+	}
+	cols, h := f.belowLegends(w)
+	for k := range cols {
+		area := draw.Crop(c, vg.Points(6)+vg.Length(k)*w/2, -w/2*vg.Length(1-k), 0, 0)
+		area.Max.Y = c.Min.Y + h
+		cols[k].Draw(area)
+	}
+	return draw.Crop(c, 0, 0, h, 0)
+}
+
+// belowLegends are the two columns of a legend below a plot of width w,
+// filled left first (legendSplit entries, or half of them, in the first),
+// each entry wrapped to its column, and the height they take.
+func (f *Figure) belowLegends(w vg.Length) ([2]plot.Legend, vg.Length) {
+	half := (len(f.entries) + 1) / 2
+	if f.legendSplit > 0 {
+		half = f.legendSplit
+	}
+	cols := [2]plot.Legend{f.Legend, f.Legend}
+	for k := range cols {
+		cols[k] = newLegendLike(f.Legend)
+	}
+	room := w/2 - f.Legend.ThumbnailWidth - vg.Points(14)
+	for i, e := range f.entries {
+		cols[min(i/max(half, 1), 1)].Add(wrapText(e.text, f.Legend.TextStyle, room), e.thumbs...)
+	}
+	var c draw.Canvas // a legend's size does not depend on where it is drawn
+	h := vg.Length(math.Max(float64(cols[0].Rectangle(c).Size().Y), float64(cols[1].Rectangle(c).Size().Y))) + vg.Points(8)
+	return cols, h
+}
+
+// wrapText breaks txt into lines no wider than w in style st, at spaces.
+func wrapText(txt string, st text.Style, w vg.Length) string {
+	if st.Width(txt) <= w {
+		return txt
+	}
+	var lines []string
+	line := ""
+	for _, word := range strings.Fields(txt) {
+		if line != "" && st.Width(line+" "+word) > w {
+			lines = append(lines, line)
+			line = word
+			continue
+		}
+		if line != "" {
+			line += " "
+		}
+		line += word
+	}
+	return strings.Join(append(lines, line), "\n")
+}
+
+// newLegendLike is an empty legend in the style of lg.
+func newLegendLike(lg plot.Legend) plot.Legend {
+	out := plot.NewLegend()
+	out.TextStyle, out.Padding, out.Top, out.Left = lg.TextStyle, lg.Padding, true, true
+	out.ThumbnailWidth, out.YPosition = lg.ThumbnailWidth, lg.YPosition
+	return out
 }
 
 // equalise widens one axis range so that a data unit has the same length

@@ -77,3 +77,49 @@ func levelFill(k, n int) (fill, edge color.Color) {
 	_ = n
 	return fills[k], edges[k]
 }
+
+// compoundInks are the line colours of the compounds of a breakthrough
+// figure of several, in the order the figure names them (repeating after
+// eight, with another dash pattern).
+var compoundInks = []color.RGBA{
+	{0x0f, 0x6e, 0x74, 0xff}, // deep teal
+	{0xc9, 0x7b, 0x12, 0xff}, // ochre
+	{0x6b, 0x3f, 0x8f, 0xff}, // plum
+	{0xa8, 0x43, 0x2b, 0xff}, // rust
+	{0x2f, 0x5d, 0x9e, 0xff}, // slate blue
+	{0x6b, 0x7a, 0x1e, 0xff}, // olive
+	{0xb0, 0x50, 0x7e, 0xff}, // rose
+	{0x3d, 0x42, 0x47, 0xff}, // graphite
+}
+
+// compoundDashes are the dash patterns of the compounds' curves: solid,
+// dashed, dotted, long-dashed, short-dashed (never the dash-dot of a level).
+var compoundDashes = [][]vg.Length{
+	nil,
+	{vg.Points(6), vg.Points(3)},
+	{vg.Points(1.5), vg.Points(2.5)},
+	{vg.Points(12), vg.Points(3)},
+	{vg.Points(3), vg.Points(1.5)},
+}
+
+// compoundStyle is the line of compound k of a figure of several: its
+// colour, and a dash pattern that differs from its neighbours' so that
+// the curves stay apart in greyscale print.
+func compoundStyle(k int) draw.LineStyle {
+	return draw.LineStyle{Color: compoundInks[k%len(compoundInks)], Width: vg.Points(2),
+		Dashes: compoundDashes[(k+k/len(compoundInks))%len(compoundDashes)]}
+}
+
+// compoundLevelStyle is the screening-level line of compound k: the
+// level's dash-dot in the compound's colour. Where n levels coincide
+// (j-th of them), each draws every n-th dash, so that the line
+// alternates between their colours instead of the last hiding the others.
+func compoundLevelStyle(k, j, n int) draw.LineStyle {
+	ls := draw.LineStyle{Color: compoundInks[k%len(compoundInks)], Width: vg.Points(1.4), Dashes: levelStyle().Dashes}
+	if n > 1 {
+		d := vg.Points(6)
+		ls.Dashes = []vg.Length{d, vg.Length(n-1) * d}
+		ls.DashOffs = vg.Length(j) * d
+	}
+	return ls
+}

@@ -103,7 +103,7 @@ func (m *model) chainCaveats(res *Result, run methods, fm fmtr) {
 	if !m.hasLinks() {
 		return
 	}
-	if run.domenico {
+	if run.domenico && m.chain.EqualRetardation() {
 		res.caveat(CaveatChainMethods, SeverityNote, "",
 			"The Domenico values of the compounds formed by decay apply the chain's decoupling (Sun, Petersen & Clement 1999) to the Domenico approximation: an approximation of an approximation, flagged as such; the exact values are the reference.")
 	}

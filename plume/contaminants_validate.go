@@ -34,7 +34,7 @@ func validateContaminants(fe *FieldErrors, sc Scenario) {
 		} else {
 			names[compoundKey(k.Name)] = i
 		}
-		validateOneContaminant(fe, sc.Aquifer, at, k.contaminant())
+		validateOneContaminant(fe, sc.Aquifer, elemPath{"contaminants", i}, k.contaminant())
 		switch {
 		case k.SourceConcentration == nil:
 			fe.Add(at+".source_concentration", "required: the compound's concentration at the source, C (0 for a daughter formed only by decay)")

@@ -26,6 +26,11 @@ func (md *Model) checkFinite() error {
 		given, canon *float64
 	}
 	fields := []timeField{{"contaminant.half_life", md.sc.Contaminant.HalfLife, c.Contaminant.HalfLife}}
+	for i, k := range md.sc.Contaminants {
+		if i < len(c.Contaminants) {
+			fields = append(fields, timeField{fmt.Sprintf("contaminants[%d].half_life", i), k.HalfLife, c.Contaminants[i].HalfLife})
+		}
+	}
 	sources, canonSources, prefix := []Source{md.sc.Source}, []Source{c.Source}, func(int) string { return "source" }
 	if len(md.sc.Sources) > 0 {
 		sources, canonSources, prefix = md.sc.Sources, c.Sources, func(i int) string { return fmt.Sprintf("sources[%d]", i) }
@@ -75,6 +80,18 @@ func (md *Model) checkDerived(fe *FieldErrors) {
 	}
 	if !Finite(m.lambda) || !Finite(m.mu) {
 		fe.Add("contaminant.half_life", fmt.Sprintf(why, "decay rate ln 2 / half-life", m.lambda))
+	}
+	for i, cp := range m.compounds {
+		if !Finite(cp.r) {
+			path := fmt.Sprintf("contaminants[%d].koc", i)
+			if i < len(md.sc.Contaminants) && md.sc.Contaminants[i].Retardation != nil {
+				path = fmt.Sprintf("contaminants[%d].retardation", i)
+			}
+			fe.Add(path, fmt.Sprintf(why, "retardation factor", cp.r))
+		}
+		if !Finite(cp.lambda) || !Finite(cp.mu) {
+			fe.Add(fmt.Sprintf("contaminants[%d].half_life", i), fmt.Sprintf(why, "decay rate ln 2 / half-life", cp.lambda))
+		}
 	}
 	for i := range m.sourceCount() {
 		if d := m.source(i).depletion; !Finite(d) {

@@ -104,15 +104,18 @@ func chainClosure(b numeric.SpeciesBudget) float64 {
 	return math.Abs(b.In+b.Produced-b.Outflow-b.Decayed-b.Stored) / in
 }
 
-// attachNumericCompounds stores the chain's numeric values and, for each
-// compound without a closed form, its peak and verdict from them (over the
+// attachNumericCompounds stores the chain's numeric values, compares them
+// with the exact values where a closed form gives the compound, and, for
+// each compound without one, sets its peak and verdict from them (over the
 // requested times only; a caveat says so).
-func (m *model) attachNumericCompounds(res *Result, values [][][]float64, pts []Point, sp screenPlan) {
+func (m *model) attachNumericCompounds(res *Result, values [][][]float64, pts []Point, sp screenPlan, tol float64) {
 	for r := range res.Receptors {
 		rr := &res.Receptors[r]
 		for c := range rr.Compounds {
 			cr := &rr.Compounds[c]
 			best, bestJ := 0.0, -1
+			worst, worstJ := 0.0, -1
+			floor := m.compoundFloor(c)
 			for j := range cr.Series {
 				v := values[c][r][j]
 				if math.IsNaN(v) {
@@ -122,6 +125,17 @@ func (m *model) attachNumericCompounds(res *Result, values [][][]float64, pts []
 				if v > best || bestJ < 0 {
 					best, bestJ = v, j
 				}
+				if e := cr.Series[j].Exact; e != nil && math.Max(*e, v) >= floor {
+					if d := math.Abs(v-*e) / math.Max(*e, floor); d > worst {
+						worst, worstJ = d, j
+					}
+				}
+			}
+			if worstJ >= 0 && worst > tol {
+				res.caveat(CaveatNumericDisagreement, SeverityCaution, rr.ID,
+					"The numeric cross-check of %s differs from the exact solution by %.3g %% at time %g (tolerance %.3g %%); the grid may be too coarse here.",
+					cr.Name, 100*worst, sp.reqTimes[worstJ], 100*tol)
+				res.Caveats[len(res.Caveats)-1].Compound = cr.Name
 			}
 			if cr.Peak != nil || bestJ < 0 {
 				continue
@@ -141,4 +155,14 @@ func (m *model) attachNumericCompounds(res *Result, values [][][]float64, pts []
 		}
 		rr.ExceedsScreeningLevel = aggregateExceeds(rr.Compounds)
 	}
+}
+
+// compoundFloor is the concentration, mg/L, below which differences
+// between methods are not counted for compound c (see comparisonFloor).
+func (m *model) compoundFloor(c int) float64 {
+	cp := &m.compounds[c]
+	if cp.screening != nil {
+		return ComparisonLevelFraction * *cp.screening
+	}
+	return math.Max(ComparisonSourceFraction*m.c0, 1e-12)
 }

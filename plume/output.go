@@ -3,94 +3,14 @@ package plume
 import "math"
 
 // fromCanonical converts a result computed in m, d, mg/L into the request's
-// units (factors f: request unit -> canonical).
+// units (factors f: request unit -> canonical). Values the result owns
+// (the series, steady states, peaks) are converted in place.
 func (r *Result) fromCanonical(f unitFactors) {
-	L, T, C := f.L, f.T, f.C
-	d := &r.Derived
-	d.SeepageVelocity /= L / T
-	d.HalfLife = scaled(d.HalfLife, 1/T)
-	d.DecayRate *= T
-	d.EffectiveDecayRate *= T
-	if v := d.Dispersivity; v != nil {
-		d.Dispersivity = &DispersivityValues{v.Longitudinal / L, v.Transverse / L, v.Vertical / L}
-	}
-	k := L * L / T
-	if v := d.Dispersion; v != nil {
-		d.Dispersion = &DispersionValues{v.Longitudinal / k, v.Transverse / k, v.Vertical / k}
-	}
-	d.ConcentrationFloor /= C
-	d.TravelDistance = scaled(d.TravelDistance, 1/L)
-	d.ScreeningLevel = scaled(d.ScreeningLevel, 1/C)
-	d.Solubility = scaled(d.Solubility, 1/C)
-
-	conc := func(p *float64) *float64 { return scaled(p, 1/C) }
+	r.Derived.fromCanonical(f)
 	for i := range r.Receptors {
-		rr := &r.Receptors[i]
-		rr.PlumeX /= L
-		rr.PlumeY /= L
-		rr.Z /= L
-		rr.ScreenTop = scaled(rr.ScreenTop, 1/L)
-		rr.ScreenBottom = scaled(rr.ScreenBottom, 1/L)
-		if v := rr.Dispersivity; v != nil {
-			rr.Dispersivity = &ReceptorDispersivity{v.Longitudinal / L, v.Transverse / L, v.Vertical / L, v.TravelDistance / L}
-		}
-		for j := range rr.Series {
-			sp := &rr.Series[j]
-			sp.Exact, sp.Domenico, sp.Numeric = conc(sp.Exact), conc(sp.Domenico), conc(sp.Numeric)
-			// sp.Time is the request's own value, echoed unconverted.
-		}
-		ss := &rr.SteadyState
-		ss.Exact, ss.Domenico, ss.Numeric = conc(ss.Exact), conc(ss.Domenico), conc(ss.Numeric)
-		rr.Peak.Time = scaled(rr.Peak.Time, 1/T)
-		rr.Peak.Concentration /= C
-		rr.FirstExceedanceTime = scaled(rr.FirstExceedanceTime, 1/T)
-		if a := rr.NumericAgreement; a != nil {
-			a.Floor /= C
-			// a.Time is a requested time, already in the request's unit.
-		}
-		if a := rr.AllowableSourceConcentration; a != nil {
-			a.SteadyState, a.WithinTimes = conc(a.SteadyState), conc(a.WithinTimes)
-		}
-		for k := range rr.Contributions {
-			cb := &rr.Contributions[k]
-			for j := range cb.Series {
-				sp := &cb.Series[j]
-				sp.Exact, sp.Domenico = conc(sp.Exact), conc(sp.Domenico)
-			}
-			cb.SteadyState.Exact, cb.SteadyState.Domenico = conc(cb.SteadyState.Exact), conc(cb.SteadyState.Domenico)
-		}
-		for k := range rr.Compounds {
-			cr := &rr.Compounds[k]
-			for j := range cr.Series {
-				sp := &cr.Series[j]
-				sp.Exact, sp.Domenico, sp.Numeric = conc(sp.Exact), conc(sp.Domenico), conc(sp.Numeric)
-			}
-			ss := &cr.SteadyState
-			ss.Exact, ss.Domenico, ss.Numeric = conc(ss.Exact), conc(ss.Domenico), conc(ss.Numeric)
-			if cr.Peak != nil {
-				cr.Peak.Time = scaled(cr.Peak.Time, 1/T)
-				cr.Peak.Concentration /= C
-			}
-			cr.FirstExceedanceTime = scaled(cr.FirstExceedanceTime, 1/T)
-			cr.ScreeningLevel = conc(cr.ScreeningLevel)
-		}
+		r.Receptors[i].fromCanonical(f)
 	}
-	for i := range d.Sources {
-		sd := &d.Sources[i]
-		sd.MassDischarge = scaled(sd.MassDischarge, 1/f.M)
-		sd.DepletionRate = scaled(sd.DepletionRate, T)
-		sd.TimeBelowScreeningLevel = scaled(sd.TimeBelowScreeningLevel, 1/T)
-		sd.TimeMassExhausted = scaled(sd.TimeMassExhausted, 1/T)
-	}
-	for i := range d.Compounds {
-		cd := &d.Compounds[i]
-		cd.SourceConcentration /= C
-		cd.HalfLife = scaled(cd.HalfLife, 1/T)
-		cd.DecayRate *= T
-		cd.EffectiveDecayRate *= T
-		cd.ScreeningLevel = scaled(cd.ScreeningLevel, 1/C)
-		cd.Solubility = scaled(cd.Solubility, 1/C)
-	}
+	L, T, C := f.L, f.T, f.C
 	for i := range r.Transects {
 		tr := &r.Transects[i]
 		tr.Length /= L
@@ -117,6 +37,104 @@ func (r *Result) fromCanonical(f unitFactors) {
 		n.YHalf /= L
 		n.ZMax /= L
 	}
+}
+
+// scaleOwned multiplies the value p points to by k in place (nil: nothing),
+// for values a result owns.
+func scaleOwned(p *float64, k float64) {
+	if p != nil {
+		*p *= k
+	}
+}
+
+// fromCanonical converts the derived parameters (see Result.fromCanonical).
+func (d *Derived) fromCanonical(f unitFactors) {
+	L, T, C := f.L, f.T, f.C
+	d.SeepageVelocity /= L / T
+	d.HalfLife = scaled(d.HalfLife, 1/T)
+	d.DecayRate *= T
+	d.EffectiveDecayRate *= T
+	if v := d.Dispersivity; v != nil {
+		d.Dispersivity = &DispersivityValues{v.Longitudinal / L, v.Transverse / L, v.Vertical / L}
+	}
+	k := L * L / T
+	if v := d.Dispersion; v != nil {
+		d.Dispersion = &DispersionValues{v.Longitudinal / k, v.Transverse / k, v.Vertical / k}
+	}
+	d.ConcentrationFloor /= C
+	d.TravelDistance = scaled(d.TravelDistance, 1/L)
+	d.ScreeningLevel = scaled(d.ScreeningLevel, 1/C)
+	d.Solubility = scaled(d.Solubility, 1/C)
+	for i := range d.Sources {
+		sd := &d.Sources[i]
+		sd.MassDischarge = scaled(sd.MassDischarge, 1/f.M)
+		sd.DepletionRate = scaled(sd.DepletionRate, T)
+		sd.TimeBelowScreeningLevel = scaled(sd.TimeBelowScreeningLevel, 1/T)
+		sd.TimeMassExhausted = scaled(sd.TimeMassExhausted, 1/T)
+	}
+	for i := range d.Compounds {
+		cd := &d.Compounds[i]
+		cd.SourceConcentration /= C
+		cd.HalfLife = scaled(cd.HalfLife, 1/T)
+		cd.DecayRate *= T
+		cd.EffectiveDecayRate *= T
+		cd.ScreeningLevel = scaled(cd.ScreeningLevel, 1/C)
+		cd.Solubility = scaled(cd.Solubility, 1/C)
+	}
+}
+
+// fromCanonical converts one receptor's values (see Result.fromCanonical).
+func (rr *ReceptorResult) fromCanonical(f unitFactors) {
+	L, T, C := f.L, f.T, f.C
+	conc := func(p *float64) { scaleOwned(p, 1/C) }
+	rr.PlumeX /= L
+	rr.PlumeY /= L
+	rr.Z /= L
+	rr.ScreenTop = scaled(rr.ScreenTop, 1/L)
+	rr.ScreenBottom = scaled(rr.ScreenBottom, 1/L)
+	if v := rr.Dispersivity; v != nil {
+		rr.Dispersivity = &ReceptorDispersivity{v.Longitudinal / L, v.Transverse / L, v.Vertical / L, v.TravelDistance / L}
+	}
+	convertValues(rr.Series, &rr.SteadyState, 1/C)
+	scaleOwned(rr.Peak.Time, 1/T)
+	rr.Peak.Concentration /= C
+	scaleOwned(rr.FirstExceedanceTime, 1/T)
+	if a := rr.NumericAgreement; a != nil {
+		a.Floor /= C
+		// a.Time is a requested time, already in the request's unit.
+	}
+	if a := rr.AllowableSourceConcentration; a != nil {
+		conc(a.SteadyState)
+		conc(a.WithinTimes)
+	}
+	for k := range rr.Contributions {
+		cb := &rr.Contributions[k]
+		convertValues(cb.Series, &cb.SteadyState, 1/C)
+	}
+	for k := range rr.Compounds {
+		cr := &rr.Compounds[k]
+		convertValues(cr.Series, &cr.SteadyState, 1/C)
+		if cr.Peak != nil {
+			scaleOwned(cr.Peak.Time, 1/T)
+			cr.Peak.Concentration /= C
+		}
+		scaleOwned(cr.FirstExceedanceTime, 1/T)
+		cr.ScreeningLevel = scaled(cr.ScreeningLevel, 1/C)
+	}
+}
+
+// convertValues scales a series' values and a steady state in place by k
+// (the series times echo the request's and are not converted).
+func convertValues(series []SeriesPoint, ss *MethodValues, k float64) {
+	for j := range series {
+		sp := &series[j]
+		scaleOwned(sp.Exact, k)
+		scaleOwned(sp.Domenico, k)
+		scaleOwned(sp.Numeric, k)
+	}
+	scaleOwned(ss.Exact, k)
+	scaleOwned(ss.Domenico, k)
+	scaleOwned(ss.Numeric, k)
 }
 
 // sanitize replaces any NaN or infinity left in r (none should be) by a

@@ -179,7 +179,7 @@ func (m *model) findPeak(f func(float64) float64, p Point, steady float64, extra
 // firstExceedance returns the earliest elapsed time, d, at which f reaches
 // level (mg/L), or ok == false when it never does. pk is the receptor's
 // peak; known holds values of f already computed (the requested times).
-func (m *model) firstExceedance(f func(float64) float64, p Point, pk peakResult, known timeline, level float64) (tau float64, ok bool) {
+func (m *model) firstExceedance(f func(float64) float64, exact bool, p Point, pk peakResult, known timeline, level float64) (tau float64, ok bool) {
 	if !(pk.c >= level) || p.upgradient() {
 		return 0, false
 	}
@@ -230,6 +230,9 @@ func (m *model) firstExceedance(f func(float64) float64, p Point, pk peakResult,
 			if flo >= 0 {
 				return lo, true
 			}
+		}
+		if rate, ok := m.exactRate(p); ok && exact {
+			return roots.NewtonBracketed(g, rate, lo, hi, flo, fhi, rel*hi, 200), true
 		}
 		return roots.Brent(g, lo, hi, flo, fhi, rel*hi, 200), true
 	}

@@ -212,6 +212,10 @@ func (m *model) receptorHeader(p Point, n int) ReceptorResult {
 // primary method's values there; ok is false when ctx ended first.
 func (m *model) receptorSeries(ctx context.Context, p Point, sp screenPlan, series []SeriesPoint, dev *deviation) (known timeline, ok bool) {
 	run := sp.run
+	// One block holds the receptor's values (one allocation, not one per
+	// value); each SeriesPoint points into it.
+	vals := make([]float64, 2*len(sp.taus))
+	known.tau, known.c = make([]float64, 0, len(sp.taus)), make([]float64, 0, len(sp.taus))
 	for j, tau := range sp.taus {
 		if ctx.Err() != nil {
 			return known, false
@@ -220,11 +224,13 @@ func (m *model) receptorSeries(ctx context.Context, p Point, sp screenPlan, seri
 		var e, d float64
 		if run.exact {
 			e = m.closedForm(true, p, tau)
-			pt.Exact = Ptr(e)
+			vals[2*j] = e
+			pt.Exact = &vals[2*j]
 		}
 		if run.domenico {
 			d = m.closedForm(false, p, tau)
-			pt.Domenico = Ptr(d)
+			vals[2*j+1] = d
+			pt.Domenico = &vals[2*j+1]
 		}
 		if run.exact && run.domenico {
 			dev.compare(e, d)
@@ -282,7 +288,7 @@ func (m *model) receptorPeak(ctx context.Context, p Point, sp screenPlan, rr *Re
 		// Compared: a modelled value (or, inside the source zone, the
 		// source's own concentration) against a known level.
 		rr.ExceedsScreeningLevel = new(pk.c >= *m.screening && pk.c > 0)
-		if tau, ok := m.firstExceedance(f, p, pk, known, *m.screening); ok {
+		if tau, ok := m.firstExceedance(f, sp.primaryExact, p, pk, known, *m.screening); ok {
 			rr.FirstExceedanceTime = Ptr(m.start + tau)
 		}
 	}
@@ -322,7 +328,7 @@ func (m *model) screenNumeric(ctx context.Context, res *Result, pts []Point, sp 
 			return nil
 		}
 		res.Numeric = rep
-		m.attachNumericCompounds(res, values, pts, sp)
+		m.attachNumericCompounds(res, values, pts, sp, opt.NumericTolerance)
 		return nil
 	}
 	nr, reason, err := m.runNumeric(ctx, pts, sp.taus, opt.CellBudget)

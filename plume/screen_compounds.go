@@ -137,7 +137,7 @@ func (m *model) screenCompound(ctx context.Context, p Point, sp screenPlan, cs c
 	}
 	if cp.screening != nil && !p.upgradient() {
 		cr.ExceedsScreeningLevel = new(pk.c >= *cp.screening && pk.c > 0)
-		if tau, ok := m.firstExceedance(f, p, pk, known, *cp.screening); ok {
+		if tau, ok := m.firstExceedance(f, exact, p, pk, known, *cp.screening); ok {
 			cr.FirstExceedanceTime = Ptr(m.start + tau)
 		}
 	}

@@ -13,6 +13,13 @@ import (
 // NUL bytes into the HTML report and garble logs and spreadsheets. Ids and
 // names take lineBreaks false; free text true.
 func (fe *FieldErrors) CheckText(path, s string, lineBreaks bool) {
+	if msg := textMessage(s, lineBreaks); msg != "" {
+		fe.Add(path, msg)
+	}
+}
+
+// textMessage is what CheckText refuses in s, "" when s is fine.
+func textMessage(s string, lineBreaks bool) string {
 	for i, r := range s {
 		if r == utf8.RuneError {
 			continue // the JSON decoder already replaced invalid UTF-8
@@ -21,8 +28,8 @@ func (fe *FieldErrors) CheckText(path, s string, lineBreaks bool) {
 			continue
 		}
 		if r < 0x20 || (r >= 0x7f && r <= 0x9f) || r == 0xfffe || r == 0xffff {
-			fe.Add(path, fmt.Sprintf("must not contain control characters; found %U at byte %d", r, i))
-			return
+			return fmt.Sprintf("must not contain control characters; found %U at byte %d", r, i)
 		}
 	}
+	return ""
 }

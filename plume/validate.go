@@ -2,6 +2,7 @@ package plume
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 )
 
@@ -107,8 +108,16 @@ func AnyFinite(float64) string { return "" }
 
 // Check adds an error when p is given and not finite or not allowed by r.
 func (fe *FieldErrors) Check(path string, p *float64, r Rule) {
+	if msg := ruleMessage(p, r); msg != "" {
+		fe.Add(path, msg)
+	}
+}
+
+// ruleMessage is what is wrong with *p under r, "" when p is nil or the
+// value passes.
+func ruleMessage(p *float64, r Rule) string {
 	if p == nil {
-		return
+		return ""
 	}
 	v := *p
 	if !Finite(v) {
@@ -118,11 +127,38 @@ func (fe *FieldErrors) Check(path string, p *float64, r Rule) {
 		} else {
 			msg += " and finite"
 		}
-		fe.Add(path, fmt.Sprintf("%s, got %g", msg, v))
-		return
+		return fmt.Sprintf("%s, got %g", msg, v)
 	}
 	if msg := r(v); msg != "" {
-		fe.Add(path, fmt.Sprintf("%s, got %g", msg, v))
+		return fmt.Sprintf("%s, got %g", msg, v)
+	}
+	return ""
+}
+
+// elemPath is the JSON path of an object: an element of an array
+// ("receptors", 3: receptors[3]) or, with index -1, a top-level object
+// ("contaminant"). Its text is built only when a field is refused, so that
+// validating a large valid request allocates nothing for paths.
+type elemPath struct {
+	array string
+	index int
+}
+
+// String is the path as text.
+func (e elemPath) String() string {
+	if e.index < 0 {
+		return e.array
+	}
+	return e.array + "[" + strconv.Itoa(e.index) + "]"
+}
+
+// field is the path of one of the object's fields.
+func (e elemPath) field(name string) string { return e.String() + "." + name }
+
+// CheckIn is Check for the field name of the object at e.
+func (fe *FieldErrors) CheckIn(e elemPath, name string, p *float64, r Rule) {
+	if msg := ruleMessage(p, r); msg != "" {
+		fe.Add(e.field(name), msg)
 	}
 }
 
@@ -184,41 +220,45 @@ func validateContaminant(fe *FieldErrors, sc Scenario) {
 		validateContaminants(fe, sc)
 		return
 	}
-	validateOneContaminant(fe, sc.Aquifer, "contaminant", sc.Contaminant)
+	validateOneContaminant(fe, sc.Aquifer, elemPath{"contaminant", -1}, sc.Contaminant)
 }
 
-// validateOneContaminant checks one compound's properties; at is its JSON
-// path ("contaminant" or "contaminants[i]").
-func validateOneContaminant(fe *FieldErrors, a Aquifer, at string, c Contaminant) {
-	path := func(f string) string { return at + "." + f }
-	fe.CheckText(path("name"), c.Name, false)
-	fe.Check(path("koc"), c.Koc, NonNegative)
-	fe.Check(path("half_life"), c.HalfLife, Positive)
-	fe.Check(path("retardation"), c.Retardation, atLeastOne)
-	fe.Check(path("screening_level"), c.ScreeningLevel, Positive)
-	fe.Check(path("solubility"), c.Solubility, Positive)
+// validateOneContaminant checks one compound's properties; e is its JSON
+// path (contaminant, or contaminants[i]).
+func validateOneContaminant(fe *FieldErrors, a Aquifer, e elemPath, c Contaminant) {
+	if msg := textMessage(c.Name, false); msg != "" {
+		fe.Add(e.field("name"), msg)
+	}
+	fe.CheckIn(e, "koc", c.Koc, NonNegative)
+	fe.CheckIn(e, "half_life", c.HalfLife, Positive)
+	fe.CheckIn(e, "retardation", c.Retardation, atLeastOne)
+	fe.CheckIn(e, "screening_level", c.ScreeningLevel, Positive)
+	fe.CheckIn(e, "solubility", c.Solubility, Positive)
 	switch c.DecayAppliesTo {
 	case "", DecayTotal, DecayDissolved:
 	default:
-		fe.Add(path("decay_applies_to"), fmt.Sprintf("must be %q or %q, got %q", DecayTotal, DecayDissolved, c.DecayAppliesTo))
+		fe.Add(e.field("decay_applies_to"), fmt.Sprintf("must be %q or %q, got %q", DecayTotal, DecayDissolved, c.DecayAppliesTo))
 	}
-	if c.Retardation == nil {
-		why := "required unless " + path("retardation") + " is given (R = 1 + rho_b Koc f_oc / n_e)"
-		if c.Koc == nil {
-			ref, ok := lookupReference(c.Name)
-			if !ok || ref.Koc == nil {
-				fe.Add(path("koc"), "required unless "+path("retardation")+" is given or "+path("name")+" is in the reference table with a Koc")
-			}
+	if c.Retardation != nil {
+		return
+	}
+	why := func() string {
+		return "required unless " + e.field("retardation") + " is given (R = 1 + rho_b Koc f_oc / n_e)"
+	}
+	if c.Koc == nil {
+		ref, ok := lookupReference(c.Name)
+		if !ok || ref.Koc == nil {
+			fe.Add(e.field("koc"), "required unless "+e.field("retardation")+" is given or "+e.field("name")+" is in the reference table with a Koc")
 		}
-		if a.OrganicCarbonFraction == nil {
-			fe.Add("aquifer.organic_carbon_fraction", why)
-		}
-		if a.BulkDensity == nil {
-			fe.Add("aquifer.bulk_density", why)
-		}
-		if a.EffectivePorosity == nil && a.SeepageVelocity != nil {
-			fe.Add("aquifer.effective_porosity", why)
-		}
+	}
+	if a.OrganicCarbonFraction == nil {
+		fe.Add("aquifer.organic_carbon_fraction", why())
+	}
+	if a.BulkDensity == nil {
+		fe.Add("aquifer.bulk_density", why())
+	}
+	if a.EffectivePorosity == nil && a.SeepageVelocity != nil {
+		fe.Add("aquifer.effective_porosity", why())
 	}
 }
 
@@ -383,32 +423,34 @@ func validateReceptors(fe *FieldErrors, rs []Receptor) {
 	}
 	seen := make(map[string]int, len(rs))
 	for i, r := range rs {
-		p := fmt.Sprintf("receptors[%d]", i)
+		e := elemPath{"receptors", i}
 		if r.X == nil && !r.hasLonLat() {
-			fe.Add(p+".x", "required: site x (east) of the receptor (or lon and lat with a crs)")
+			fe.Add(e.field("x"), "required: site x (east) of the receptor (or lon and lat with a crs)")
 		}
 		if r.Y == nil && !r.hasLonLat() {
-			fe.Add(p+".y", "required: site y (north) of the receptor (or lon and lat with a crs)")
+			fe.Add(e.field("y"), "required: site y (north) of the receptor (or lon and lat with a crs)")
 		}
-		fe.Check(p+".x", r.X, AnyFinite)
-		fe.Check(p+".y", r.Y, AnyFinite)
-		fe.Check(p+".z", r.Z, NonNegative)
-		fe.Check(p+".screen_top", r.ScreenTop, NonNegative)
-		fe.Check(p+".screen_bottom", r.ScreenBottom, NonNegative)
+		fe.CheckIn(e, "x", r.X, AnyFinite)
+		fe.CheckIn(e, "y", r.Y, AnyFinite)
+		fe.CheckIn(e, "z", r.Z, NonNegative)
+		fe.CheckIn(e, "screen_top", r.ScreenTop, NonNegative)
+		fe.CheckIn(e, "screen_bottom", r.ScreenBottom, NonNegative)
 		switch {
 		case (r.ScreenTop == nil) != (r.ScreenBottom == nil):
 			if r.ScreenTop == nil {
-				fe.Add(p+".screen_top", "give both screen_top and screen_bottom, or neither")
+				fe.Add(e.field("screen_top"), "give both screen_top and screen_bottom, or neither")
 			} else {
-				fe.Add(p+".screen_bottom", "give both screen_top and screen_bottom, or neither")
+				fe.Add(e.field("screen_bottom"), "give both screen_top and screen_bottom, or neither")
 			}
 		case r.ScreenTop != nil && Finite(*r.ScreenTop) && Finite(*r.ScreenBottom) && *r.ScreenBottom < *r.ScreenTop:
-			fe.Add(p+".screen_bottom", fmt.Sprintf("must be >= screen_top (%g), got %g", *r.ScreenTop, *r.ScreenBottom))
+			fe.Add(e.field("screen_bottom"), fmt.Sprintf("must be >= screen_top (%g), got %g", *r.ScreenTop, *r.ScreenBottom))
 		}
-		fe.CheckText(p+".id", r.ID, false)
+		if msg := textMessage(r.ID, false); msg != "" {
+			fe.Add(e.field("id"), msg)
+		}
 		if r.ID != "" {
 			if j, dup := seen[r.ID]; dup {
-				fe.Add(p+".id", fmt.Sprintf("must be unique; %q is also receptors[%d].id", r.ID, j))
+				fe.Add(e.field("id"), fmt.Sprintf("must be unique; %q is also receptors[%d].id", r.ID, j))
 			} else {
 				seen[r.ID] = i
 			}

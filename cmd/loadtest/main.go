@@ -51,10 +51,11 @@ const (
 	kindGet
 	kindMalformed
 	kindOversize
+	kindWorst
 	nKinds
 )
 
-var kindNames = [nKinds]string{"screen", "get", "malformed", "oversize"}
+var kindNames = [nKinds]string{"screen", "get", "malformed", "oversize", "worst"}
 
 // expected are the statuses each kind may get; 503 (busy, deadline) is
 // documented for all.
@@ -63,6 +64,7 @@ var expected = [nKinds]map[int]bool{
 	{200: true, 503: true},
 	{400: true, 503: true},
 	{413: true, 503: true},
+	{200: true, 413: true, 503: true},
 }
 
 // spreadsheetQuery is a one-number GET of the kind a spreadsheet cell sends
@@ -82,6 +84,10 @@ type config struct {
 	maxHeavy   int
 	maxWaiting int
 	window     time.Duration
+	worst      string
+	timeout    time.Duration
+	maxLatency time.Duration
+	idle       int
 }
 
 func main() {
@@ -129,6 +135,10 @@ func run(args []string, out io.Writer) error {
 	fs.IntVar(&cfg.maxHeavy, "max-heavy", 0, "server: computing requests at once (0: default)")
 	fs.IntVar(&cfg.maxWaiting, "max-waiting", 0, "server: computing requests waiting (0: default)")
 	fs.DurationVar(&cfg.window, "window", 5*time.Second, "memory report window (flatness over the run)")
+	fs.StringVar(&cfg.worst, "worst", "", "send only the worst-case request of an endpoint: "+worstNames())
+	fs.DurationVar(&cfg.timeout, "request-timeout", 0, "server: per-request deadline (0: default)")
+	fs.DurationVar(&cfg.maxLatency, "max-latency", 0, "fail when any answer takes longer (0: no limit)")
+	fs.IntVar(&cfg.idle, "idle-seconds", 0, "after the run, report the CPU used in each of this many seconds")
 	if err := fs.Parse(args); err != nil {
 		return err
 	}
@@ -187,11 +197,12 @@ type report struct {
 	heapPeak   float64  // bytes, live heap objects
 	vmHWM      float64  // bytes, peak resident set (Linux), 0 when unknown
 	windows    []float64
-	goroutines int // after the run, once idle
+	goroutines int       // after the run, once idle
+	cpuAfter   []float64 // CPU used in each second after the last answer, s
 }
 
 func drive(cfg config, scenario []byte) (*report, error) {
-	h, err := api.New(api.Config{Version: "loadtest", MaxHeavy: cfg.maxHeavy, MaxWaiting: cfg.maxWaiting})
+	h, err := api.New(api.Config{Version: "loadtest", MaxHeavy: cfg.maxHeavy, MaxWaiting: cfg.maxWaiting, RequestTimeout: cfg.timeout})
 	if err != nil {
 		return nil, err
 	}
@@ -207,6 +218,12 @@ func drive(cfg config, scenario []byte) (*report, error) {
 
 	oversize := oversizeBody(scenario, api.DefaultMaxBodyBytes+64<<10)
 	malformed := [][]byte{[]byte(`{"aquifer": {`), []byte(`[1,2,`), []byte(`{"receptors": [{"x": 1,}]}`), []byte("\x00\x01")}
+	var worst worstSpec
+	if cfg.worst != "" {
+		if worst.method, worst.path, worst.body, err = worstRequest(cfg.worst, scenario); err != nil {
+			return nil, err
+		}
+	}
 
 	// Memory sampler.
 	mem := newSampler(cfg.window)
@@ -240,7 +257,14 @@ func drive(cfg config, scenario []byte) (*report, error) {
 					break
 				}
 				k := pick(cfg.mix, weights, i)
-				req, err := buildRequest(ctx, base, k, scenario, malformed[int(i)%len(malformed)], oversize)
+				var req *http.Request
+				var err error
+				if cfg.worst != "" {
+					k = kindWorst
+					req, err = worst.request(ctx, base)
+				} else {
+					req, err = buildRequest(ctx, base, k, scenario, malformed[int(i)%len(malformed)], oversize)
+				}
 				if err != nil {
 					terrs = append(terrs, err.Error())
 					continue
@@ -287,6 +311,9 @@ func drive(cfg config, scenario []byte) (*report, error) {
 	rep.memPeak, rep.heapPeak, rep.windows = mem.peak, mem.heapPeak, mem.windows
 	rep.vmHWM = readVmHWM()
 	tr.CloseIdleConnections()
+	if cfg.idle > 0 {
+		rep.cpuAfter = idleAfter(cfg.idle)
+	}
 	time.Sleep(100 * time.Millisecond)
 	rep.goroutines = runtime.NumGoroutine()
 	return &rep, nil
@@ -515,6 +542,13 @@ func (r *report) print(w io.Writer, cfg config) {
 		fmt.Fprintf(w, "memory peak per %s window, MiB: %s\n", cfg.window, strings.Join(ws, " "))
 	}
 	fmt.Fprintf(w, "goroutines after the run: %d\n", r.goroutines)
+	if len(r.cpuAfter) > 0 {
+		var cs []string
+		for _, c := range r.cpuAfter {
+			cs = append(cs, fmt.Sprintf("%.0f %%", 100*c))
+		}
+		fmt.Fprintf(w, "CPU of one core used in each second after the last answer: %s\n", strings.Join(cs, ", "))
+	}
 	for i, e := range r.transport {
 		if i == 5 {
 			fmt.Fprintf(w, "... %d more transport errors\n", len(r.transport)-5)
@@ -549,6 +583,17 @@ func (r *report) verdict(cfg config) error {
 	}
 	if cfg.requests > 0 && len(r.results) < cfg.requests && r.elapsed < cfg.duration {
 		errs = append(errs, fmt.Sprintf("only %d of %d requests answered", len(r.results), cfg.requests))
+	}
+	if cfg.maxLatency > 0 {
+		for _, res := range r.results {
+			if res.latency() > cfg.maxLatency {
+				errs = append(errs, fmt.Sprintf("an answer took %v, over %v", res.latency(), cfg.maxLatency))
+				break
+			}
+		}
+	}
+	if n := len(r.cpuAfter); n > 2 && r.cpuAfter[n-1] > 0.05 {
+		errs = append(errs, fmt.Sprintf("%.0f %% of a core still busy %d s after the last answer", 100*r.cpuAfter[n-1], n))
 	}
 	if r.memPeak/mib > cfg.maxMemMiB {
 		errs = append(errs, fmt.Sprintf("peak memory %.1f MiB over the limit of %.0f MiB", r.memPeak/mib, cfg.maxMemMiB))

@@ -44,3 +44,33 @@ func TestGoldenMax(t *testing.T) {
 		t.Errorf("parabola: max at %.17g (%.17g), want 0.3 (5)", x, fx)
 	}
 }
+
+// NewtonBracketed on the same increasing functions as Brent's test (roots
+// from mpmath.findroot at 30 digits), with the exact derivative, a wrong
+// (zero) derivative that forces the secant safeguard, and a count of
+// evaluations showing the quadratic convergence.
+func TestNewtonBracketed(t *testing.T) {
+	cases := []struct {
+		name  string
+		g, dg func(float64) float64
+		a, b  float64
+		want  float64
+	}{
+		{"x - cos x", func(x float64) float64 { return x - math.Cos(x) }, func(x float64) float64 { return 1 + math.Sin(x) }, 0, 1, 0.739085133215160641655312087674},
+		{"Wallis cubic", func(x float64) float64 { return x*x*x - 2*x - 5 }, func(x float64) float64 { return 3*x*x - 2 }, 2, 3, 2.09455148154232659148238654058},
+		{"no derivative", func(x float64) float64 { return x*x*x - 2*x - 5 }, func(float64) float64 { return 0 }, 2, 3, 2.09455148154232659148238654058},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			n := 0
+			g := func(x float64) float64 { n++; return tc.g(x) }
+			got := NewtonBracketed(g, tc.dg, tc.a, tc.b, tc.g(tc.a), tc.g(tc.b), 1e-13, 100)
+			if math.Abs(got-tc.want) > 1e-12 {
+				t.Errorf("got %.17g, want %.17g", got, tc.want)
+			}
+			if tc.name != "no derivative" && n > 6 {
+				t.Errorf("%d evaluations; Newton from a secant start should need at most 6", n)
+			}
+		})
+	}
+}

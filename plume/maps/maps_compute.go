@@ -279,7 +279,11 @@ func (ev *mapEvaluator) at(px, py, top, bot float64) float64 {
 
 // steadyLength finds the centreline distance where the steady-state exact
 // concentration falls to level, m; ok false when it does not within
-// MaxPlumeLength or the source is not constant and continuous.
+// MaxPlumeLength or the source is not constant and continuous. A compound
+// formed by decay (none at the source face) rises downgradient before it
+// falls: its length is where it falls to level beyond the first of the
+// distances 1, 2, 4, ... m at which it is above it; 0 when it is above it
+// at none.
 func (ev *mapEvaluator) steadyLength(level float64) (float64, bool) {
 	md := ev.md
 	if !md.SourceTerm().Continuous {
@@ -290,10 +294,13 @@ func (ev *mapEvaluator) steadyLength(level float64) (float64, bool) {
 		return md.Value(plume.MethodExact, p, math.Inf(1)) - level
 	}
 	lo := 1e-6
-	if f(lo) < 0 {
-		return 0, true
+	for x := 1.0; f(lo) < 0; x *= 2 {
+		if x > MaxPlumeLength {
+			return 0, true
+		}
+		lo = x
 	}
-	hi := 1.0
+	hi := 2 * max(lo, 0.5)
 	for f(hi) >= 0 {
 		lo = hi
 		hi *= 2

@@ -82,10 +82,18 @@ type Profile struct {
 // depth (L) at every time of sc and at steady state, at n+1 distances from
 // the source face to beyond the farthest receptor and the steady-state
 // reach of a hundredth of the screening level (at most MaxPlumeLength).
-func CentrelineProfile(ctx context.Context, sc plume.Scenario, depth float64, n int, opt plume.Options) (*Profile, error) {
+// compound names the compound of a scenario of several ("" for the first,
+// or for a scenario of one); one no closed form gives is refused as
+// plume.Model.Focus refuses it (KindInvalid on the field "compound").
+func CentrelineProfile(ctx context.Context, sc plume.Scenario, compound string, depth float64, n int, opt plume.Options) (*Profile, error) {
 	md, err := plume.Prepare(sc)
 	if err != nil {
 		return nil, err
+	}
+	if compound != "" {
+		if md, err = md.Focus(compound); err != nil {
+			return nil, err
+		}
 	}
 	uf := md.Factors()
 	maxX := 0.0

@@ -302,6 +302,13 @@ func TestPlumeMapOfACompound(t *testing.T) {
 	if containsPoint(mp.Outlines[2].Geometry, orb.Point{x, y}) {
 		t.Errorf("the 100x level outline of a daughter reaches the source face")
 	}
+	// Its steady plume length (bisection on the closed form beyond where it
+	// forms) is where its outline at the level ends (marching squares on
+	// the grid): within two grid spacings.
+	pl := mp.SteadyPlumeLength
+	if pl == nil || pl.Length == nil || math.Abs(*pl.Length-mp.Outlines[0].Reach) > 2*math.Max(mp.Grid.DX, mp.Grid.DY) {
+		t.Errorf("steady plume length %+v, outline reach %g (spacing %g)", pl, mp.Outlines[0].Reach, mp.Grid.DX)
+	}
 	_, err = PlumeMap(context.Background(), sc, MapOptions{}, plume.Options{})
 	if fe := plume.FieldsOf(err); len(fe) == 0 || fe[0].Field != "compound" {
 		t.Errorf("no compound: err %v, want one naming compound", err)
