@@ -191,7 +191,6 @@ type cappedBuffer struct {
 	limit int
 }
 
-
 // Write appends p, or fails with errOutputOver past the limit.
 func (b *cappedBuffer) Write(p []byte) (int, error) {
 	if b.Len()+len(p) > b.limit {
