@@ -36,48 +36,10 @@ const steadyCycle = 8
 
 func (g *grid3) solveSteady(ctx context.Context) (steadyStats, error) {
 	const cb = 1.0
-	nx, np := g.nx, g.np
-	n := nx * np
-	res := make([]float64, n)
-	tauMin, tauMax := g.steadyTauRange()
-	taus := make([]float64, steadyCycle)
-	for k := range taus {
-		taus[k] = tauMin * math.Pow(tauMax/tauMin, float64(k)/float64(steadyCycle-1))
-	}
-	// Factorizations for every tau of the cycle.
-	type facs struct {
-		x    triLU
-		y, z *dispersionMatrix
-	}
-	fs := make([]facs, steadyCycle)
-	sx := make([]float64, nx)
-	for i := range sx {
-		sx[i] = g.r * g.dx[i]
-	}
-	condx := g.dispX.cond
-	dl, d, du := make([]float64, max(nx-1, 0)), make([]float64, nx), make([]float64, max(nx-1, 0))
-	for k, tau := range taus {
-		for i := 0; i < nx; i++ {
-			d[i] = sx[i]*(1+tau*g.mu) + tau*g.v
-			if i > 0 {
-				d[i] += tau * condx[i-1]
-			}
-			if i < nx-1 {
-				d[i] += tau * condx[i]
-				du[i] = -tau * condx[i]
-				dl[i] = -tau * (g.v + condx[i])
-			}
-		}
-		d[0] += tau * g.dispX.gLo
-		if !fs[k].x.factor(dl, d, du) {
-			return steadyStats{}, fmt.Errorf("%w: steady-state x factorization failed", ErrNotConverged)
-		}
-		fs[k].y = newDispersionMatrix(g.dispY.stor, g.dispY.cond, 0)
-		fs[k].y.fixedTheta = 1
-		fs[k].y.factor(tau)
-		fs[k].z = newDispersionMatrix(g.dispZ.stor, g.dispZ.cond, 0)
-		fs[k].z.fixedTheta = 1
-		fs[k].z.factor(tau)
+	res := make([]float64, g.nx*g.np)
+	taus, fs, err := g.steadyFactors()
+	if err != nil {
+		return steadyStats{}, err
 	}
 	var st steadyStats
 	for it := 1; it <= steadyMaxIter; it++ {
@@ -90,44 +52,94 @@ func (g *grid3) solveSteady(ctx context.Context) (steadyStats, error) {
 		if err := ctx.Err(); err != nil {
 			return st, fmt.Errorf("numeric: steady-state iteration stopped after %d iterations: %w", it-1, err)
 		}
-		f := &fs[(it-1)%steadyCycle]
-		tau := taus[(it-1)%steadyCycle]
-		// x: [R dx (1 + tau mu) + tau (U + Kx)] w = tau r / (dy dz).
-		for i := 0; i < nx; i++ {
-			row := res[i*np : (i+1)*np]
-			for p, a := range g.area {
-				row[p] *= tau / a
-			}
-		}
-		f.x.solveRows(res, np)
-		// y: [R dy + tau Ky] w' = R dy w, lines of ny contiguous values.
-		ny, nz := g.ny, g.nz
-		for l := 0; l < nx*nz; l++ {
-			row := res[l*ny : (l+1)*ny]
-			for j := range row {
-				row[j] *= f.y.stor[j]
-			}
-		}
-		for i := 0; i < nx; i++ {
-			f.y.solveCols(res[i*np:(i+1)*np], nz)
-		}
-		// z: [R dz + tau Kz] dC = R dz w', rows of ny values per x-plane.
-		for i := 0; i < nx; i++ {
-			for k := 0; k < nz; k++ {
-				row := res[i*np+k*ny : i*np+(k+1)*ny]
-				s := f.z.stor[k]
-				for j := range row {
-					row[j] *= s
-				}
-			}
-			f.z.solveRows(res[i*np:(i+1)*np], ny)
-		}
+		g.steadySweep(res, &fs[(it-1)%steadyCycle], taus[(it-1)%steadyCycle])
 		for q, v := range res {
 			g.c[q] += v
 		}
 	}
 	return st, fmt.Errorf("%w: the steady-state iteration stopped after %d iterations at relative residual %.3g (tolerance %g)",
 		ErrNotConverged, steadyMaxIter, st.residual, SteadyTolerance)
+}
+
+// steadyFactors are the factorizations of one pseudo-time step tau of the
+// steady-state cycle: the x operator, and the y and z dispersion matrices.
+type steadyFactors struct {
+	x    triLU
+	y, z *dispersionMatrix
+}
+
+// steadyFactors returns the cycle's pseudo-time steps (geometric from
+// steadyTauRange's shortest to its longest) and their factorizations.
+func (g *grid3) steadyFactors() ([]float64, []steadyFactors, error) {
+	nx := g.nx
+	tauMin, tauMax := g.steadyTauRange()
+	taus := make([]float64, steadyCycle)
+	for k := range taus {
+		taus[k] = tauMin * math.Pow(tauMax/tauMin, float64(k)/float64(steadyCycle-1))
+	}
+	fs := make([]steadyFactors, steadyCycle)
+	condx := g.dispX.cond
+	dl, d, du := make([]float64, max(nx-1, 0)), make([]float64, nx), make([]float64, max(nx-1, 0))
+	for k, tau := range taus {
+		for i := 0; i < nx; i++ {
+			d[i] = g.r*g.dx[i]*(1+tau*g.mu) + tau*g.v
+			if i > 0 {
+				d[i] += tau * condx[i-1]
+			}
+			if i < nx-1 {
+				d[i] += tau * condx[i]
+				du[i] = -tau * condx[i]
+				dl[i] = -tau * (g.v + condx[i])
+			}
+		}
+		d[0] += tau * g.dispX.gLo
+		if !fs[k].x.factor(dl, d, du) {
+			return nil, nil, fmt.Errorf("%w: steady-state x factorization failed", ErrNotConverged)
+		}
+		fs[k].y = newDispersionMatrix(g.dispY.stor, g.dispY.cond, 0)
+		fs[k].y.fixedTheta = 1
+		fs[k].y.factor(tau)
+		fs[k].z = newDispersionMatrix(g.dispZ.stor, g.dispZ.cond, 0)
+		fs[k].z.fixedTheta = 1
+		fs[k].z.factor(tau)
+	}
+	return taus, fs, nil
+}
+
+// steadySweep turns the residual res into the correction of one
+// pseudo-time step tau, in place, by the three directional solves of the
+// approximate factorization.
+func (g *grid3) steadySweep(res []float64, f *steadyFactors, tau float64) {
+	nx, np, ny, nz := g.nx, g.np, g.ny, g.nz
+	// x: [R dx (1 + tau mu) + tau (U + Kx)] w = tau r / (dy dz).
+	for i := 0; i < nx; i++ {
+		row := res[i*np : (i+1)*np]
+		for p, a := range g.area {
+			row[p] *= tau / a
+		}
+	}
+	f.x.solveRows(res, np)
+	// y: [R dy + tau Ky] w' = R dy w, lines of ny contiguous values.
+	for l := 0; l < nx*nz; l++ {
+		row := res[l*ny : (l+1)*ny]
+		for j := range row {
+			row[j] *= f.y.stor[j]
+		}
+	}
+	for i := 0; i < nx; i++ {
+		f.y.solveCols(res[i*np:(i+1)*np], nz)
+	}
+	// z: [R dz + tau Kz] dC = R dz w', rows of ny values per x-plane.
+	for i := 0; i < nx; i++ {
+		for k := 0; k < nz; k++ {
+			row := res[i*np+k*ny : i*np+(k+1)*ny]
+			s := f.z.stor[k]
+			for j := range row {
+				row[j] *= s
+			}
+		}
+		f.z.solveRows(res[i*np:(i+1)*np], ny)
+	}
 }
 
 // steadyTauRange returns the shortest and longest pseudo-time steps: a

@@ -236,10 +236,9 @@ func drive(cfg config, scenario []byte) (*report, error) {
 
 	ctx, cancel := context.WithTimeout(context.Background(), cfg.duration)
 	defer cancel()
-	var next atomic.Int64
-	weights := 0
+	run := &runner{cfg: cfg, base: base, client: client, scenario: scenario, oversize: oversize, malformed: malformed, worst: worst}
 	for _, w := range cfg.mix {
-		weights += w
+		run.weights += w
 	}
 	var mu sync.Mutex
 	var rep report
@@ -249,55 +248,7 @@ func drive(cfg config, scenario []byte) (*report, error) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			var local []result
-			var terrs, bads []string
-			for ctx.Err() == nil {
-				i := next.Add(1) - 1
-				if cfg.requests > 0 && i >= int64(cfg.requests) {
-					break
-				}
-				k := pick(cfg.mix, weights, i)
-				var req *http.Request
-				var err error
-				if cfg.worst != "" {
-					k = kindWorst
-					req, err = worst.request(ctx, base)
-				} else {
-					req, err = buildRequest(ctx, base, k, scenario, malformed[int(i)%len(malformed)], oversize)
-				}
-				if err != nil {
-					terrs = append(terrs, err.Error())
-					continue
-				}
-				t0 := time.Now()
-				resp, err := client.Do(req)
-				if err != nil {
-					if ctx.Err() == nil {
-						terrs = append(terrs, fmt.Sprintf("client %d %s: %v", c, kindNames[k], err))
-					}
-					continue
-				}
-				body, rerr := io.ReadAll(resp.Body)
-				resp.Body.Close()
-				lat := time.Since(t0)
-				if rerr != nil && ctx.Err() != nil {
-					continue // cut off by the time limit, not the server's doing
-				}
-				r := result{kind: k, status: uint16(resp.StatusCode), latUS: uint32(min(lat.Microseconds(), math.MaxUint32))}
-				problem := ""
-				if rerr != nil {
-					problem = "reading the body: " + rerr.Error()
-				} else {
-					problem = check(k, resp, body)
-				}
-				if problem != "" {
-					r.bad = true
-					if len(bads) < 5 {
-						bads = append(bads, problem)
-					}
-				}
-				local = append(local, r)
-			}
+			local, terrs, bads := run.clientLoop(ctx, c)
 			mu.Lock()
 			rep.results = append(rep.results, local...)
 			rep.transport = append(rep.transport, terrs...)
@@ -317,6 +268,83 @@ func drive(cfg config, scenario []byte) (*report, error) {
 	time.Sleep(100 * time.Millisecond)
 	rep.goroutines = runtime.NumGoroutine()
 	return &rep, nil
+}
+
+// runner holds what the load's clients share: the server's address, the
+// HTTP client, the request bodies and the count of requests sent.
+type runner struct {
+	cfg                config
+	base               string
+	client             *http.Client
+	scenario, oversize []byte
+	malformed          [][]byte
+	worst              worstSpec
+	weights            int
+	next               atomic.Int64
+}
+
+// clientLoop sends requests one after another until the time or the
+// request count runs out: the results, the transport errors, and the
+// first few bad answers.
+func (r *runner) clientLoop(ctx context.Context, c int) (local []result, terrs, bads []string) {
+	for ctx.Err() == nil {
+		i := r.next.Add(1) - 1
+		if r.cfg.requests > 0 && i >= int64(r.cfg.requests) {
+			break
+		}
+		res, terr, problem := r.one(ctx, c, i)
+		switch {
+		case terr != "":
+			terrs = append(terrs, terr)
+			continue
+		case res == nil:
+			continue
+		}
+		if problem != "" {
+			res.bad = true
+			if len(bads) < 5 {
+				bads = append(bads, problem)
+			}
+		}
+		local = append(local, *res)
+	}
+	return local, terrs, bads
+}
+
+// one sends request i from client c: its result (nil when the time limit
+// cut it off), a transport error, or what was wrong with the answer.
+func (r *runner) one(ctx context.Context, c int, i int64) (res *result, terr, problem string) {
+	k := pick(r.cfg.mix, r.weights, i)
+	var req *http.Request
+	var err error
+	if r.cfg.worst != "" {
+		k = kindWorst
+		req, err = r.worst.request(ctx, r.base)
+	} else {
+		req, err = buildRequest(ctx, r.base, k, r.scenario, r.malformed[int(i)%len(r.malformed)], r.oversize)
+	}
+	if err != nil {
+		return nil, err.Error(), ""
+	}
+	t0 := time.Now()
+	resp, err := r.client.Do(req)
+	if err != nil {
+		if ctx.Err() == nil {
+			return nil, fmt.Sprintf("client %d %s: %v", c, kindNames[k], err), ""
+		}
+		return nil, "", ""
+	}
+	body, rerr := io.ReadAll(resp.Body)
+	resp.Body.Close()
+	lat := time.Since(t0)
+	if rerr != nil && ctx.Err() != nil {
+		return nil, "", "" // cut off by the time limit, not the server's doing
+	}
+	res = &result{kind: k, status: uint16(resp.StatusCode), latUS: uint32(min(lat.Microseconds(), math.MaxUint32))}
+	if rerr != nil {
+		return res, "", "reading the body: " + rerr.Error()
+	}
+	return res, "", check(k, resp, body)
 }
 
 // pick chooses the kind of request i by the mix weights, deterministically
