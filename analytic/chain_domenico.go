@@ -24,6 +24,10 @@ func ChainDomenicoAt(pt Point, t float64, p Params, s Source, h History, c Chain
 	if !c.EqualRetardation() {
 		return ErrDistinctRetardation
 	}
+	h, err := chainHistory(h)
+	if err != nil {
+		return err
+	}
 	q := p
 	q.R = c[0].R
 	q.Mu = 0

@@ -36,6 +36,10 @@ func ChainExact3DAt(pt Point, t float64, p Params, s Source, h History, c Chain,
 	if err := chainCheck(p, true, c, c0, out); err != nil {
 		return err
 	}
+	h, err := chainHistory(h)
+	if err != nil {
+		return err
+	}
 	if err := chainCheckSource(s); err != nil {
 		return err
 	}
@@ -67,6 +71,10 @@ func ChainExact3DAt(pt Point, t float64, p Params, s Source, h History, c Chain,
 // ChainColumnLaplace.
 func ChainColumnAt(x, t float64, p Params, inlet Inlet, h History, c Chain, c0, out []float64) error {
 	if err := chainCheck(p, false, c, c0, out); err != nil {
+		return err
+	}
+	h, err := chainHistory(h)
+	if err != nil {
 		return err
 	}
 	if !c.EqualRetardation() {
@@ -105,6 +113,18 @@ func ChainColumnAt(x, t float64, p Params, inlet Inlet, h History, c Chain, c0, 
 	inf := math.Inf(1)
 	ageGroup(Point{X: x}, t, q, Source{Width: inf, Depth: inf}, h, c, c0, need, inlet == ThirdType, out)
 	return nil
+}
+
+// chainHistory is h in the form the chain evaluators take (see
+// History.normalized): a power-law source function other than the
+// exponential and the constant one returns ErrInvalid, since one source
+// mass cannot feed several compounds' concentrations by one law.
+func chainHistory(h History) (History, error) {
+	h = h.normalized()
+	if h.power() {
+		return h, fmt.Errorf("%w: a source depleting by its mass (History.Rate with an exponent other than 0 or 1) is not supported for decay chains", ErrInvalid)
+	}
+	return h, nil
 }
 
 // chainCheck validates the common inputs of the evaluators.

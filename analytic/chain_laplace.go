@@ -231,6 +231,10 @@ func chainColumnLaplace(x, t float64, p Params, inlet Inlet, h History, c Chain,
 	if err := finitePositive("Dx", p.Dx); err != nil {
 		return err
 	}
+	h, err := chainHistory(h)
+	if err != nil {
+		return err
+	}
 	n := len(c)
 	for i := 0; i < n; i++ {
 		out[i] = 0

@@ -32,13 +32,18 @@ func Domenico(x, y, z, t float64, p Params, s Source) float64 {
 // where both terms carry the same factor the difference is formed as a
 // difference of complementary error functions that does not cancel (see
 // erfcDiff), so values long after the pulse keep their relative accuracy.
+// A source depleting by its mass (h.Rate > 0 with an exponent other than
+// 1; Gamma = 1 is the exponential depletion above): the source
+// concentration at the emission time t - R x/V times the value of the
+// source at full strength (see domenicoPower).
 func DomenicoAt(pt Point, t float64, p Params, s Source, h History) float64 {
 	x := pt.X
 	if x < 0 || !(t > 0) || math.IsNaN(x) || math.IsNaN(pt.Y) {
 		return 0
 	}
+	h = h.normalized()
 	g := h.Depletion
-	if math.IsInf(t, 1) && (g > 0 || h.finite()) {
+	if math.IsInf(t, 1) && h.fades() {
 		return 0
 	}
 	lateral := domenicoLateral(pt, p, s)
@@ -46,12 +51,34 @@ func DomenicoAt(pt Point, t float64, p Params, s Source, h History) float64 {
 		return 0
 	}
 	var c float64
-	if h.finite() && t > h.Duration {
+	switch {
+	case h.power():
+		c = domenicoPower(x, t, p, h)
+	case h.finite() && t > h.Duration:
 		c = domenicoPulse(x, t, t-h.Duration, p, g)
-	} else {
+	default:
 		c = domenicoDepleting(x, t, p, g)
 	}
 	return clamp01(c * lateral)
+}
+
+// domenicoPower is the longitudinal factor for a source depleting by its
+// mass (normalized power-law history h): the source concentration at the
+// emission time t - R x/V (at most the time the source stopped or ran
+// out, at least 0) times the longitudinal factor of the source at full
+// strength, itself the pulse L(t) - L(t - Duration) once the source has
+// stopped or its mass has run out (common practice, as for the fast
+// exponential depletion).
+func domenicoPower(x, t float64, p Params, h History) float64 {
+	emit := math.Max(t-p.R*x/p.V, 0)
+	long := domenicoLongitudinal(x, t, p)
+	if h.finite() {
+		emit = math.Min(emit, h.Duration)
+		if t > h.Duration {
+			long = domenicoLongitudinalDiff(x, t, t-h.Duration, p)
+		}
+	}
+	return h.powerFraction(emit) * long
 }
 
 // domenicoDepleting is the longitudinal factor for the source C0 exp(-g s)

@@ -45,9 +45,12 @@ const exactRelTol = 1e-7
 // over [pt.Top, pt.Bottom]) and a source history h: a source that stops
 // after h.Duration contributes the kernel only over the ages
 // [t - h.Duration, t], and a depleting source weights age tau by
-// exp(-h.Depletion (t - tau)). Both are integrated directly, never as a
-// difference of two continuous solutions, so values far below the source
-// keep their relative accuracy after the source has stopped.
+// exp(-h.Depletion (t - tau)), or with a power-law history (h.Rate > 0)
+// by the source concentration Cs(t - tau)/C0 at the emission time (see
+// History.Fraction; a source with Gamma < 1 contributes only the ages
+// emitted before its mass ran out). These are integrated directly, never
+// as a difference of two continuous solutions, so values far below the
+// source keep their relative accuracy after the source has stopped.
 func Exact3DAt(pt Point, t float64, p Params, s Source, h History) float64 {
 	return exact3D(pt, t, p, s, h, exactRelTol)
 }
@@ -66,6 +69,7 @@ func exact3D(pt Point, t float64, p Params, s Source, h History, rel float64) fl
 //
 // against the same source history and decay weights.
 func exact3DKernel(pt Point, t float64, p Params, s Source, h History, rel float64, flux bool) float64 {
+	h = h.normalized()
 	if c, done := exact3DTrivial(pt, t, p, s, h); done {
 		return c
 	}
@@ -84,7 +88,7 @@ func exact3DTrivial(pt Point, t float64, p Params, s Source, h History) (float64
 	if x < 0 || !(t > 0) || math.IsNaN(x) || math.IsNaN(pt.Y) {
 		return 0, true
 	}
-	if math.IsInf(t, 1) && (h.Depletion > 0 || h.finite()) {
+	if math.IsInf(t, 1) && h.fades() {
 		return 0, true
 	}
 	if x > 0 {
@@ -95,7 +99,7 @@ func exact3DTrivial(pt Point, t float64, p Params, s Source, h History) (float64
 	}
 	top, bot := screenDepths(pt)
 	inf := math.Inf(1)
-	return clamp01(math.Exp(-h.Depletion*t) * strip(math.Abs(pt.Y), s.Width/2, inf) * stripAverage(top, bot, s.Depth, inf)), true
+	return clamp01(h.Fraction(t) * strip(math.Abs(pt.Y), s.Width/2, inf) * stripAverage(top, bot, s.Depth, inf)), true
 }
 
 // screenDepths returns the receptor's depth interval clipped to the water
@@ -126,6 +130,7 @@ type kernel3D struct {
 	ua, ub          float64 // u at tau = t and at tau = t - Duration (or -Inf, +Inf)
 	inside, flux    bool    // decay weights in the integrand; flux-pulse kernel
 	mu, g, t        float64 // decay, depletion, time
+	hist            History // a power-law history (hist.power()) weighs the integrand
 	x, dp, beta     float64 // distance, D' = Dx/R and beta
 	v, dx, r        float64 // column coefficients for the flux kernel
 }
@@ -158,7 +163,10 @@ func newKernel3D(pt Point, t float64, p Params, s Source, h History, flux bool) 
 	// stays in the integrand.
 	pref := 1.0
 	var gam float64
-	k.inside = k.g > p.Mu || flux
+	if h.power() {
+		k.hist = h
+	}
+	k.inside = k.g > p.Mu || flux || h.power()
 	if !k.inside {
 		if k.g > 0 {
 			pref = math.Exp(-k.g * t)
@@ -213,7 +221,8 @@ func (k *kernel3D) eval(v float64) float64 {
 
 // weighted multiplies v by the part of the integrand kept inside for the
 // age of sigma:
-// decay and depletion, and for the flux kernel the ratio of the flux-pulse
+// decay and depletion (exponential, or the power-law source
+// concentration at the emission time t - tau), and for the flux kernel the ratio of the flux-pulse
 // kernel to the concentration kernel in the variable u,
 // B x^2 sqrt(pi) / (4 D' sigma^3), at most 2 beta / sigma^2.
 func (k *kernel3D) weighted(v, sig float64) float64 {
@@ -224,6 +233,9 @@ func (k *kernel3D) weighted(v, sig float64) float64 {
 		wt -= k.g * (k.t - tau)
 	}
 	v *= math.Exp(wt)
+	if k.hist.power() {
+		v *= k.hist.powerFraction(k.t - tau)
+	}
 	if k.flux {
 		drt := k.dx * k.r * tau
 		b3 := (k.r*x + k.v*tau) / (2 * math.Sqrt(drt))

@@ -17,7 +17,8 @@ const historyCancel = 1e-5
 // OgataBanksAt is the 1D column for a source history h and either inlet
 // type (see OgataBanks and OgataBanksFlux): the source concentration is
 // C0 exp(-h.Depletion s) while it is active, 0 <= s <= h.Duration, and 0
-// after.
+// after; or, with h.Rate > 0, that of a source depleting by its mass
+// (History.Fraction), which always takes the pulse form below.
 //
 // By superposition the value is exp(-g t) [F(t) - F(t - Duration)], with F
 // the constant-source solution for the effective decay rate Mu - g (the
@@ -36,11 +37,12 @@ func OgataBanksAt(x, t float64, p Params, inlet Inlet, h History) float64 {
 	if x < 0 || !(t > 0) || math.IsNaN(x) {
 		return 0
 	}
+	h = h.normalized()
 	g := h.Depletion
-	if math.IsInf(t, 1) && (g > 0 || h.finite()) {
+	if math.IsInf(t, 1) && h.fades() {
 		return 0
 	}
-	if g == 0 && !h.finite() {
+	if g == 0 && !h.finite() && !h.power() {
 		if inlet == ThirdType {
 			return OgataBanksFlux(x, t, p)
 		}
@@ -49,7 +51,7 @@ func OgataBanksAt(x, t float64, p Params, inlet Inlet, h History) float64 {
 	// The substitution holds for any effective rate Mu - g whose
 	// w = sqrt(V^2 + 4 D R (Mu - g)) stays real; keep a margin so that w
 	// does not lose digits.
-	if g == 0 || p.V*p.V+4*p.Dx*p.R*(p.Mu-g) > 0.01*p.V*p.V {
+	if !h.power() && (g == 0 || p.V*p.V+4*p.Dx*p.R*(p.Mu-g) > 0.01*p.V*p.V) {
 		if c, ok := columnHistoryClosed(x, t, p, inlet, h); ok {
 			return clamp01(c)
 		}

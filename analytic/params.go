@@ -64,8 +64,9 @@ func (p Params) Validate(threeD bool) error {
 
 // History describes how the source concentration varies in time: C0
 // exp(-Depletion s) while the source is active, 0 <= s <= Duration, and 0
-// after. The zero value is a constant source that starts at t = 0 and
-// never stops.
+// after; or, with Rate > 0, the power-law depletion of a source by its
+// mass (see history_power.go). The zero value is a constant source that
+// starts at t = 0 and never stops.
 type History struct {
 	// Duration is how long the source is active, T. 0 or +Inf: it never
 	// stops. By superposition the solution is exp(-Depletion t) [F(t) -
@@ -77,6 +78,15 @@ type History struct {
 	// Depletion is the first-order decline rate of the source
 	// concentration, 1/T: C_source(t) = C0 exp(-Depletion t). 0: constant.
 	Depletion float64
+	// Rate is the depletion rate k = Q C0/M0 of a source that loses its
+	// dissolvable mass M0 to the water flux Q through its face, 1/T; 0:
+	// the source does not deplete by mass. Rate > 0 replaces Depletion.
+	Rate float64
+	// Exponent is Gamma of the power-law source function Cs/C0 =
+	// (M/M0)^Gamma, in [0, MaxExponent], used only when Rate > 0. Its zero
+	// value is Gamma = 0 (a constant source for 1/Rate), not the
+	// exponential Gamma = 1 (Depletion = Rate): give Exponent: 1 for that.
+	Exponent float64
 }
 
 func (h History) finite() bool { return h.Duration > 0 && !math.IsInf(h.Duration, 1) }

@@ -38,7 +38,7 @@ func (s *server) attenuation(c echo.Context) error {
 			return nil, err
 		}
 		runHook(&testHookEncode, ctx)
-		return s.encodeJSON(res, echo.MIMEApplicationJSON, size, "observations")
+		return s.encodeJSON(res, echo.MIMEApplicationJSON, "observations")
 	})
 	if p != nil {
 		return p

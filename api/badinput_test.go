@@ -70,6 +70,15 @@ func TestScreeningsBadInput(t *testing.T) {
 		{class: "range/unknown unit", edits: []edit{{"units.length", "yards"}}, status: 422, field: "units.length"},
 		{class: "range/unknown method", edits: []edit{{"methods", []any{"magic"}}}, status: 422, field: "methods[0]"},
 		{class: "range/unknown field", edits: []edit{{"aquifer.seepage_velocty", 0.3}}, status: 422, field: "aquifer.seepage_velocty"},
+		// A source mass (with the concentration: a source depleting by its mass).
+		{class: "mass/zero", edits: []edit{{"source.mass", 0}}, status: 422, field: "source.mass"},
+		{class: "mass/negative", edits: []edit{{"source.mass", -3}}, status: 422, field: "source.mass"},
+		{class: "mass/exponent above 10", edits: []edit{{"source.mass", 100}, {"source.depletion_exponent", 11}}, status: 422, field: "source.depletion_exponent"},
+		{class: "mass/exponent 0", edits: []edit{{"source.mass", 100}, {"source.depletion_exponent", 0}}, status: 422, field: "source.depletion_exponent"},
+		{class: "mass/exponent without a mass", edits: []edit{{"source.depletion_exponent", 2}}, status: 422, field: "source.depletion_exponent"},
+		{class: "mass/with half-life", edits: []edit{{"source.mass", 100}, {"source.half_life", 1000}}, status: 422, field: "source.half_life"},
+		{class: "mass/with duration", edits: []edit{{"source.mass", 100}, {"source.duration", 1000}}, status: 422, field: "source.duration"},
+		{class: "mass/on a column", edits: []edit{{"source.mass", 100}, {"source.width", deleteMarker}, {"source.depth", deleteMarker}}, status: 422, field: "source.mass"},
 		// Huge arrays.
 		{class: "huge/receptors", edits: []edit{{"receptors", manyReceptors(10_001)}}, status: 413, field: "receptors"},
 		{class: "huge/times", edits: []edit{{"times", manyTimes(1_001)}}, status: 413, field: "times"},

@@ -191,12 +191,6 @@ type cappedBuffer struct {
 	limit int
 }
 
-func newCappedBuffer(limit, hint int) *cappedBuffer {
-	b := &cappedBuffer{limit: limit}
-	b.Grow(min(max(hint, 512), limit))
-	return b
-}
-
 // Write appends p, or fails with errOutputOver past the limit.
 func (b *cappedBuffer) Write(p []byte) (int, error) {
 	if b.Len()+len(p) > b.limit {
@@ -220,8 +214,11 @@ func (s *server) overBudget(fields ...string) error {
 // newline) within the output budget; fields name what to reduce when the
 // answer is over it. A non-finite number (which the engine never
 // produces) is an internal error.
-func (s *server) encodeJSON(v any, contentType string, hint float64, fields ...string) (*reply, error) {
-	buf := newCappedBuffer(s.cfg.MaxOutputBytes, int(min(hint, float64(s.cfg.MaxOutputBytes))))
+func (s *server) encodeJSON(v any, contentType string, fields ...string) (*reply, error) {
+	// The encoder writes its whole answer once, so the buffer is sized by
+	// that write (the output estimates are upper bounds, several times the
+	// typical answer: sizing the buffer by them cost 40 kB per demo request).
+	buf := &cappedBuffer{limit: s.cfg.MaxOutputBytes}
 	enc := json.NewEncoder(buf)
 	enc.SetEscapeHTML(false)
 	if err := enc.Encode(v); err != nil {

@@ -57,7 +57,7 @@ func (s *server) calibrations(c echo.Context) error {
 		}
 		res.Screening = screening
 		runHook(&testHookEncode, ctx)
-		return s.encodeJSON(res, echo.MIMEApplicationJSON, size, "scenario.receptors", "scenario.times", "observations")
+		return s.encodeJSON(res, echo.MIMEApplicationJSON, "scenario.receptors", "scenario.times", "observations")
 	})
 	if p != nil {
 		return p

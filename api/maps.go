@@ -47,7 +47,7 @@ func (s *server) plumeMaps(c echo.Context) error {
 		if err != nil {
 			return nil, err
 		}
-		return s.encodeMap(ctx, format, mp, mapSize(mb.MapOptions, format))
+		return s.encodeMap(ctx, format, mp)
 	})
 	if p != nil {
 		return p
@@ -62,15 +62,15 @@ var mapReduce = []string{"cells", "levels"}
 var mapMedia = map[string]string{"grid": "application/json", "csv": "text/csv", "geojson": "application/geo+json"}
 
 // encodeMap encodes a map in format within the output budget.
-func (s *server) encodeMap(ctx context.Context, format string, mp *maps.Map, hint float64) (*reply, error) {
+func (s *server) encodeMap(ctx context.Context, format string, mp *maps.Map) (*reply, error) {
 	runHook(&testHookEncode, ctx)
 	switch format {
 	case "grid":
-		return s.encodeJSON(gridDocument(mp), echo.MIMEApplicationJSON, hint, mapReduce...)
+		return s.encodeJSON(gridDocument(mp), echo.MIMEApplicationJSON, mapReduce...)
 	case "csv":
 		return s.capBytes(&reply{contentType: mimeCSV + "; charset=utf-8", body: gridCSV(mp)}, mapReduce...)
 	}
-	return s.encodeJSON(newOutlineCollection(mp), mimeGeoJSON, hint, mapReduce...)
+	return s.encodeJSON(newOutlineCollection(mp), mimeGeoJSON, mapReduce...)
 }
 
 // negotiateMap picks geojson (default; also for application/json), grid or

@@ -322,7 +322,10 @@ func sourceRows(s plume.Source, d plume.Derived, u plume.Units) []inputRow {
 	}
 	rows = appendGiven(rows,
 		func() (inputRow, bool) { return given("Concentration", "source.concentration", s.Concentration, C) },
-		func() (inputRow, bool) { return given("Released mass", "source.mass", s.Mass, "kg") },
+		func() (inputRow, bool) { return given(massLabel(s), "source.mass", s.Mass, "kg") },
+		func() (inputRow, bool) {
+			return given("Depletion exponent", "source.depletion_exponent", s.DepletionExponent, "–")
+		},
 		func() (inputRow, bool) { return given("Width", "source.width", s.Width, L) },
 		func() (inputRow, bool) { return given("Depth below the water table", "source.depth", s.Depth, L) })
 	rows = append(rows,
@@ -359,5 +362,44 @@ func modelRows(d plume.Derived, u plume.Units) []inputRow {
 	}
 	rows = append(rows, inputRow{Name: "Reporting floor", Value: fmtReportNumber(d.ConcentrationFloor), Unit: C, Basis: basisDerived,
 		How: fmt.Sprintf("%g of %s; values below it are reported as 0 and printed \u201c%s\u201d", plume.ConcentrationFloorFraction, of, floorText)})
+	return append(rows, sourceMassRows(d, u)...)
+}
+
+// massLabel names source.mass: a released mass, or with a concentration
+// the source's dissolvable mass.
+func massLabel(src plume.Source) string {
+	if src.Concentration != nil {
+		return "Dissolvable source mass"
+	}
+	return "Released mass"
+}
+
+// sourceMassRows lists the depletion of each source with a mass: its
+// rate, when it falls below the screening level and when its mass is gone.
+func sourceMassRows(d plume.Derived, u plume.Units) []inputRow {
+	var rows []inputRow
+	orNever := func(p *float64) string {
+		if p == nil {
+			return "never"
+		}
+		return fmtReportNumber(*p)
+	}
+	for _, sd := range d.Sources {
+		if sd.DepletionRate == nil {
+			continue
+		}
+		of := ""
+		if sd.ID != "" {
+			of = " (" + sd.ID + ")"
+		}
+		rows = append(rows,
+			inputRow{Name: "Source depletion rate" + of, Value: fmtReportNumber(*sd.DepletionRate), Unit: "1/" + u.Time, Basis: basisDerived,
+				How: "Q C0 / M0 with Q = n_e v W D (source mass; Falta, Rao & Basu 2005)"},
+			inputRow{Name: "Source mass exhausted" + of, Value: orNever(sd.TimeMassExhausted), Unit: u.Time, Basis: basisDerived, How: "on the scenario's clock"})
+		if d.ScreeningLevel != nil {
+			rows = append(rows, inputRow{Name: "Source below the screening level" + of, Value: orNever(sd.TimeBelowScreeningLevel), Unit: u.Time,
+				Basis: basisDerived, How: "on the scenario's clock"})
+		}
+	}
 	return rows
 }

@@ -57,7 +57,6 @@ func (s *server) screenings(c echo.Context) error {
 // budget.
 func (s *server) encodeScreening(ctx context.Context, format outputFormat, sc plume.Scenario, res *plume.Result) (*reply, error) {
 	runHook(&testHookEncode, ctx)
-	hint := screeningSize(sc, format)
 	switch format {
 	case formatCSV:
 		b, ok := encodeCSV(sc, res)
@@ -67,9 +66,9 @@ func (s *server) encodeScreening(ctx context.Context, format outputFormat, sc pl
 		return s.capBytes(&reply{contentType: mimeCSV + "; charset=utf-8; header=present", body: b,
 			header: [][2]string{{"Content-Disposition", `inline; filename="screening.csv"`}}}, "receptors", "times", "methods")
 	case formatGeoJSON:
-		return s.encodeJSON(buildGeoJSON(sc, res), mimeGeoJSON, hint, "receptors", "times", "methods")
+		return s.encodeJSON(buildGeoJSON(sc, res), mimeGeoJSON, "receptors", "times", "methods")
 	}
-	return s.encodeJSON(res, echo.MIMEApplicationJSON, hint, "receptors", "times", "methods")
+	return s.encodeJSON(res, echo.MIMEApplicationJSON, "receptors", "times", "methods")
 }
 
 // scenarioBody is the request body: a scenario plus the free text the

@@ -69,6 +69,9 @@ func recordKind(rec map[string]json.RawMessage) string { return jsonString(rec["
 type streamCase struct {
 	name string
 	body func(t *testing.T) map[string]any
+	// codes are caveat codes the case must give for several receptors
+	// (caveats that Model.Screen lists apart from the receptors' own).
+	codes []string
 }
 
 // The streamed answer is the answer that is not streamed, value for value:
@@ -80,12 +83,22 @@ type streamCase struct {
 func TestStreamEqualsJSON(t *testing.T) {
 	ts := newTestServer(t, Config{})
 	cases := []streamCase{
-		{"demo grid, 3 parts and a bit", func(t *testing.T) map[string]any { return gridScenario(t, 3*streamChunk+17) }},
+		{"demo grid, 3 parts and a bit", func(t *testing.T) map[string]any { return gridScenario(t, 3*streamChunk+17) }, nil},
+		{"a source of finite mass", func(t *testing.T) map[string]any {
+			m := readDemo(t, "source-mass.json")
+			m["methods"] = []any{"exact", "domenico"}
+			rs := append(m["receptors"].([]any), gridReceptors(8)...)
+			for d := 650.0; d < 1200; d += 100 { // far down the flow (azimuth 110 degrees)
+				rs = append(rs, map[string]any{"id": fmt.Sprintf("F-%g", d), "x": 1250 + 0.9397*d, "y": 830 - 0.3420*d, "z": 1})
+			}
+			m["receptors"] = rs
+			return m
+		}, []string{plume.CaveatAllowableNotReached}},
 		{"two sources and a transect", func(t *testing.T) map[string]any {
 			m := readDemo(t, "sources-and-brook.json")
 			m["methods"] = []any{"exact", "domenico"}
 			return m
-		}},
+		}, nil},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -102,6 +115,17 @@ func TestStreamEqualsJSON(t *testing.T) {
 			rec := ts.call(t, http.MethodPost, "/v1/screenings?format=ndjson", body, nil)
 			if rec.Code != 200 || rec.Header().Get("Content-Type") != mimeNDJSON {
 				t.Fatalf("streamed: %d %s %.400s", rec.Code, rec.Header().Get("Content-Type"), rec.Body.String())
+			}
+			for _, code := range tc.codes {
+				n := 0
+				for _, c := range want.Caveats {
+					if c.Code == code {
+						n++
+					}
+				}
+				if n < 2 {
+					t.Fatalf("%d caveats %s, want several", n, code)
+				}
 			}
 			compareNDJSON(t, rec.Body.Bytes(), &want)
 			if got := rec.Header().Get(headerInputHash); got != want.Engine.InputSHA256 {

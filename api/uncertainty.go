@@ -42,7 +42,7 @@ func (s *server) uncertainty(c echo.Context) error {
 		if err != nil {
 			return nil, err
 		}
-		return s.encodeUncertainty(ctx, format, sc, res, size)
+		return s.encodeUncertainty(ctx, format, sc, res)
 	})
 	if p != nil {
 		return p
@@ -112,14 +112,14 @@ var uncertaintyReduce = []string{"scenario.receptors", "scenario.times", "method
 
 // encodeUncertainty encodes an uncertainty result in format within the
 // output budget.
-func (s *server) encodeUncertainty(ctx context.Context, format outputFormat, sc plume.Scenario, res *uncertainty.UncertaintyResult, hint float64) (*reply, error) {
+func (s *server) encodeUncertainty(ctx context.Context, format outputFormat, sc plume.Scenario, res *uncertainty.UncertaintyResult) (*reply, error) {
 	runHook(&testHookEncode, ctx)
 	switch format {
 	case formatCSV:
 		return s.capBytes(&reply{contentType: mimeCSV + "; charset=utf-8; header=present", body: encodeUncertaintyCSV(sc, res),
 			header: [][2]string{{"Content-Disposition", `inline; filename="uncertainty.csv"`}}}, uncertaintyReduce...)
 	case formatGeoJSON:
-		return s.encodeJSON(buildUncertaintyGeoJSON(sc, res), mimeGeoJSON, hint, uncertaintyReduce...)
+		return s.encodeJSON(buildUncertaintyGeoJSON(sc, res), mimeGeoJSON, uncertaintyReduce...)
 	}
-	return s.encodeJSON(res, echo.MIMEApplicationJSON, hint, uncertaintyReduce...)
+	return s.encodeJSON(res, echo.MIMEApplicationJSON, uncertaintyReduce...)
 }

@@ -47,6 +47,17 @@ const (
 	// No closed form gives a compound formed by decay (3D, different
 	// retardation factors): the numeric values are the answer.
 	CaveatClosedFormUnavailable = "closed_form_unavailable"
+	// A source's mass cannot sustain its concentration over the requested
+	// times (exhausted, or below SourceSustainFraction of it, before the
+	// last requested time).
+	CaveatSourceMassInsufficient = "source_mass_insufficient"
+	// A source with a mass has a concentration near its solubility (at or
+	// above SeparatePhaseFraction of it): a separate phase is likely, and
+	// the dissolvable mass given is a lower bound.
+	CaveatSeparatePhaseLikely = "source_mass_separate_phase_likely"
+	// With the source masses given, no source concentration brings the
+	// receptor to the screening level within the requested times.
+	CaveatAllowableNotReached = "allowable_not_reached_with_mass"
 )
 
 // ScreeningCaution is the message of the general caution on every result.

@@ -118,7 +118,7 @@ type sourceParams struct {
 	lag        float64 // start - the first source's start, d
 	kind       string
 	c0         float64 // source concentration, mg/L
-	massKg     float64 // instantaneous mass, kg
+	massKg     float64 // instantaneous mass, or a continuous source's dissolvable mass M0, kg
 	width      float64 // source width, m (+Inf for 1D)
 	depth      float64 // source depth, m (+Inf for 1D)
 	relDepth   float64 // release depth of an instantaneous mass, m
@@ -126,12 +126,14 @@ type sourceParams struct {
 	start      float64 // source start, d
 	duration   float64 // release duration, d (+Inf = continuous)
 	depletion  float64 // source depletion rate, 1/d
+	rate       float64 // depletion by mass, k = Q C0/M0, 1/d (0: no source mass)
+	gamma      float64 // power-law exponent of the source function (with rate)
 	inlet      string  // 1D inlet
 }
 
 // continuous reports whether the source strength is constant forever.
 func (s *sourceParams) continuous() bool {
-	return s.kind != SourceKindInstantaneous && math.IsInf(s.duration, 1) && s.depletion == 0
+	return s.kind != SourceKindInstantaneous && math.IsInf(s.duration, 1) && s.depletion == 0 && s.rate == 0
 }
 
 // derive computes the transport parameters of a validated canonical
@@ -342,6 +344,9 @@ func (m *model) deriveSources(c Scenario) {
 			m.extra = append(m.extra, sp)
 		}
 	}
+	for i := range m.sourceCount() {
+		m.setDepletionRate(m.source(i))
+	}
 	m.derived.SourceKind = m.kind
 	if m.kind == SourceKind1D {
 		m.derived.Inlet = m.inlet
@@ -359,7 +364,7 @@ func newSourceParams(s Source, defID string) sourceParams {
 		sp.start = *s.Start
 	}
 	switch {
-	case s.Mass != nil:
+	case s.instantaneous():
 		sp.kind = SourceKindInstantaneous
 		sp.massKg = *s.Mass
 		if s.ReleaseDepth != nil {
@@ -384,7 +389,25 @@ func newSourceParams(s Source, defID string) sourceParams {
 	if s.HalfLife != nil {
 		sp.depletion = DecayRate(*s.HalfLife)
 	}
+	if s.depletesByMass() {
+		sp.massKg = *s.Mass
+		sp.gamma = derefOr(s.DepletionExponent, DefaultDepletionExponent)
+	}
 	return sp
+}
+
+// DefaultDepletionExponent is the power-law exponent of a source mass
+// when source.depletion_exponent is not given: 1, exponential depletion.
+const DefaultDepletionExponent = 1.0
+
+// setDepletionRate sets the depletion rate k = Q C0/M0, 1/d, of a source
+// with a dissolvable mass: Q = n_e v W D (m^3/d) times C0 (mg/L = g/m^3)
+// is the mass discharge in g/d, over M0 in g.
+func (m *model) setDepletionRate(s *sourceParams) {
+	if s.kind == SourceKindInstantaneous || !(s.massKg > 0) {
+		return
+	}
+	s.rate = m.faceFlow(s) * s.c0 / (s.massKg * 1000)
 }
 
 // Ptr returns a pointer to a copy of v.

@@ -3,6 +3,7 @@ package plume
 import (
 	"context"
 	"fmt"
+	"sort"
 
 	"downgradient/internal/crs"
 )
@@ -110,6 +111,9 @@ func (l *Layer) newHead(run methods) Result {
 		res.caveat(CaveatOneDimensional, SeverityNote, "", "%s", oneDimensionalMessage)
 	}
 	l.before = len(res.Caveats)
+	// After the receptors' own caveats, as Model.Screen orders them: the
+	// source mass's, then the CRS's.
+	m.sourceMassCaveats(&res, l.sp.taus, l.fm)
 	crsCaveat(&res, md.sc)
 	res.fromCanonical(md.uf)
 	res.sanitize()
@@ -172,8 +176,10 @@ func (l *Layer) point(i int, r Receptor) Point {
 // Screen screens receptors first, first+1, ... (rs, each passed by
 // CheckReceptor) and returns them as a Result in request units: Receptors
 // as Model.Screen gives them, Caveats the result-wide ones with the
-// receptors' own in the order Model.Screen has them (so that CaveatCodes
-// and Focus work on it), Derived the layer's, AllowableScaleFactor the
+// receptors' own between them where Model.Screen has them (so that
+// CaveatCodes and Focus work on it), receptor by receptor (Model.Screen
+// lists the caveats of the allowances after every receptor's own: the
+// same caveats, each receptor's together here), Derived the layer's, AllowableScaleFactor the
 // worst of these receptors (several sources). Summary is left empty: add
 // the part to a Tally. The error is ctx's when it ended.
 func (l *Layer) Screen(ctx context.Context, first int, rs []Receptor) (*Result, error) {
@@ -197,12 +203,17 @@ func (l *Layer) Screen(ctx context.Context, first int, rs []Receptor) (*Result, 
 		m.contributions(res, pts, sp)
 	}
 	if len(m.compounds) == 0 {
-		m.allowances(res, pts, sp)
+		m.allowances(ctx, res, pts, sp)
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 	}
+	computed := res.Caveats // the allowances' caveats, each a receptor's
+	res.Caveats = nil
 	for k := range res.Receptors {
 		m.receptorCaveats(res, &res.Receptors[k], pts[k], l.opt, l.fm)
 	}
-	own := res.Caveats
+	own := byReceptor(append(res.Caveats, computed...), res.Receptors)
 	res.Caveats = make([]Caveat, 0, len(l.head.Caveats)+len(own))
 	res.Caveats = append(append(append(res.Caveats, l.head.Caveats[:l.before]...), own...), l.head.Caveats[l.before:]...)
 	floor := l.head.Derived.ConcentrationFloor
@@ -216,8 +227,27 @@ func (l *Layer) Screen(ctx context.Context, first int, rs []Receptor) (*Result, 
 	return res, nil
 }
 
+// byReceptor orders caveats of receptors receptor by receptor, in the
+// order of rrs, each receptor's in the order given (a stable sort; a
+// caveat of no receptor of rrs goes last). It sorts cs in place.
+func byReceptor(cs []Caveat, rrs []ReceptorResult) []Caveat {
+	at := make(map[string]int, len(rrs))
+	for k, rr := range rrs {
+		at[rr.ID] = k
+	}
+	pos := func(c Caveat) int {
+		if k, ok := at[c.ReceptorID]; ok {
+			return k
+		}
+		return len(rrs)
+	}
+	sort.SliceStable(cs, func(a, b int) bool { return pos(cs[a]) < pos(cs[b]) })
+	return cs
+}
+
 // OwnCaveats are the caveats of the receptors of a part that Screen
-// returned (without the result-wide ones).
+// returned (without the result-wide ones), receptor by receptor in input
+// order.
 func (l *Layer) OwnCaveats(part *Result) []Caveat {
 	after := len(l.head.Caveats) - l.before
 	return part.Caveats[l.before : len(part.Caveats)-after]

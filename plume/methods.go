@@ -111,8 +111,11 @@ func (m *model) aquiferFor(p Point) *aquiferParams {
 	return &m.aquiferParams
 }
 
+// history is the source's history for the closed forms: a duration, an
+// exponential depletion, or (with a source mass) the power-law depletion
+// at the rate Q C0/M0.
 func (s *sourceParams) history() analytic.History {
-	return analytic.History{Duration: s.duration, Depletion: s.depletion}
+	return analytic.History{Duration: s.duration, Depletion: s.depletion, Rate: s.rate, Exponent: s.gamma}
 }
 
 func (s *sourceParams) plumeSource() analytic.Source {
@@ -123,6 +126,9 @@ func (s *sourceParams) plumeSource() analytic.Source {
 func (s *sourceParams) strength(tau float64) float64 {
 	if !(tau > 0) || tau >= s.duration {
 		return 0
+	}
+	if s.rate > 0 {
+		return s.c0 * s.history().Fraction(tau)
 	}
 	if s.depletion == 0 {
 		return s.c0

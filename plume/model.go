@@ -154,7 +154,8 @@ func (md *Model) TransportAt(p Point) Transport {
 func (md *Model) SourceTerm() SourceTerm {
 	m := md.m
 	return SourceTerm{Kind: m.kind, Concentration: m.c0, Mass: m.massKg, Width: m.width, Depth: m.depth,
-		ReleaseDepth: m.relDepth, Start: m.start, Duration: m.duration, Depletion: m.depletion, Continuous: m.allContinuous()}
+		ReleaseDepth: m.relDepth, Start: m.start, Duration: m.duration, Depletion: m.depletion,
+		DepletionRate: m.rate, DepletionExponent: m.gamma, Continuous: m.allContinuous()}
 }
 
 // ScreeningLevel is the screening level used, mg/L; ok is false when none is known.
@@ -193,13 +194,17 @@ type Transport struct {
 type SourceTerm struct {
 	Kind          string  // SourceKind3D, SourceKind1D or SourceKindInstantaneous
 	Concentration float64 // C0, mg/L (continuous sources)
-	Mass          float64 // released mass, kg (instantaneous)
+	Mass          float64 // released mass (instantaneous), or dissolvable mass M0 (continuous), kg
 	Width, Depth  float64 // m; +Inf for a column
 	ReleaseDepth  float64 // depth of an instantaneous release, m
 	Start         float64 // d
 	Duration      float64 // d; +Inf: continuous
 	Depletion     float64 // 1/d; 0: constant strength
-	Continuous    bool    // constant strength forever
+	// Depletion by the source mass: the rate Q C0/M0, 1/d (0: no source
+	// mass), and the exponent of the power-law source function.
+	DepletionRate     float64
+	DepletionExponent float64
+	Continuous        bool // constant strength forever
 }
 
 // Status says whether and how the model covers a place.

@@ -101,7 +101,7 @@ type numericOutput struct {
 
 // solveNumeric runs the 1D or 3D solver for the receptors idx at times.
 func (m *model) solveNumeric(ctx context.Context, aq *aquiferParams, pts []Point, idx []int, times []float64, budget int) (numericOutput, error) {
-	hist := numeric.History{Duration: m.duration, Depletion: m.depletion}
+	hist := m.sourceParams.numericHistory()
 	if m.kind == SourceKind1D {
 		inlet := numeric.InletConcentration
 		if m.inlet == InletFlux {
@@ -143,7 +143,7 @@ func (m *model) solveNumeric(ctx context.Context, aq *aquiferParams, pts []Point
 				x, y = m.frame.ToPlume(s.frame.X0, s.frame.Y0)
 			}
 			pb.Sources = append(pb.Sources, numeric.SourceFace{X: x, Y: y, Width: s.width, Depth: s.depth,
-				Strength: s.c0 / scale, History: numeric.History{Duration: s.duration, Depletion: s.depletion}})
+				Strength: s.c0 / scale, History: s.numericHistory()})
 		}
 	}
 	r, err := numeric.Screen3D(ctx, pb)
@@ -158,6 +158,12 @@ func (m *model) solveNumeric(ctx context.Context, aq *aquiferParams, pts []Point
 		}
 	}
 	return numericOutput{solver: SourceKind3D, c: r.C, grid: r.Grid, budget: r.Budget}, err
+}
+
+// numericHistory is the source's history for the finite-volume solver
+// (the same as history's for the closed forms).
+func (s *sourceParams) numericHistory() numeric.History {
+	return numeric.History{Duration: s.duration, Depletion: s.depletion, Rate: s.rate, Exponent: s.gamma}
 }
 
 // numericValues spreads the solver's values (c, per receptor of idx and

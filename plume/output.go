@@ -66,7 +66,11 @@ func (d *Derived) fromCanonical(f unitFactors) {
 	d.ScreeningLevel = scaled(d.ScreeningLevel, 1/C)
 	d.Solubility = scaled(d.Solubility, 1/C)
 	for i := range d.Sources {
-		d.Sources[i].MassDischarge = scaled(d.Sources[i].MassDischarge, 1/f.M)
+		sd := &d.Sources[i]
+		sd.MassDischarge = scaled(sd.MassDischarge, 1/f.M)
+		sd.DepletionRate = scaled(sd.DepletionRate, T)
+		sd.TimeBelowScreeningLevel = scaled(sd.TimeBelowScreeningLevel, 1/T)
+		sd.TimeMassExhausted = scaled(sd.TimeMassExhausted, 1/T)
 	}
 	for i := range d.Compounds {
 		cd := &d.Compounds[i]
@@ -287,6 +291,9 @@ func (r *Result) sanitizeExtras() {
 		cleanP(a.WithinTimes)
 	}
 	for i := range r.Derived.Sources {
-		cleanP(r.Derived.Sources[i].MassDischarge)
+		sd := &r.Derived.Sources[i]
+		for _, p := range []*float64{sd.MassDischarge, sd.DepletionRate, sd.TimeBelowScreeningLevel, sd.TimeMassExhausted} {
+			cleanP(p)
+		}
 	}
 }

@@ -60,6 +60,11 @@ func (m *model) sample(f func(float64) float64, p Point, extra []float64) timeli
 		if s.depletion > 0 {
 			hi = math.Max(hi, s.lag+50/s.depletion)
 		}
+		if ex := s.exhausted(); s.rate > 0 && !math.IsInf(ex, 1) {
+			hi = math.Max(hi, 10*(s.lag+ex+t0))
+		} else if s.rate > 0 {
+			hi = math.Max(hi, s.lag+50/s.rate)
+		}
 	}
 	taus := make([]float64, 0, scanSamples(lo, hi)+8+len(extra))
 	for i := range scanSamples(lo, hi) {
@@ -70,6 +75,9 @@ func (m *model) sample(f func(float64) float64, p Point, extra []float64) timeli
 		s := m.source(i)
 		if !math.IsInf(s.duration, 1) {
 			taus = append(taus, s.lag+t0+s.duration/2, s.lag+t0+s.duration, s.lag+s.duration)
+		}
+		if ex := s.exhausted(); !math.IsInf(ex, 1) {
+			taus = append(taus, s.lag+t0+ex/2, s.lag+t0+ex, s.lag+ex)
 		}
 		if s.lag > 0 {
 			taus = append(taus, s.lag)

@@ -158,7 +158,10 @@ func (k Constituent) contaminant() Contaminant {
 }
 
 // Source describes the release. A continuous source has Concentration; an
-// instantaneous release (spill) has Mass instead. A source with Width and
+// instantaneous release (spill) has Mass instead. Concentration and Mass
+// together are a continuous planar source whose dissolvable mass drains by
+// the water flowing through its face (the power-law source function with
+// DepletionExponent; see docs/source-mass.md). A source with Width and
 // Depth is a vertical rectangle (3D methods); with neither it is a 1D column
 // (Ogata-Banks) whose inlet type is Inlet.
 type Source struct {
@@ -182,8 +185,15 @@ type Source struct {
 	Duration *float64 `json:"duration"`
 	// Half-life of exponential source depletion, T, > 0; null means constant strength.
 	HalfLife *float64 `json:"half_life"`
-	// Mass released instantaneously at Start, kg, > 0 (spill); replaces Concentration.
+	// Mass, kg, > 0. Alone: released instantaneously at Start (spill).
+	// With Concentration: the continuous source's dissolvable mass M0,
+	// which the water flux Q = n_e v W D through the face drains at
+	// dM/dt = -Q Cs (3D sources only; not with HalfLife or Duration).
 	Mass *float64 `json:"mass"`
+	// Exponent Gamma of the power-law source function Cs/C0 = (M/M0)^Gamma
+	// of a source with Mass and Concentration, dimensionless, in (0, 10];
+	// default 1 (exponential depletion at the rate Q C0/M0).
+	DepletionExponent *float64 `json:"depletion_exponent,omitempty"`
 	// Depth of an instantaneous release below the water table, L, >= 0; default 0.
 	ReleaseDepth *float64 `json:"release_depth"`
 	// Inlet condition of the 1D column: "concentration" (first type, default)
@@ -251,6 +261,14 @@ const (
 	InletConcentration = "concentration"
 	InletFlux          = "flux"
 )
+
+// instantaneous reports whether s is an instantaneous release: a mass
+// without a concentration.
+func (s Source) instantaneous() bool { return s.Mass != nil && s.Concentration == nil }
+
+// depletesByMass reports whether s is a continuous source with a
+// dissolvable mass (a mass and a concentration).
+func (s Source) depletesByMass() bool { return s.Mass != nil && s.Concentration != nil }
 
 // PrimarySource is the scenario's source, or the first of several.
 func (sc Scenario) PrimarySource() Source {

@@ -77,9 +77,13 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 		m.contributions(res, pts, sp)
 	}
 	if len(m.compounds) == 0 {
-		m.allowances(res, pts, sp)
+		m.allowances(ctx, res, pts, sp)
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 	}
 	res.Transects = m.screenTransects(c, sp)
+	m.sourceMassCaveats(res, sp.taus, fmtr{u: md.units, f: md.uf})
 	m.addCaveats(res, pts, run, opt, md.units, md.uf)
 	crsCaveat(res, md.sc)
 	res.fromCanonical(md.uf)

@@ -1,10 +1,16 @@
 package plume
 
-import "math"
+import (
+	"context"
+	"math"
+)
 
 // deriveSourceReport lists each source's initial mass discharge Q C0, with
 // Q the Darcy flux through its face n_e v W D (canonical g/d), in
-// Derived.Sources; the depletion fields stay null without a source mass.
+// Derived.Sources; with a source mass also its depletion rate Q C0/M0
+// (1/d) and, on the scenario's clock (d), when the source concentration
+// falls below the screening level and when the mass is gone (null when
+// never); the depletion fields stay null without a source mass.
 func (m *model) deriveSourceReport() {
 	m.derived.Sources = make([]SourceDerived, m.sourceCount())
 	for i := range m.sourceCount() {
@@ -13,8 +19,29 @@ func (m *model) deriveSourceReport() {
 		if q := m.faceFlow(s); q > 0 {
 			sd.MassDischarge = Ptr(q * s.c0)
 		}
+		if s.rate > 0 {
+			h := s.history()
+			sd.DepletionRate = Ptr(s.rate)
+			if ex := h.Exhausted(); !math.IsInf(ex, 1) {
+				sd.TimeMassExhausted = Ptr(s.start + ex)
+			}
+			if m.screening != nil {
+				if tb := h.TimeBelow(*m.screening / s.c0); !math.IsInf(tb, 1) {
+					sd.TimeBelowScreeningLevel = Ptr(s.start + tb)
+				}
+			}
+		}
 		m.derived.Sources[i] = sd
 	}
+}
+
+// exhausted is the elapsed time, d, at which the source's dissolvable
+// mass is gone (+Inf: never, or no source mass).
+func (s *sourceParams) exhausted() float64 {
+	if !(s.rate > 0) {
+		return math.Inf(1)
+	}
+	return s.history().Exhausted()
 }
 
 // faceFlow is the water flux through a planar source's face, n_e v W D,
@@ -50,18 +77,26 @@ func primaryValues(rr *ReceptorResult, exact bool) (times []float64, steady floa
 // source) or the allowable scale factor of every source (several), at
 // steady state and within the requested times: the model is linear in the
 // source concentrations, so the receptor just reaches the level at C0
-// level / C. A member is null where the receptor's value is 0, the
-// receptor is not modelled, or (steady state) the sources are not constant.
-func (m *model) allowances(res *Result, pts []Point, sp screenPlan) {
+// level / C. With a source mass the depletion rate Q C0/M0 grows with the
+// concentration and the receptor's value is not proportional to it: the
+// factor within the requested times is then the smallest that reaches the
+// level at the given masses (massScale), and null (with the caveat
+// allowable_not_reached_with_mass) when none does. The dilution
+// attenuation factor is always the given source concentration over the
+// receptor's. A member is null where the receptor's value is 0, the
+// receptor is not modelled, or (steady state) the sources are not
+// constant. It stops early, leaving the rest null, when ctx ends.
+func (m *model) allowances(ctx context.Context, res *Result, pts []Point, sp screenPlan) {
 	if m.screening == nil || m.kind == SourceKindInstantaneous {
 		return
 	}
 	level := *m.screening
 	several := len(m.extra) > 0
+	byMass := m.depletesByMass()
 	var worst Allowance
 	for i := range res.Receptors {
 		rr := &res.Receptors[i]
-		if pts[i].upgradient() {
+		if pts[i].upgradient() || ctx.Err() != nil {
 			continue
 		}
 		times, steady := primaryValues(rr, sp.primaryExact)
@@ -73,6 +108,15 @@ func (m *model) allowances(res *Result, pts []Point, sp screenPlan) {
 			steady = 0
 		}
 		scale := Allowance{SteadyState: ratio(level, steady), WithinTimes: ratio(level, within)}
+		if byMass && scale.WithinTimes != nil {
+			scale.WithinTimes = nil
+			if f, ok := m.massScale(ctx, pts[i], sp, level); ok {
+				scale.WithinTimes = Ptr(f)
+			} else if ctx.Err() == nil {
+				res.caveat(CaveatAllowableNotReached, SeverityNote, rr.ID,
+					"With the source mass given, no source concentration brings this receptor to the screening level within the requested times (a higher concentration drains the mass faster): allowable_source_concentration.within_times (allowable_scale_factor with several sources) is null here.")
+			}
+		}
 		if several {
 			rr.AllowableScaleFactor = &scale
 			worst.SteadyState = minPtr(worst.SteadyState, scale.SteadyState)

@@ -130,50 +130,14 @@ func scaled(p *float64, k float64) *float64 {
 // Units set to the canonical names. sc must have valid unit names.
 func toCanonical(sc Scenario) Scenario {
 	f, _ := sc.Units.factors()
-	L, T, C := f.L, f.T, f.C
 	out := sc
 	out.Units = Units{Length: LengthMetre, Time: TimeDay, Concentration: ConcMgL}
-	K := f.K
-
-	a := sc.Aquifer
-	out.Aquifer = Aquifer{
-		HydraulicConductivity: scaled(a.HydraulicConductivity, K),
-		HydraulicGradient:     scaled(a.HydraulicGradient, 1),
-		EffectivePorosity:     scaled(a.EffectivePorosity, 1),
-		SeepageVelocity:       scaled(a.SeepageVelocity, L/T),
-		BulkDensity:           scaled(a.BulkDensity, 1),
-		OrganicCarbonFraction: scaled(a.OrganicCarbonFraction, 1),
-		EffectiveDiffusion:    scaled(a.EffectiveDiffusion, L*L/T),
-		DispersivityScale:     scaled(a.DispersivityScale, L),
-	}
-	if a.Dispersivity != nil {
-		out.Aquifer.Dispersivity = &Dispersivity{
-			Longitudinal: scaled(a.Dispersivity.Longitudinal, L),
-			Transverse:   scaled(a.Dispersivity.Transverse, L),
-			Vertical:     scaled(a.Dispersivity.Vertical, L),
-		}
-	}
-
-	c := sc.Contaminant
-	out.Contaminant = Contaminant{
-		Name:             c.Name,
-		Koc:              scaled(c.Koc, 1),
-		HalfLife:         scaled(c.HalfLife, T),
-		UseTableHalfLife: c.UseTableHalfLife,
-		Retardation:      scaled(c.Retardation, 1),
-		ScreeningLevel:   scaled(c.ScreeningLevel, C),
-		Solubility:       scaled(c.Solubility, C),
-		DecayAppliesTo:   c.DecayAppliesTo,
-	}
-
+	out.Aquifer = canonicalAquifer(sc.Aquifer, f)
+	out.Contaminant = canonicalContaminant(sc.Contaminant, f)
 	if len(sc.Contaminants) > 0 {
 		out.Contaminants = make([]Constituent, len(sc.Contaminants))
 		for i, k := range sc.Contaminants {
-			out.Contaminants[i] = k
-			out.Contaminants[i].SourceConcentration = scaled(k.SourceConcentration, C)
-			out.Contaminants[i].HalfLife = scaled(k.HalfLife, T)
-			out.Contaminants[i].ScreeningLevel = scaled(k.ScreeningLevel, C)
-			out.Contaminants[i].Solubility = scaled(k.Solubility, C)
+			out.Contaminants[i] = canonicalConstituent(k, f)
 		}
 	}
 	out.Source = canonicalSource(sc.Source, f)
@@ -186,35 +150,94 @@ func toCanonical(sc Scenario) Scenario {
 	if len(sc.Transects) > 0 {
 		out.Transects = make([]Transect, len(sc.Transects))
 		for i, tr := range sc.Transects {
-			out.Transects[i] = Transect{
-				ID:             tr.ID,
-				From:           [2]float64{tr.From[0] * L, tr.From[1] * L},
-				To:             [2]float64{tr.To[0] * L, tr.To[1] * L},
-				Top:            scaled(tr.Top, L),
-				Bottom:         scaled(tr.Bottom, L),
-				StreamFlow:     scaled(tr.StreamFlow, L*L*L/T),
-				ScreeningLevel: scaled(tr.ScreeningLevel, C),
-			}
+			out.Transects[i] = canonicalTransect(tr, f)
 		}
 	}
-
 	out.Receptors = make([]Receptor, len(sc.Receptors))
 	for i, r := range sc.Receptors {
-		out.Receptors[i] = Receptor{
-			ID:           r.ID,
-			X:            scaled(r.X, L),
-			Y:            scaled(r.Y, L),
-			Z:            scaled(r.Z, L),
-			ScreenTop:    scaled(r.ScreenTop, L),
-			ScreenBottom: scaled(r.ScreenBottom, L),
-		}
+		out.Receptors[i] = canonicalReceptor(r, f)
 	}
 	out.Times = make([]float64, len(sc.Times))
 	for i, t := range sc.Times {
-		out.Times[i] = t * T
+		out.Times[i] = t * f.T
 	}
 	out.Methods = append([]string(nil), sc.Methods...)
 	return out
+}
+
+// canonicalAquifer converts the aquifer's dimensional fields (factors f:
+// request unit -> canonical; the conductivity by f.K, its own unit).
+func canonicalAquifer(a Aquifer, f unitFactors) Aquifer {
+	L, T := f.L, f.T
+	out := Aquifer{
+		HydraulicConductivity: scaled(a.HydraulicConductivity, f.K),
+		HydraulicGradient:     scaled(a.HydraulicGradient, 1),
+		EffectivePorosity:     scaled(a.EffectivePorosity, 1),
+		SeepageVelocity:       scaled(a.SeepageVelocity, L/T),
+		BulkDensity:           scaled(a.BulkDensity, 1),
+		OrganicCarbonFraction: scaled(a.OrganicCarbonFraction, 1),
+		EffectiveDiffusion:    scaled(a.EffectiveDiffusion, L*L/T),
+		DispersivityScale:     scaled(a.DispersivityScale, L),
+	}
+	if a.Dispersivity != nil {
+		out.Dispersivity = &Dispersivity{
+			Longitudinal: scaled(a.Dispersivity.Longitudinal, L),
+			Transverse:   scaled(a.Dispersivity.Transverse, L),
+			Vertical:     scaled(a.Dispersivity.Vertical, L),
+		}
+	}
+	return out
+}
+
+// canonicalContaminant converts the single-compound form's fields.
+func canonicalContaminant(c Contaminant, f unitFactors) Contaminant {
+	return Contaminant{
+		Name:             c.Name,
+		Koc:              scaled(c.Koc, 1),
+		HalfLife:         scaled(c.HalfLife, f.T),
+		UseTableHalfLife: c.UseTableHalfLife,
+		Retardation:      scaled(c.Retardation, 1),
+		ScreeningLevel:   scaled(c.ScreeningLevel, f.C),
+		Solubility:       scaled(c.Solubility, f.C),
+		DecayAppliesTo:   c.DecayAppliesTo,
+	}
+}
+
+// canonicalConstituent converts one compound of contaminants[].
+func canonicalConstituent(k Constituent, f unitFactors) Constituent {
+	k.SourceConcentration = scaled(k.SourceConcentration, f.C)
+	k.HalfLife = scaled(k.HalfLife, f.T)
+	k.ScreeningLevel = scaled(k.ScreeningLevel, f.C)
+	k.Solubility = scaled(k.Solubility, f.C)
+	return k
+}
+
+// canonicalTransect converts a transect's line, depths, stream flow
+// (volume per time) and surface-water level.
+func canonicalTransect(tr Transect, f unitFactors) Transect {
+	L := f.L
+	return Transect{
+		ID:             tr.ID,
+		From:           [2]float64{tr.From[0] * L, tr.From[1] * L},
+		To:             [2]float64{tr.To[0] * L, tr.To[1] * L},
+		Top:            scaled(tr.Top, L),
+		Bottom:         scaled(tr.Bottom, L),
+		StreamFlow:     scaled(tr.StreamFlow, L*L*L/f.T),
+		ScreeningLevel: scaled(tr.ScreeningLevel, f.C),
+	}
+}
+
+// canonicalReceptor converts a receptor's position and screen.
+func canonicalReceptor(r Receptor, f unitFactors) Receptor {
+	L := f.L
+	return Receptor{
+		ID:           r.ID,
+		X:            scaled(r.X, L),
+		Y:            scaled(r.Y, L),
+		Z:            scaled(r.Z, L),
+		ScreenTop:    scaled(r.ScreenTop, L),
+		ScreenBottom: scaled(r.ScreenBottom, L),
+	}
 }
 
 // Finite reports whether x is neither NaN nor infinite.
@@ -239,18 +262,19 @@ func Clean(x float64) float64 {
 func canonicalSource(s Source, f unitFactors) Source {
 	L, T, C := f.L, f.T, f.C
 	return Source{
-		ID:             s.ID,
-		X:              scaled(s.X, L),
-		Y:              scaled(s.Y, L),
-		FlowAzimuthDeg: scaled(s.FlowAzimuthDeg, 1),
-		Concentration:  scaled(s.Concentration, C),
-		Width:          scaled(s.Width, L),
-		Depth:          scaled(s.Depth, L),
-		Start:          scaled(s.Start, T),
-		Duration:       scaled(s.Duration, T),
-		HalfLife:       scaled(s.HalfLife, T),
-		Mass:           scaled(s.Mass, 1),
-		ReleaseDepth:   scaled(s.ReleaseDepth, L),
-		Inlet:          s.Inlet,
+		ID:                s.ID,
+		X:                 scaled(s.X, L),
+		Y:                 scaled(s.Y, L),
+		FlowAzimuthDeg:    scaled(s.FlowAzimuthDeg, 1),
+		Concentration:     scaled(s.Concentration, C),
+		Width:             scaled(s.Width, L),
+		Depth:             scaled(s.Depth, L),
+		Start:             scaled(s.Start, T),
+		Duration:          scaled(s.Duration, T),
+		HalfLife:          scaled(s.HalfLife, T),
+		Mass:              scaled(s.Mass, 1),
+		DepletionExponent: scaled(s.DepletionExponent, 1),
+		ReleaseDepth:      scaled(s.ReleaseDepth, L),
+		Inlet:             s.Inlet,
 	}
 }

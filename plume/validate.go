@@ -19,9 +19,11 @@ import (
 //     table by name) + organic_carbon_fraction + bulk_density + effective_porosity;
 //   - half-lives > 0 or null; screening level and solubility > 0; Koc >= 0;
 //     decay_applies_to "total" or "dissolved";
-//   - source: exactly one of concentration (> 0) or mass (> 0); width and
-//     depth both or neither, > 0; start >= 0; duration > 0; inlet
-//     "concentration" or "flux" (flux only for a 1D column); an
+//   - source: concentration (> 0), mass (> 0, an instantaneous release),
+//     or both (a source depleting by its mass: width and depth,
+//     effective_porosity, no duration or half-life, depletion_exponent in
+//     (0, 10]); width and depth both or neither, > 0; start >= 0; duration
+//     > 0; inlet "concentration" or "flux" (flux only for a 1D column); an
 //     instantaneous mass needs effective_porosity and no duration or half-life;
 //   - at least one receptor, each with finite x and y, depths >= 0, both
 //     screen ends or neither with bottom >= top, unique ids;
@@ -281,20 +283,26 @@ func validateOneSource(fe *FieldErrors, sc Scenario, at string, s Source) {
 	fe.Check(path("half_life"), s.HalfLife, Positive)
 	fe.Check(path("mass"), s.Mass, Positive)
 	fe.Check(path("release_depth"), s.ReleaseDepth, NonNegative)
+	fe.Check(path("depletion_exponent"), s.DepletionExponent, depletionExponent)
 	switch {
 	case len(sc.Contaminants) > 0:
 		if s.Concentration != nil {
 			fe.Add(path("concentration"), "with contaminants, give each compound's source_concentration instead")
 		}
 		if s.Mass != nil {
-			fe.Add(path("mass"), "several compounds need a continuous source (each compound's source_concentration), not an instantaneous release")
+			fe.Add(path("mass"), "several compounds need a continuous source of constant strength (each compound's source_concentration), not an instantaneous release or a source mass")
 		}
 	case s.Concentration == nil && s.Mass == nil:
 		fe.Add(path("concentration"), "required (or source.mass for an instantaneous release)")
-	case s.Concentration != nil && s.Mass != nil:
-		fe.Add(path("mass"), "give either source.concentration (continuous source) or source.mass (instantaneous release), not both")
 	}
-	if s.Mass != nil {
+	if s.DepletionExponent != nil && !s.depletesByMass() {
+		fe.Add(path("depletion_exponent"), "applies only to a source with both a mass and a concentration (a source that depletes by its mass)")
+	}
+	switch {
+	case s.depletesByMass():
+		validateSourceMass(fe, sc, path, s)
+		return
+	case s.Mass != nil:
 		if s.Duration != nil {
 			fe.Add(path("duration"), "must be null for an instantaneous release (source.mass)")
 		}
@@ -312,6 +320,11 @@ func validateOneSource(fe *FieldErrors, sc Scenario, at string, s Source) {
 	if s.ReleaseDepth != nil {
 		fe.Add(path("release_depth"), "applies only to an instantaneous release (source.mass)")
 	}
+	validateSourceShape(fe, path, s)
+}
+
+// validateSourceShape checks the geometry and inlet of a continuous source.
+func validateSourceShape(fe *FieldErrors, path func(string) string, s Source) {
 	if (s.Width == nil) != (s.Depth == nil) {
 		if s.Width == nil {
 			fe.Add(path("width"), "give both source.width and source.depth (3D source) or neither (1D column)")
@@ -328,6 +341,47 @@ func validateOneSource(fe *FieldErrors, sc Scenario, at string, s Source) {
 	default:
 		fe.Add(path("inlet"), fmt.Sprintf("must be %q or %q, got %q", InletConcentration, InletFlux, s.Inlet))
 	}
+}
+
+// MaxDepletionExponent is the largest source.depletion_exponent accepted.
+// The power-law source function holds for any exponent > 0; field fits
+// mostly lie between about 0.5 and 2 (Falta, Rao & Basu 2005, from
+// memory), and beyond 10 the source concentration falls by orders of
+// magnitude as soon as any mass is lost, which no source zone sustains.
+// Exponent 0 (a concentration independent of the mass: a constant source
+// until the mass is gone) is source.duration's business, so the range is
+// (0, MaxDepletionExponent].
+const MaxDepletionExponent = 10
+
+// depletionExponent allows v in (0, MaxDepletionExponent].
+func depletionExponent(v float64) string {
+	if v > 0 && v <= MaxDepletionExponent {
+		return ""
+	}
+	return fmt.Sprintf("must be in (0, %d]", MaxDepletionExponent)
+}
+
+// validateSourceMass checks a continuous source with a dissolvable mass:
+// it depletes by the water flux through its face, so it needs a face
+// (width and depth), the effective porosity (the Darcy flux is n_e v), and
+// no other history (half-life, duration).
+func validateSourceMass(fe *FieldErrors, sc Scenario, path func(string) string, s Source) {
+	if s.HalfLife != nil {
+		fe.Add(path("half_life"), "must be null with a source mass: the source depletes by its mass (give source.mass or source.half_life, not both)")
+	}
+	if s.Duration != nil {
+		fe.Add(path("duration"), "must be null with a source mass: the source lasts as long as its mass (give source.mass or source.duration, not both)")
+	}
+	if s.Width == nil && s.Depth == nil {
+		fe.Add(path("mass"), "a source mass needs a planar source with width and depth: the water flowing through the source face drains it, and a 1D column has no face area")
+	}
+	if s.ReleaseDepth != nil {
+		fe.Add(path("release_depth"), "applies only to an instantaneous release (source.mass without a concentration)")
+	}
+	if sc.Aquifer.EffectivePorosity == nil {
+		fe.Add("aquifer.effective_porosity", "required with a source mass: the water flux through the source face is n_e v W D")
+	}
+	validateSourceShape(fe, path, s)
 }
 
 // validateSource checks source, or each of sources and how they fit
@@ -353,7 +407,7 @@ func validateSource(fe *FieldErrors, sc Scenario) {
 	for i, src := range sc.Sources {
 		at := fmt.Sprintf("sources[%d]", i)
 		validateOneSource(fe, sc, at, src)
-		if src.Mass != nil || src.Width == nil || src.Depth == nil {
+		if src.instantaneous() || src.Width == nil || src.Depth == nil {
 			fe.Add(at, "each of several sources must be a planar 3D source with width, depth and concentration (an instantaneous release or a 1D column is screened on its own)")
 		}
 		if j, dup := ids[src.ID]; dup && src.ID != "" {
@@ -477,7 +531,7 @@ func validateTransects(fe *FieldErrors, sc Scenario) {
 	if sc.Aquifer.EffectivePorosity == nil {
 		fe.Add("aquifer.effective_porosity", "required for a transect's mass discharge (the Darcy flux is n_e v)")
 	}
-	if src := sc.PrimarySource(); src.Mass == nil && src.Width == nil {
+	if src := sc.PrimarySource(); !src.instantaneous() && src.Width == nil {
 		fe.Add("transects", "a 1D column source has no width, so no mass discharge through a transect: give source.width and source.depth")
 	}
 	ids := map[string]int{}

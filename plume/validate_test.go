@@ -55,7 +55,7 @@ func TestValidateNamesFields(t *testing.T) {
 		{"units", func(s *Scenario) { s.Units = Units{Length: "km", Time: "s", Concentration: "ppm"} },
 			[]string{"units.length", "units.time", "units.concentration"}},
 		{"no source strength", func(s *Scenario) { s.Source.Concentration = nil }, []string{"source.concentration"}},
-		{"both strengths", func(s *Scenario) { s.Source.Mass = f(10) }, []string{"source.mass"}},
+		{"mass with concentration: a source depleting by its mass", func(s *Scenario) { s.Source.Mass = f(10) }, nil},
 		{"width without depth", func(s *Scenario) { s.Source.Depth = nil }, []string{"source.depth"}},
 		{"flux inlet on a 3D source", func(s *Scenario) { s.Source.Inlet = InletFlux }, []string{"source.inlet"}},
 		{"flux inlet on a column", func(s *Scenario) { s.Source.Inlet, s.Source.Width, s.Source.Depth = InletFlux, nil, nil }, nil},

@@ -18,7 +18,7 @@ func NewtonBracketed(g, dg func(float64) float64, a, b, fa, fb, tol float64, max
 	if fb == 0 {
 		return b
 	}
-	x := a - fa*(b-a)/(fb-fa)
+	x := newtonStart(dg, a, b, fa, fb)
 	side := 0
 	for range maxIter {
 		fx := g(x)
@@ -51,4 +51,20 @@ func NewtonBracketed(g, dg func(float64) float64, a, b, fa, fb, tol float64, max
 		x = next
 	}
 	return x
+}
+
+// newtonStart is the first point: a Newton step from the end of the
+// bracket nearer the root by value (where the tangent is the better
+// model), when it lands inside the bracket; else the secant.
+func newtonStart(dg func(float64) float64, a, b, fa, fb float64) float64 {
+	x, fx := a, fa
+	if math.Abs(fb) < math.Abs(fa) {
+		x, fx = b, fb
+	}
+	if d := dg(x); d > 0 {
+		if next := x - fx/d; next > a && next < b {
+			return next
+		}
+	}
+	return a - fa*(b-a)/(fb-fa)
 }

@@ -214,7 +214,7 @@ func checkCalibration(req CalibrationRequest) ([]plume.Param, error) {
 	if len(fe) > 0 {
 		return nil, fe.Err()
 	}
-	if req.Scenario.Source.Mass != nil && seen["source.concentration"] {
+	if src := req.Scenario.Source; src.Mass != nil && src.Concentration == nil && seen["source.concentration"] {
 		return nil, plume.Invalid("fit", "source.concentration cannot be fitted for an instantaneous release (source.mass); fit the other parameters")
 	}
 	return params, nil
