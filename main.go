@@ -136,6 +136,7 @@ func run(args []string) error {
 	fs := flag.NewFlagSet("downgradient", flag.ContinueOnError)
 	addr := fs.String("addr", envOr("ADDR", ":8080"), "listen address (env ADDR)")
 	maxBody := fs.Int64("max-body", api.DefaultMaxBodyBytes, "largest request body, bytes")
+	maxStreamBody := fs.Int64("max-stream-body", api.DefaultMaxStreamBodyBytes, "largest body of a streamed screening, bytes")
 	timeout := fs.Duration("request-timeout", api.DefaultRequestTimeout, "per-request computation deadline")
 	grace := fs.Duration("shutdown-grace", api.DefaultRequestTimeout+5*time.Second, "on SIGTERM, how long requests in flight may take to finish (those still running are answered 503 just before it ends)")
 	maxHeavy := fs.Int("max-heavy", api.DefaultMaxHeavy(), "computing requests run at once")
@@ -160,15 +161,16 @@ func run(args []string) error {
 	slog.SetDefault(log)
 
 	e, err := api.New(api.Config{
-		Version:        engineVersion(),
-		MaxBodyBytes:   *maxBody,
-		RequestTimeout: *timeout,
-		Logger:         log,
-		MaxHeavy:       *maxHeavy,
-		MaxWaiting:     *maxWaiting,
-		BodyTimeout:    *bodyTimeout,
-		WriteTimeout:   *writeTimeout,
-		MaxOutputBytes: *maxOutput,
+		Version:            engineVersion(),
+		MaxBodyBytes:       *maxBody,
+		MaxStreamBodyBytes: *maxStreamBody,
+		RequestTimeout:     *timeout,
+		Logger:             log,
+		MaxHeavy:           *maxHeavy,
+		MaxWaiting:         *maxWaiting,
+		BodyTimeout:        *bodyTimeout,
+		WriteTimeout:       *writeTimeout,
+		MaxOutputBytes:     *maxOutput,
 	})
 	if err != nil {
 		return err

@@ -15,6 +15,7 @@ import (
 	"runtime/debug"
 	"time"
 
+	"github.com/getkin/kin-openapi/openapi3"
 	"github.com/labstack/echo/v4"
 
 	"downgradient/openapi"
@@ -27,6 +28,13 @@ const (
 	DefaultMaxBodyBytes = 1 << 20
 	// DefaultRequestTimeout is the default per-request computation deadline.
 	DefaultRequestTimeout = 30 * time.Second
+	// DefaultMaxStreamBodyBytes is the default limit of a streamed
+	// screening's body, 512 MiB: 1,000,000 receptors (the streaming path's
+	// limit) as GeoJSON features of up to about 500 bytes each, a GIS
+	// export with a dozen attribute columns besides ours. The body is read
+	// as it is screened and never held, so the limit bounds the transfer
+	// (and the time a slot is held), not the memory.
+	DefaultMaxStreamBodyBytes = 512 << 20
 )
 
 // Config configures the handler; the zero value is usable.
@@ -35,6 +43,9 @@ type Config struct {
 	Version string
 	// Largest request body accepted, bytes; 0 means DefaultMaxBodyBytes.
 	MaxBodyBytes int64
+	// Largest body of a streamed screening, bytes; 0 means
+	// DefaultMaxStreamBodyBytes.
+	MaxStreamBodyBytes int64
 	// Largest number of closed-form evaluations per request; 0 means
 	// plume.DefaultMaxEvaluations.
 	MaxEvaluations int
@@ -72,6 +83,9 @@ type Config struct {
 func (c Config) withDefaults() Config {
 	if c.MaxBodyBytes <= 0 {
 		c.MaxBodyBytes = DefaultMaxBodyBytes
+	}
+	if c.MaxStreamBodyBytes <= 0 {
+		c.MaxStreamBodyBytes = DefaultMaxStreamBodyBytes
 	}
 	if c.MaxEvaluations <= 0 {
 		c.MaxEvaluations = plume.DefaultMaxEvaluations
@@ -115,6 +129,9 @@ type server struct {
 	routes  routeTable
 	metrics *metrics
 	limiter *limiter
+	// head is the schema of a streamed scenario's members other than its
+	// receptors (Scenario without receptors).
+	head *openapi3.Schema
 }
 
 // New builds the handler serving every route of the OpenAPI document. It
@@ -129,7 +146,7 @@ func newEcho(cfg Config) (*echo.Echo, error) {
 	if err != nil {
 		return nil, err
 	}
-	s := &server{cfg: cfg.withDefaults(), spec: spec, routes: newRouteTable(spec.Doc), metrics: newMetrics()}
+	s := &server{cfg: cfg.withDefaults(), spec: spec, routes: newRouteTable(spec.Requests), metrics: newMetrics(), head: headSchema(spec.Requests)}
 	s.limiter = newLimiter(s.cfg, s.metrics)
 
 	e := echo.New()

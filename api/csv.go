@@ -57,61 +57,83 @@ func encodeCSV(sc plume.Scenario, res *plume.Result) ([]byte, bool) {
 	var buf bytes.Buffer
 	w := csv.NewWriter(&buf)
 	_ = w.Write(csvHeader(res.Units))
-	finite := true
-	num := func(v float64) string {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			finite = false
-			return ""
-		}
-		return formatNumber(v)
-	}
-	optNum := func(p *float64) string {
-		if p == nil {
-			return ""
-		}
-		return num(*p)
-	}
-	views := compoundViews(sc, res)
+	rw := newCSVRowWriter(w, sc, res, res.Engine.InputSHA256)
 	for i := range res.Receptors {
 		var x, y *float64
 		if i < len(sc.Receptors) {
 			x, y = sc.Receptors[i].X, sc.Receptors[i].Y
 		}
-		for _, cv := range views {
-			rr := cv.res.Receptors[i]
-			level := cv.res.Derived.ScreeningLevel
-			prefix := []string{csvSafe(rr.ID), optNum(x), optNum(y), num(rr.Z), num(rr.PlumeX), num(rr.PlumeY)}
-			codes := strings.Join(cv.res.CaveatCodes(rr.ID), ";")
-			allow := func(a *plume.Allowance) []string {
-				if a == nil {
-					return []string{"", ""}
-				}
-				return []string{optNum(a.SteadyState), optNum(a.WithinTimes)}
+		rw.receptor(i, x, y)
+	}
+	w.Flush()
+	return buf.Bytes(), rw.finite
+}
+
+// csvRowWriter writes the rows of a result's receptors (a whole result, or one
+// part of a streamed layer) to w.
+type csvRowWriter struct {
+	w      *csv.Writer
+	res    *plume.Result
+	views  []compoundView
+	hash   string // the input_sha256 column
+	finite bool   // false once a value was not finite (none should be)
+}
+
+func newCSVRowWriter(w *csv.Writer, sc plume.Scenario, res *plume.Result, hash string) *csvRowWriter {
+	return &csvRowWriter{w: w, res: res, views: compoundViews(sc, res), hash: hash, finite: true}
+}
+
+func (c *csvRowWriter) num(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		c.finite = false
+		return ""
+	}
+	return formatNumber(v)
+}
+
+func (c *csvRowWriter) optNum(p *float64) string {
+	if p == nil {
+		return ""
+	}
+	return c.num(*p)
+}
+
+// receptor writes receptor i's rows; x and y are its site coordinates as
+// the request gave them (nil: given by lon/lat, written empty).
+func (c *csvRowWriter) receptor(i int, x, y *float64) {
+	res := c.res
+	for _, cv := range c.views {
+		rr := cv.res.Receptors[i]
+		level := cv.res.Derived.ScreeningLevel
+		prefix := []string{csvSafe(rr.ID), c.optNum(x), c.optNum(y), c.num(rr.Z), c.num(rr.PlumeX), c.num(rr.PlumeY)}
+		codes := strings.Join(cv.res.CaveatCodes(rr.ID), ";")
+		allow := func(a *plume.Allowance) []string {
+			if a == nil {
+				return []string{"", ""}
 			}
-			bounds := append(append(allow(rr.AllowableSourceConcentration), allow(rr.DilutionAttenuationFactor)...), allow(rr.AllowableScaleFactor)...)
-			row := func(t, method string, c float64) {
-				rec := append(append([]string(nil), prefix...), t, method, csvSafe(cv.name), num(c), string(rr.Status), optNum(level),
-					comparison(rr.Status, level, c))
-				rec = append(append(rec, bounds...), codes, csvSafe(res.Engine.Version), res.Engine.InputSHA256)
-				_ = w.Write(rec)
-			}
-			for _, sp := range rr.Series {
-				for _, m := range plume.AllMethods {
-					if v := plume.MethodValue(m, sp.Exact, sp.Domenico, sp.Numeric); v != nil {
-						row(num(sp.Time), m, *v)
-					}
-				}
-			}
-			ss := rr.SteadyState
+			return []string{c.optNum(a.SteadyState), c.optNum(a.WithinTimes)}
+		}
+		bounds := append(append(allow(rr.AllowableSourceConcentration), allow(rr.DilutionAttenuationFactor)...), allow(rr.AllowableScaleFactor)...)
+		row := func(t, method string, v float64) {
+			rec := append(append([]string(nil), prefix...), t, method, csvSafe(cv.name), c.num(v), string(rr.Status), c.optNum(level),
+				comparison(rr.Status, level, v))
+			rec = append(append(rec, bounds...), codes, csvSafe(res.Engine.Version), c.hash)
+			_ = c.w.Write(rec)
+		}
+		for _, sp := range rr.Series {
 			for _, m := range plume.AllMethods {
-				if v := plume.MethodValue(m, ss.Exact, ss.Domenico, ss.Numeric); v != nil {
-					row("steady", m, *v)
+				if v := plume.MethodValue(m, sp.Exact, sp.Domenico, sp.Numeric); v != nil {
+					row(c.num(sp.Time), m, *v)
 				}
 			}
 		}
+		ss := rr.SteadyState
+		for _, m := range plume.AllMethods {
+			if v := plume.MethodValue(m, ss.Exact, ss.Domenico, ss.Numeric); v != nil {
+				row("steady", m, *v)
+			}
+		}
 	}
-	w.Flush()
-	return buf.Bytes(), finite
 }
 
 // comparison is a value's comparison with the screening level as text:

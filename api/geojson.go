@@ -160,47 +160,67 @@ func compoundColumns(views []compoundView, i int, u plume.Units) []flatColumn {
 func buildGeoJSON(sc plume.Scenario, res *plume.Result) featureCollection {
 	fc := featureCollection{Type: "FeatureCollection", Features: make([]feature, 0, len(res.Receptors)),
 		Units: res.Units, Engine: res.Engine, Derived: res.Derived, Caveats: res.Caveats}
-	toLonLat := geoFrame(res.CRS, res.Units, &fc.CoordinateFrame)
-	var views []compoundView
-	if len(res.Derived.Compounds) > 0 {
-		views = compoundViews(sc, res)
-	}
-	for i, rr := range res.Receptors {
-		geom := toLonLat(rr.X, rr.Y)
-		series := rr.Series
-		if series == nil {
-			series = []plume.SeriesPoint{}
-		}
-		fc.Features = append(fc.Features, feature{
-			Type:     "Feature",
-			ID:       rr.ID,
-			Geometry: geom,
-			Properties: receptorFeatProps{
-				ID: rr.ID, SiteX: rr.X, SiteY: rr.Y, Status: rr.Status, flat: flatColumns(rr, res.Units, ""), CaveatCodes: strings.Join(res.CaveatCodes(rr.ID), ";"),
-				Z: rr.Z, ScreenTop: rr.ScreenTop, ScreenBottom: rr.ScreenBottom, ScreeningLevel: res.Derived.ScreeningLevel,
-				PlumeX: rr.PlumeX, PlumeY: rr.PlumeY,
-				SteadyExact: rr.SteadyState.Exact, SteadyDomenico: rr.SteadyState.Domenico, SteadyNumeric: rr.SteadyState.Numeric,
-				PeakConcentration: &rr.Peak.Concentration, PeakTime: rr.Peak.Time, PeakMethod: rr.Peak.Method,
-				FirstExceedanceTime: rr.FirstExceedanceTime, ExceedsScreeningLevel: rr.ExceedsScreeningLevel,
-				DomenicoDeviation: rr.DomenicoDeviation, Series: series,
-			},
-		})
-		last := &fc.Features[len(fc.Features)-1].Properties
-		if views != nil {
-			// Several compounds: the receptor's own columns hold only
-			// what is common (its verdict over the compounds); each
-			// compound's follow under its name.
-			last.PeakConcentration, last.ScreeningLevel = nil, nil
-			last.flat = compoundColumns(views, i, res.Units)
-		}
-		if a := rr.AllowableSourceConcentration; a != nil {
-			last.AllowableSteady, last.AllowableWithinTimes = a.SteadyState, a.WithinTimes
-		}
-		if a := rr.DilutionAttenuationFactor; a != nil {
-			last.DAFSteady, last.DAFWithinTimes = a.SteadyState, a.WithinTimes
-		}
+	fb := newFeatureBuilder(sc, res, &fc.CoordinateFrame)
+	for i := range res.Receptors {
+		fc.Features = append(fc.Features, fb.feature(i))
 	}
 	return fc
+}
+
+// featureBuilder makes the features of a result's receptors (a whole
+// result, or one part of a streamed layer).
+type featureBuilder struct {
+	res      *plume.Result
+	views    []compoundView // nil for one compound
+	toLonLat func(x, y float64) *pointGeometry
+}
+
+// newFeatureBuilder prepares the features of res; frame is set to the
+// words that say what the coordinates are.
+func newFeatureBuilder(sc plume.Scenario, res *plume.Result, frame *string) *featureBuilder {
+	fb := &featureBuilder{res: res, toLonLat: geoFrame(res.CRS, res.Units, frame)}
+	if len(res.Derived.Compounds) > 0 {
+		fb.views = compoundViews(sc, res)
+	}
+	return fb
+}
+
+// feature is receptor i's feature.
+func (fb *featureBuilder) feature(i int) feature {
+	res, rr := fb.res, fb.res.Receptors[i]
+	series := rr.Series
+	if series == nil {
+		series = []plume.SeriesPoint{}
+	}
+	f := feature{
+		Type:     "Feature",
+		ID:       rr.ID,
+		Geometry: fb.toLonLat(rr.X, rr.Y),
+		Properties: receptorFeatProps{
+			ID: rr.ID, SiteX: rr.X, SiteY: rr.Y, Status: rr.Status, flat: flatColumns(rr, res.Units, ""), CaveatCodes: strings.Join(res.CaveatCodes(rr.ID), ";"),
+			Z: rr.Z, ScreenTop: rr.ScreenTop, ScreenBottom: rr.ScreenBottom, ScreeningLevel: res.Derived.ScreeningLevel,
+			PlumeX: rr.PlumeX, PlumeY: rr.PlumeY,
+			SteadyExact: rr.SteadyState.Exact, SteadyDomenico: rr.SteadyState.Domenico, SteadyNumeric: rr.SteadyState.Numeric,
+			PeakConcentration: &rr.Peak.Concentration, PeakTime: rr.Peak.Time, PeakMethod: rr.Peak.Method,
+			FirstExceedanceTime: rr.FirstExceedanceTime, ExceedsScreeningLevel: rr.ExceedsScreeningLevel,
+			DomenicoDeviation: rr.DomenicoDeviation, Series: series,
+		},
+	}
+	last := &f.Properties
+	if fb.views != nil {
+		// Several compounds: the receptor's own columns hold only
+		// what is common (its verdict over the compounds); each
+		// compound's follow under its name.
+		last.PeakConcentration, last.ScreeningLevel = nil, nil
+		last.flat = compoundColumns(fb.views, i, res.Units)
+	}
+	if a := rr.AllowableSourceConcentration; a != nil {
+		last.AllowableSteady, last.AllowableWithinTimes = a.SteadyState, a.WithinTimes
+	}
+	if a := rr.DilutionAttenuationFactor; a != nil {
+		last.DAFSteady, last.DAFWithinTimes = a.SteadyState, a.WithinTimes
+	}
+	return f
 }
 
 // geoFrame returns the map from site coordinates to a GeoJSON point: WGS

@@ -116,3 +116,13 @@ func (m *metrics) observeResult(res *plume.Result) {
 		m.caveats.WithLabelValues(cv.Code).Inc()
 	}
 }
+
+// observeCaveats counts caveats issued (a streamed screening's, part by part).
+func (m *metrics) observeCaveats(cs []plume.Caveat) {
+	if m == nil {
+		return
+	}
+	for _, cv := range cs {
+		m.caveats.WithLabelValues(cv.Code).Inc()
+	}
+}

@@ -1,7 +1,9 @@
 package api
 
 import (
+	"fmt"
 	"mime"
+	"net/http"
 	"strconv"
 	"strings"
 
@@ -15,12 +17,14 @@ const (
 	formatJSON outputFormat = iota
 	formatCSV
 	formatGeoJSON
+	formatNDJSON // streamed only
 )
 
 // Media types of the representations.
 const (
 	mimeCSV     = "text/csv"
 	mimeGeoJSON = "application/geo+json"
+	mimeNDJSON  = "application/x-ndjson"
 )
 
 // negotiate picks the representation: the `format` query parameter wins
@@ -85,4 +89,62 @@ func acceptBest(c echo.Context, def string, table map[string]string) (best strin
 		}
 	}
 	return best, bestQ >= 0
+}
+
+// streamTypes are the media types of a streamed screening: JSON (or any
+// type) asked for with stream=true is NDJSON, one JSON document per line.
+var streamTypes = map[string]string{
+	mimeNDJSON: "ndjson", "application/json": "ndjson", "application/*": "ndjson", "*/*": "ndjson",
+	mimeCSV: "csv", "text/*": "csv", mimeGeoJSON: "geojson",
+}
+
+// isStream reports whether a request takes the streaming path: POST
+// /v1/screenings with stream=true, format=ndjson, or (without format) an
+// Accept header whose preferred type is application/x-ndjson.
+func isStream(c echo.Context) bool {
+	req := c.Request()
+	if req.Method != http.MethodPost || c.Path() != "/v1/screenings" {
+		return false
+	}
+	q := req.URL.Query()
+	if on, err := strconv.ParseBool(q.Get("stream")); err == nil && on {
+		return true
+	}
+	switch q.Get("format") {
+	case "ndjson":
+		return true
+	case "":
+		best, ok := acceptBest(c, "json", map[string]string{mimeNDJSON: "ndjson", "application/json": "json", "*/*": "json",
+			"application/*": "json", mimeCSV: "csv", "text/*": "csv", mimeGeoJSON: "geojson"})
+		return ok && best == "ndjson"
+	}
+	return false
+}
+
+// negotiateStream picks a streamed screening's format: the format
+// parameter (ndjson, csv, geojson; json is one document and is not
+// streamed), else the Accept header (JSON or anything: NDJSON).
+func negotiateStream(c echo.Context) (outputFormat, *Problem) {
+	q := c.QueryParams()
+	if on, err := strconv.ParseBool(q.Get("stream")); err == nil && !on && q.Get("format") == "ndjson" {
+		return 0, newProblem(kindInvalid, "ndjson is always streamed", FieldProblem{Field: "stream", Message: "must be true (or left out) with format ndjson"})
+	}
+	switch f := q.Get("format"); f {
+	case "ndjson":
+		return formatNDJSON, nil
+	case "csv":
+		return formatCSV, nil
+	case "geojson":
+		return formatGeoJSON, nil
+	case "json":
+		return 0, newProblem(kindInvalid, "a JSON document is not streamed", FieldProblem{Field: "format",
+			Message: fmt.Sprintf("must be ndjson (one JSON document per line), csv or geojson with stream=true, got %q", f)})
+	}
+	best, ok := acceptBest(c, "ndjson", streamTypes)
+	if !ok {
+		return 0, newProblem(kindNotAccept,
+			"a streamed screening is available as application/x-ndjson, text/csv or application/geo+json; the Accept header admits none of them",
+			FieldProblem{Field: "Accept", Message: "admits none of application/x-ndjson, text/csv, application/geo+json"})
+	}
+	return map[string]outputFormat{"ndjson": formatNDJSON, "csv": formatCSV, "geojson": formatGeoJSON}[best], nil
 }

@@ -120,6 +120,11 @@ func errorHandler(err error, c echo.Context) {
 	default:
 		p = newProblem(kindInternal, "the server could not complete the request")
 	}
+	if names, ok := c.Get(ctxLayerNames).(*layerNames); ok {
+		for i := range p.Errors {
+			p.Errors[i].Field = names.rename(p.Errors[i].Field)
+		}
+	}
 	if c.Request().Method == http.MethodHead {
 		_ = c.NoContent(p.Status)
 		return

@@ -78,7 +78,7 @@ func (s *server) decodeReportRequest(c echo.Context) (*reportRequest, *Problem) 
 // with 422.
 func (s *server) checkReportShape(c echo.Context, body []byte, schema, route string) *Problem {
 	rt := s.routes[http.MethodPost+" /v1/reports"]
-	ref := s.spec.Doc.Components.Schemas[schema]
+	ref := s.spec.Requests.Components.Schemas[schema]
 	if rt == nil || ref == nil {
 		return newProblem(kindInternal, "the report's schemas are missing from the OpenAPI document")
 	}

@@ -21,12 +21,12 @@ import (
 )
 
 func init() {
-	// Response validation reads the page and the pictures as strings.
+	// Response validation reads the page, the pictures and streamed NDJSON as strings.
 	asText := func(body io.Reader, _ http.Header, _ *openapi3.SchemaRef, _ openapi3filter.EncodingFn) (any, error) {
 		b, err := io.ReadAll(body)
 		return string(b), err
 	}
-	for _, mt := range []string{"text/html", mimeSVG, mimePNG} {
+	for _, mt := range []string{"text/html", mimeSVG, mimePNG, mimeNDJSON} {
 		openapi3filter.RegisterBodyDecoder(mt, asText)
 	}
 }

@@ -54,10 +54,16 @@ func structOf(t reflect.Type) reflect.Type {
 
 // itemsOf strips array schemas down to their item schema.
 func itemsOf(s *openapi3.Schema) *openapi3.Schema {
-	for s != nil && s.Type != nil && s.Type.Is("array") && s.Items != nil {
-		s = s.Items.Value
+	for {
+		switch {
+		case s != nil && len(s.OneOf) > 0 && s.OneOf[0].Value != nil:
+			s = s.OneOf[0].Value // Scenario.receptors: the array (the Go type's form); a layer is read into it
+		case s != nil && s.Type != nil && s.Type.Is("array") && s.Items != nil:
+			s = s.Items.Value
+		default:
+			return s
+		}
 	}
-	return s
 }
 
 // schemaOnly are properties a schema has beyond a Go type's fields: a
@@ -65,7 +71,7 @@ func itemsOf(s *openapi3.Schema) *openapi3.Schema {
 // request may add to one (memo, sources_of_values) lives in api, not in
 // the domain's type.
 var schemaOnly = map[reflect.Type][]string{
-	reflect.TypeFor[fit.FittedScenario](): {"memo", "sources_of_values"},
+	reflect.TypeFor[fit.FittedScenario](): {"memo", "sources_of_values", "receptor_id_property"},
 }
 
 // compareStruct checks that the schema's properties are exactly the JSON
@@ -127,7 +133,7 @@ func TestSchemasMatchGoTypes(t *testing.T) {
 		}
 		return ref.Value
 	}
-	compareStruct(t, "Scenario", reflect.TypeFor[plume.Scenario](), schema("Scenario"), "description", "memo", "sources_of_values")
+	compareStruct(t, "Scenario", reflect.TypeFor[plume.Scenario](), schema("Scenario"), "description", "memo", "sources_of_values", "receptor_id_property")
 	compareStruct(t, "MemoHeader", reflect.TypeFor[memoHeader](), schema("MemoHeader"))
 	compareStruct(t, "Result", reflect.TypeFor[plume.Result](), schema("Result"))
 	compareStruct(t, "Compound", reflect.TypeFor[plume.Compound](), schema("Compound"))

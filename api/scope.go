@@ -52,9 +52,10 @@ type scopeKey struct{}
 // requestScope is what one request holds beyond its context: its
 // computation slot, once compute has taken it.
 type requestScope struct {
-	mu      sync.Mutex
-	release func() // frees the computation slot
-	decoded func() // gives back the decoding token
+	mu       sync.Mutex
+	release  func()       // frees the computation slot
+	decoded  func()       // gives back the decoding token
+	deadline *deadlineCtx // a streamed request's context, whose deadline grows; nil otherwise
 }
 
 // scopeOf returns the scope of the request of ctx (nil outside one).
@@ -116,13 +117,25 @@ func (s *server) scope(next echo.HandlerFunc) echo.HandlerFunc {
 		if p := s.checkHeaderSize(req); p != nil {
 			return p
 		}
-		ctx, cancel := context.WithTimeout(req.Context(), s.cfg.RequestTimeout)
-		defer cancel()
 		sc := &requestScope{}
+		limit := s.cfg.MaxBodyBytes
+		var ctx context.Context
+		if isStream(c) {
+			// The streaming path: a larger body, and a deadline that grows
+			// with the work received (see stream.go).
+			limit = s.cfg.MaxStreamBodyBytes
+			sc.deadline = newDeadlineCtx(req.Context(), s.cfg.RequestTimeout)
+			ctx = sc.deadline
+			defer sc.deadline.stop()
+		} else {
+			var cancel context.CancelFunc
+			ctx, cancel = context.WithTimeout(req.Context(), s.cfg.RequestTimeout)
+			defer cancel()
+		}
 		defer sc.end()
 		req = req.WithContext(context.WithValue(ctx, scopeKey{}, sc))
 		if req.Body != nil && req.Body != http.NoBody {
-			req.Body = http.MaxBytesReader(c.Response(), req.Body, s.cfg.MaxBodyBytes)
+			req.Body = http.MaxBytesReader(c.Response(), req.Body, limit)
 		} else {
 			// No body to read: lift the server's read timeout, whose expiry
 			// on the connection's background read would end the request's

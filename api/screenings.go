@@ -21,6 +21,9 @@ import (
 // size of its answer, then screen it and encode the result as JSON, CSV or
 // GeoJSON within the request's deadline.
 func (s *server) screenings(c echo.Context) error {
+	if isStream(c) {
+		return s.streamScreenings(c)
+	}
 	format, p := negotiate(c)
 	if p != nil {
 		return p

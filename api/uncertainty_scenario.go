@@ -87,13 +87,14 @@ func (s *server) decodeScenarioTree(tree map[string]any) (plume.Scenario, *Probl
 // decodeScenarioBodyTree is decodeScenarioTree keeping the free text of
 // the body (description, memo, sources of values).
 func (s *server) decodeScenarioBodyTree(tree map[string]any) (scenarioBody, *Problem) {
-	schema := s.spec.Doc.Components.Schemas["Scenario"]
+	schema := s.spec.Requests.Components.Schemas["Scenario"]
 	if schema == nil || schema.Value == nil {
 		return scenarioBody{}, newProblem(kindInternal, "the Scenario schema is missing from the OpenAPI document")
 	}
 	if err := schema.Value.VisitJSON(tree, openapi3.MultiErrors()); err != nil {
 		return scenarioBody{}, problemFromValidation(err).under("scenario")
 	}
+	delete(tree, "receptor_id_property") // names a layer's id property: nothing here
 	b, err := json.Marshal(tree)
 	if err != nil {
 		return scenarioBody{}, newProblem(kindMalformed, "the scenario could not be read: "+err.Error())

@@ -7,10 +7,12 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"maps"
 	"mime"
 	"net/http"
 	"net/url"
 	"regexp"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -48,6 +50,9 @@ func (s *server) validator(next echo.HandlerFunc) echo.HandlerFunc {
 		SkipSettingDefaults: true,
 		AuthenticationFunc:  openapi3filter.NoopAuthenticationFunc,
 	}
+	// A streamed body is read and checked by its handler, as it arrives.
+	queryOnly := *opts
+	queryOnly.ExcludeRequestBody = true
 	return func(c echo.Context) error {
 		req := c.Request()
 		method := req.Method
@@ -58,8 +63,12 @@ func (s *server) validator(next echo.HandlerFunc) echo.HandlerFunc {
 		if route == nil { // not-found and method-not-allowed handlers
 			return next(c)
 		}
-		if route.Operation.RequestBody != nil {
-			body, p := s.readJSONBody(c)
+		o := opts
+		switch {
+		case route.Operation.RequestBody != nil && isStream(c):
+			o = &queryOnly
+		case route.Operation.RequestBody != nil:
+			body, p := s.readRequestBody(c)
 			if p != nil {
 				return p
 			}
@@ -68,7 +77,7 @@ func (s *server) validator(next echo.HandlerFunc) echo.HandlerFunc {
 			req.Header.Set(echo.HeaderContentType, echo.MIMEApplicationJSON)
 		}
 		err := openapi3filter.ValidateRequest(req.Context(), &openapi3filter.RequestValidationInput{
-			Request: req, Route: route, Options: opts,
+			Request: req, Route: route, Options: o,
 		})
 		if body, ok := c.Get(ctxBody).([]byte); ok {
 			req.Body = io.NopCloser(bytes.NewReader(body))
@@ -86,6 +95,71 @@ func (s *server) validator(next echo.HandlerFunc) echo.HandlerFunc {
 		}
 		return next(c)
 	}
+}
+
+// ctxLayerNames is the echo context key of the names of a request's
+// receptor layer (*layerNames): the error handler names a bad receptor
+// by the layer's own path.
+const ctxLayerNames = "downgradient.layer"
+
+// layerRoutes are the routes whose body holds a Scenario, whose receptors
+// may be a GeoJSON layer: the member holding it ("" for the body itself).
+var layerRoutes = map[string]string{"/v1/screenings": "", "/v1/plots": "", "/v1/reports": "", "/v1/plume-maps": "scenario"}
+
+// readRequestBody reads a body that is not streamed: JSON, or for POST
+// /v1/screenings multipart/form-data (a scenario part and a receptors part,
+// turned into the JSON scenario it stands for). A receptor layer is read
+// into the array form (normalizeLayer).
+func (s *server) readRequestBody(c echo.Context) ([]byte, *Problem) {
+	req := c.Request()
+	mt, params, err := mime.ParseMediaType(req.Header.Get(echo.HeaderContentType))
+	var body []byte
+	var names *layerNames
+	if err == nil && mt == "multipart/form-data" {
+		if c.Path() != "/v1/screenings" {
+			return nil, newProblem(kindMediaType, "multipart/form-data is accepted by POST /v1/screenings only; send application/json")
+		}
+		if p := checkContentEncoding(req); p != nil {
+			return nil, p
+		}
+		raw, p := s.readBody(c)
+		if p != nil {
+			return nil, p
+		}
+		if body, names, p = multipartBody(raw, params["boundary"], s.cfg.MaxBodyBytes); p != nil {
+			return nil, p
+		}
+	} else {
+		var p *Problem
+		if body, p = s.readJSONBody(c); p != nil {
+			return nil, p
+		}
+	}
+	if at, ok := layerRoutes[c.Path()]; ok {
+		b, n, p := normalizeLayer(body, at)
+		if p != nil {
+			return nil, p
+		}
+		body = b
+		if n != nil {
+			names = n
+		}
+	}
+	if names != nil {
+		c.Set(ctxLayerNames, names)
+	}
+	return body, nil
+}
+
+// headSchema is the schema of a streamed scenario's members other than its
+// receptors: Scenario without receptors (a shallow copy; the document is
+// not changed).
+func headSchema(doc *openapi3.T) *openapi3.Schema {
+	sc := *doc.Components.Schemas["Scenario"].Value
+	sc.Properties = maps.Clone(sc.Properties)
+	delete(sc.Properties, "receptors")
+	sc.Required = slices.DeleteFunc(slices.Clone(sc.Required), func(r string) bool { return r == "receptors" })
+	return &sc
 }
 
 // readJSONBody reads at most MaxBodyBytes and checks that the body is one

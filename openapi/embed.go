@@ -22,6 +22,12 @@ var specYAML []byte
 type Spec struct {
 	// Doc is the parsed document.
 	Doc *openapi3.T
+	// Requests is the document requests are checked against: Doc with
+	// every schema that admits two forms of the same input narrowed to the
+	// form the server turns every request into before it checks it
+	// (Scenario.receptors: the array; a receptor layer is read into an
+	// array first, see api's layer readers).
+	Requests *openapi3.T
 	// YAML is the document as written (openapi.yaml).
 	YAML []byte
 	// JSON is the document re-encoded as JSON.
@@ -51,5 +57,27 @@ func parse(data []byte) (*Spec, error) {
 	if err != nil {
 		return nil, fmt.Errorf("openapi: encode as JSON: %w", err)
 	}
-	return &Spec{Doc: doc, YAML: data, JSON: js}, nil
+	req, err := loader.LoadFromData(data)
+	if err != nil {
+		return nil, fmt.Errorf("openapi: parse openapi.yaml: %w", err)
+	}
+	if err := narrow(req); err != nil {
+		return nil, err
+	}
+	return &Spec{Doc: doc, Requests: req, YAML: data, JSON: js}, nil
+}
+
+// narrow replaces Scenario.receptors (one of an array and a layer) by the
+// array alternative, in a document of its own.
+func narrow(doc *openapi3.T) error {
+	sc := doc.Components.Schemas["Scenario"]
+	if sc == nil || sc.Value == nil || sc.Value.Properties["receptors"] == nil || sc.Value.Properties["receptors"].Value == nil {
+		return fmt.Errorf("openapi: openapi.yaml has no Scenario.receptors")
+	}
+	r := sc.Value.Properties["receptors"].Value
+	if len(r.OneOf) == 0 || r.OneOf[0].Value == nil || r.OneOf[0].Value.Items == nil {
+		return fmt.Errorf("openapi: Scenario.receptors must be oneOf an array and a layer")
+	}
+	sc.Value.Properties["receptors"] = r.OneOf[0]
+	return nil
 }

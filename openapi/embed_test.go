@@ -40,3 +40,21 @@ func TestParseRejectsInvalid(t *testing.T) {
 		}
 	}
 }
+
+// The published document offers receptors as an array or a layer; the
+// document requests are checked against has the array alone (layers are
+// read into arrays before the check), and the two do not share it.
+func TestRequestsNarrowReceptors(t *testing.T) {
+	s, err := Load()
+	if err != nil {
+		t.Fatal(err)
+	}
+	pub := s.Doc.Components.Schemas["Scenario"].Value.Properties["receptors"].Value
+	req := s.Requests.Components.Schemas["Scenario"].Value.Properties["receptors"].Value
+	if len(pub.OneOf) != 2 {
+		t.Errorf("published receptors: oneOf of %d, want 2", len(pub.OneOf))
+	}
+	if len(req.OneOf) != 0 || req.Items == nil || req.MaxItems == nil || *req.MaxItems != 10000 {
+		t.Errorf("request receptors %+v: want the array of at most 10000", req)
+	}
+}

@@ -69,14 +69,16 @@ func (m *model) modelCaveats(res *Result, pts []Point, run methods, fm fmtr) {
 	if m.kind == SourceKind1D {
 		for _, p := range pts {
 			if p.Y != 0 || p.Bottom != 0 {
-				res.caveat(CaveatOneDimensional, SeverityNote, "",
-					"The source has no width and depth, so it is a 1D column (no transverse or vertical spreading): receptors' transverse offsets and depths are ignored, which overstates concentrations off the axis.")
+				res.caveat(CaveatOneDimensional, SeverityNote, "", "%s", oneDimensionalMessage)
 				break
 			}
 		}
 	}
 
 }
+
+// oneDimensionalMessage is the message of CaveatOneDimensional.
+const oneDimensionalMessage = "The source has no width and depth, so it is a 1D column (no transverse or vertical spreading): receptors' transverse offsets and depths are ignored, which overstates concentrations off the axis."
 
 // receptorCaveats are the caveats of one receptor.
 func (m *model) receptorCaveats(res *Result, rr *ReceptorResult, p Point, opt Options, fm fmtr) {

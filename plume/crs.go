@@ -20,9 +20,9 @@ func siteCRS(sc Scenario) (*crs.Frame, error) {
 }
 
 // validateCRS checks the crs field (a projected CRS whose linear unit
-// matches units.length) and receptors given by lon/lat (both, in range,
-// with a crs, and not together with x and y).
-func validateCRS(fe *FieldErrors, sc Scenario) {
+// matches units.length) and, with receptors, the receptors given by lon/lat
+// (see validateLonLat).
+func validateCRS(fe *FieldErrors, sc Scenario, receptors bool) {
 	fr, err := siteCRS(sc)
 	switch {
 	case err != nil:
@@ -41,26 +41,36 @@ func validateCRS(fe *FieldErrors, sc Scenario) {
 			fe.Add("units.length", fmt.Sprintf("must be %q to match the linear unit of %s (%s): site coordinates are in the CRS's own unit, got %q", want, fr.Code(), fr.Unit().Name, got))
 		}
 	}
+	if !receptors {
+		return
+	}
 	for i, r := range sc.Receptors {
-		if r.Lon == nil && r.Lat == nil {
-			continue
-		}
-		at := func(f string) string { return fmt.Sprintf("receptors[%d].%s", i, f) }
-		switch {
-		case sc.CRS == "":
-			fe.Add(at("lon"), "lon and lat need the scenario's crs (the site frame they are projected into)")
-		case r.Lon == nil || r.Lat == nil:
-			fe.Add(at("lat"), "give both lon and lat, or neither")
-		case r.X != nil || r.Y != nil:
-			fe.Add(at("x"), "give x and y, or lon and lat, not both")
-		case !(*r.Lon >= -180 && *r.Lon <= 180):
-			fe.Add(at("lon"), fmt.Sprintf("must be a longitude in [-180, 180] degrees, got %g", *r.Lon))
-		case !(*r.Lat >= -90 && *r.Lat <= 90):
-			fe.Add(at("lat"), fmt.Sprintf("must be a latitude in [-90, 90] degrees, got %g", *r.Lat))
-		case fr != nil:
-			if _, _, err := fr.FromLonLat(*r.Lon, *r.Lat); err != nil {
-				fe.Add(at("lon"), err.Error())
-			}
+		validateLonLat(fe, i, r, sc.CRS, fr)
+	}
+}
+
+// validateLonLat checks receptors[i] given by lon/lat: both, in range,
+// with a crs (code, opened as fr: nil when it did not open), inside its
+// projection, and not together with x and y.
+func validateLonLat(fe *FieldErrors, i int, r Receptor, code string, fr *crs.Frame) {
+	if r.Lon == nil && r.Lat == nil {
+		return
+	}
+	at := func(f string) string { return fmt.Sprintf("receptors[%d].%s", i, f) }
+	switch {
+	case code == "":
+		fe.Add(at("lon"), "lon and lat need the scenario's crs (the site frame they are projected into)")
+	case r.Lon == nil || r.Lat == nil:
+		fe.Add(at("lat"), "give both lon and lat, or neither")
+	case r.X != nil || r.Y != nil:
+		fe.Add(at("x"), "give x and y, or lon and lat, not both")
+	case !(*r.Lon >= -180 && *r.Lon <= 180):
+		fe.Add(at("lon"), fmt.Sprintf("must be a longitude in [-180, 180] degrees, got %g", *r.Lon))
+	case !(*r.Lat >= -90 && *r.Lat <= 90):
+		fe.Add(at("lat"), fmt.Sprintf("must be a latitude in [-90, 90] degrees, got %g", *r.Lat))
+	case fr != nil:
+		if _, _, err := fr.FromLonLat(*r.Lon, *r.Lat); err != nil {
+			fe.Add(at("lon"), err.Error())
 		}
 	}
 }

@@ -31,8 +31,12 @@ type Model struct {
 // Prepare validates sc (every bad field at once, as an *Error of kind
 // KindInvalid), derives its model and checks that every converted and
 // derived value is finite (checkFinite).
-func Prepare(sc Scenario) (*Model, error) {
-	if err := Validate(sc); err != nil {
+func Prepare(sc Scenario) (*Model, error) { return prepare(sc, true) }
+
+// prepare is Prepare; without receptors the scenario's receptors are not
+// checked (a layer's are checked one by one as they arrive: see Layer).
+func prepare(sc Scenario, receptors bool) (*Model, error) {
+	if err := validate(sc, receptors); err != nil {
 		return nil, err
 	}
 	given := sc

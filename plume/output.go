@@ -149,11 +149,6 @@ func (r *Result) sanitize() {
 	}
 	r.sanitizeExtras()
 	floor := r.Derived.ConcentrationFloor
-	conc := func(p *float64) {
-		if p != nil {
-			*p = FloorConcentration(Clean(*p), floor)
-		}
-	}
 	d := &r.Derived
 	for _, x := range []*float64{&d.SeepageVelocity, &d.Retardation, &d.DecayRate, &d.EffectiveDecayRate} {
 		fix(x)
@@ -172,63 +167,7 @@ func (r *Result) sanitize() {
 		fixP(p)
 	}
 	for i := range r.Receptors {
-		rr := &r.Receptors[i]
-		fix(&rr.PlumeX)
-		fix(&rr.PlumeY)
-		fix(&rr.Z)
-		fixP(rr.ScreenTop)
-		fixP(rr.ScreenBottom)
-		for j := range rr.Series {
-			sp := &rr.Series[j]
-			fix(&sp.Time)
-			conc(sp.Exact)
-			conc(sp.Domenico)
-			conc(sp.Numeric)
-		}
-		conc(rr.SteadyState.Exact)
-		conc(rr.SteadyState.Domenico)
-		conc(rr.SteadyState.Numeric)
-		fixP(rr.Peak.Time)
-		conc(&rr.Peak.Concentration)
-		fixP(rr.FirstExceedanceTime)
-		fixP(rr.DomenicoDeviation)
-		for _, al := range []*Allowance{rr.AllowableSourceConcentration, rr.DilutionAttenuationFactor, rr.AllowableScaleFactor} {
-			if al != nil {
-				fixP(al.SteadyState)
-				fixP(al.WithinTimes)
-			}
-		}
-		for k := range rr.Contributions {
-			cb := &rr.Contributions[k]
-			for j := range cb.Series {
-				conc(cb.Series[j].Exact)
-				conc(cb.Series[j].Domenico)
-			}
-			conc(cb.SteadyState.Exact)
-			conc(cb.SteadyState.Domenico)
-		}
-		for k := range rr.Compounds {
-			cr := &rr.Compounds[k]
-			for j := range cr.Series {
-				conc(cr.Series[j].Exact)
-				conc(cr.Series[j].Domenico)
-				conc(cr.Series[j].Numeric)
-			}
-			conc(cr.SteadyState.Exact)
-			conc(cr.SteadyState.Domenico)
-			conc(cr.SteadyState.Numeric)
-			if cr.Peak != nil {
-				conc(&cr.Peak.Concentration)
-				fixP(cr.Peak.Time)
-			}
-			fixP(cr.FirstExceedanceTime)
-		}
-		if a := rr.NumericAgreement; a != nil {
-			fix(&a.MaxRelativeDifference)
-			fix(&a.Time)
-			fix(&a.Tolerance)
-			fix(&a.Floor)
-		}
+		r.Receptors[i].sanitize(floor)
 	}
 	if n := r.Numeric; n != nil {
 		for i := range n.Spacing {
@@ -243,6 +182,78 @@ func (r *Result) sanitize() {
 		fix(&n.YHalf)
 		fix(&n.ZMax)
 		fix(&n.MassBalanceError)
+	}
+}
+
+// sanitize is Result.sanitize for one receptor; floor is the concentration
+// floor in the result's unit.
+func (rr *ReceptorResult) sanitize(floor float64) {
+	fix := func(x *float64) { *x = Clean(*x) }
+	fixP := func(p *float64) {
+		if p != nil {
+			*p = Clean(*p)
+		}
+	}
+	conc := func(p *float64) {
+		if p != nil {
+			*p = FloorConcentration(Clean(*p), floor)
+		}
+	}
+	fix(&rr.PlumeX)
+	fix(&rr.PlumeY)
+	fix(&rr.Z)
+	fixP(rr.ScreenTop)
+	fixP(rr.ScreenBottom)
+	for j := range rr.Series {
+		sp := &rr.Series[j]
+		fix(&sp.Time)
+		conc(sp.Exact)
+		conc(sp.Domenico)
+		conc(sp.Numeric)
+	}
+	conc(rr.SteadyState.Exact)
+	conc(rr.SteadyState.Domenico)
+	conc(rr.SteadyState.Numeric)
+	fixP(rr.Peak.Time)
+	conc(&rr.Peak.Concentration)
+	fixP(rr.FirstExceedanceTime)
+	fixP(rr.DomenicoDeviation)
+	for _, al := range []*Allowance{rr.AllowableSourceConcentration, rr.DilutionAttenuationFactor, rr.AllowableScaleFactor} {
+		if al != nil {
+			fixP(al.SteadyState)
+			fixP(al.WithinTimes)
+		}
+	}
+	for k := range rr.Contributions {
+		cb := &rr.Contributions[k]
+		for j := range cb.Series {
+			conc(cb.Series[j].Exact)
+			conc(cb.Series[j].Domenico)
+		}
+		conc(cb.SteadyState.Exact)
+		conc(cb.SteadyState.Domenico)
+	}
+	for k := range rr.Compounds {
+		cr := &rr.Compounds[k]
+		for j := range cr.Series {
+			conc(cr.Series[j].Exact)
+			conc(cr.Series[j].Domenico)
+			conc(cr.Series[j].Numeric)
+		}
+		conc(cr.SteadyState.Exact)
+		conc(cr.SteadyState.Domenico)
+		conc(cr.SteadyState.Numeric)
+		if cr.Peak != nil {
+			conc(&cr.Peak.Concentration)
+			fixP(cr.Peak.Time)
+		}
+		fixP(cr.FirstExceedanceTime)
+	}
+	if a := rr.NumericAgreement; a != nil {
+		fix(&a.MaxRelativeDifference)
+		fix(&a.Time)
+		fix(&a.Tolerance)
+		fix(&a.Floor)
 	}
 }
 

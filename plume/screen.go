@@ -53,16 +53,7 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 	res.Derived.ConcentrationFloor = m.concentrationFloor()
 	res.Derived.InputUnits = inputUnits(md.units)
 
-	taus := make([]float64, len(c.Times))
-	for i, t := range c.Times {
-		taus[i] = t - m.start
-	}
-	sp := screenPlan{reqTimes: md.sc.Times, taus: taus, run: run, floor: m.comparisonFloor()}
-	sp.primaryExact = run.exact || !run.domenico
-	sp.primary = MethodExact
-	if !sp.primaryExact {
-		sp.primary = MethodDomenico
-	}
+	sp := md.plan(run)
 
 	for i, p := range pts {
 		if err := ctx.Err(); err != nil {
@@ -92,13 +83,30 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 		}
 	}
 	res.Transects = m.screenTransects(c, sp)
-	m.sourceMassCaveats(res, taus, fmtr{u: md.units, f: md.uf})
+	m.sourceMassCaveats(res, sp.taus, fmtr{u: md.units, f: md.uf})
 	m.addCaveats(res, pts, run, opt, md.units, md.uf)
 	crsCaveat(res, md.sc)
 	res.fromCanonical(md.uf)
 	res.sanitize()
 	res.summarize(res.Derived.ScreeningLevel)
 	return res, nil
+}
+
+// plan is what every receptor of a screening of md with the methods run
+// shares (see screenPlan).
+func (md *Model) plan(run methods) screenPlan {
+	m, c := md.m, md.canon
+	taus := make([]float64, len(c.Times))
+	for i, t := range c.Times {
+		taus[i] = t - m.start
+	}
+	sp := screenPlan{reqTimes: md.sc.Times, taus: taus, run: run, floor: m.comparisonFloor()}
+	sp.primaryExact = run.exact || !run.domenico
+	sp.primary = MethodExact
+	if !sp.primaryExact {
+		sp.primary = MethodDomenico
+	}
+	return sp
 }
 
 // methods is the set of methods to run.

@@ -30,14 +30,20 @@ import (
 //   - no control characters in receptor ids or the contaminant's name
 //     (CheckText);
 //   - times >= 0 and finite; methods from exact, domenico, numeric.
-func Validate(sc Scenario) error {
+func Validate(sc Scenario) error { return validate(sc, true) }
+
+// validate is Validate; without receptors it checks everything but the
+// receptors (a layer's, checked one by one as they arrive: see Layer).
+func validate(sc Scenario, receptors bool) error {
 	var fe FieldErrors
 	validateUnits(&fe, sc.Units)
 	validateAquifer(&fe, sc)
 	validateContaminant(&fe, sc)
 	validateSource(&fe, sc)
-	validateReceptors(&fe, sc.Receptors)
-	validateCRS(&fe, sc)
+	if receptors {
+		validateReceptors(&fe, sc.Receptors)
+	}
+	validateCRS(&fe, sc, receptors)
 	validateTransects(&fe, sc)
 	for i, t := range sc.Times {
 		if !Finite(t) || t < 0 {
@@ -423,38 +429,45 @@ func validateReceptors(fe *FieldErrors, rs []Receptor) {
 	}
 	seen := make(map[string]int, len(rs))
 	for i, r := range rs {
-		e := elemPath{"receptors", i}
-		if r.X == nil && !r.hasLonLat() {
-			fe.Add(e.field("x"), "required: site x (east) of the receptor (or lon and lat with a crs)")
-		}
-		if r.Y == nil && !r.hasLonLat() {
-			fe.Add(e.field("y"), "required: site y (north) of the receptor (or lon and lat with a crs)")
-		}
-		fe.CheckIn(e, "x", r.X, AnyFinite)
-		fe.CheckIn(e, "y", r.Y, AnyFinite)
-		fe.CheckIn(e, "z", r.Z, NonNegative)
-		fe.CheckIn(e, "screen_top", r.ScreenTop, NonNegative)
-		fe.CheckIn(e, "screen_bottom", r.ScreenBottom, NonNegative)
-		switch {
-		case (r.ScreenTop == nil) != (r.ScreenBottom == nil):
-			if r.ScreenTop == nil {
-				fe.Add(e.field("screen_top"), "give both screen_top and screen_bottom, or neither")
-			} else {
-				fe.Add(e.field("screen_bottom"), "give both screen_top and screen_bottom, or neither")
-			}
-		case r.ScreenTop != nil && Finite(*r.ScreenTop) && Finite(*r.ScreenBottom) && *r.ScreenBottom < *r.ScreenTop:
-			fe.Add(e.field("screen_bottom"), fmt.Sprintf("must be >= screen_top (%g), got %g", *r.ScreenTop, *r.ScreenBottom))
-		}
-		if msg := textMessage(r.ID, false); msg != "" {
-			fe.Add(e.field("id"), msg)
-		}
+		validateReceptor(fe, i, r)
 		if r.ID != "" {
 			if j, dup := seen[r.ID]; dup {
-				fe.Add(e.field("id"), fmt.Sprintf("must be unique; %q is also receptors[%d].id", r.ID, j))
+				fe.Add(elemPath{"receptors", i}.field("id"), fmt.Sprintf("must be unique; %q is also receptors[%d].id", r.ID, j))
 			} else {
 				seen[r.ID] = i
 			}
 		}
+	}
+}
+
+// validateReceptor checks receptors[i] on its own (its uniqueness is the
+// caller's): site x and y (or lon and lat), depths >= 0, both screen ends
+// or neither with bottom >= top, an id without control characters.
+func validateReceptor(fe *FieldErrors, i int, r Receptor) {
+	e := elemPath{"receptors", i}
+	if r.X == nil && !r.hasLonLat() {
+		fe.Add(e.field("x"), "required: site x (east) of the receptor (or lon and lat with a crs)")
+	}
+	if r.Y == nil && !r.hasLonLat() {
+		fe.Add(e.field("y"), "required: site y (north) of the receptor (or lon and lat with a crs)")
+	}
+	fe.CheckIn(e, "x", r.X, AnyFinite)
+	fe.CheckIn(e, "y", r.Y, AnyFinite)
+	fe.CheckIn(e, "z", r.Z, NonNegative)
+	fe.CheckIn(e, "screen_top", r.ScreenTop, NonNegative)
+	fe.CheckIn(e, "screen_bottom", r.ScreenBottom, NonNegative)
+	switch {
+	case (r.ScreenTop == nil) != (r.ScreenBottom == nil):
+		if r.ScreenTop == nil {
+			fe.Add(e.field("screen_top"), "give both screen_top and screen_bottom, or neither")
+		} else {
+			fe.Add(e.field("screen_bottom"), "give both screen_top and screen_bottom, or neither")
+		}
+	case r.ScreenTop != nil && Finite(*r.ScreenTop) && Finite(*r.ScreenBottom) && *r.ScreenBottom < *r.ScreenTop:
+		fe.Add(e.field("screen_bottom"), fmt.Sprintf("must be >= screen_top (%g), got %g", *r.ScreenTop, *r.ScreenBottom))
+	}
+	if msg := textMessage(r.ID, false); msg != "" {
+		fe.Add(e.field("id"), msg)
 	}
 }
 
