@@ -146,14 +146,8 @@ type arrayReader struct {
 }
 
 func (r *arrayReader) next() (plume.Receptor, []issue, error) {
-	if r.done || !r.dec.More() {
-		if !r.done {
-			r.done = true
-			if _, err := r.dec.Token(); err != nil { // ]
-				return plume.Receptor{}, nil, err
-			}
-		}
-		return plume.Receptor{}, nil, io.EOF
+	if err := arrayEnd(r.dec, &r.done); err != nil {
+		return plume.Receptor{}, nil, err
 	}
 	i := r.i
 	r.i++
@@ -518,4 +512,20 @@ func multipartProblem(err error) *Problem {
 		return newProblem(kindMalformed, "malformed JSON in the receptors part: "+se.Error(), FieldProblem{Field: "receptors", Message: se.Error()})
 	}
 	return newProblem(kindMalformed, "malformed multipart body: "+err.Error(), FieldProblem{Field: "", Message: err.Error()})
+}
+
+// arrayEnd reports io.EOF once dec has no more elements in the array it is
+// reading (consuming the closing bracket the first time, and marking done);
+// nil while elements remain; any other error is the body's.
+func arrayEnd(dec *json.Decoder, done *bool) error {
+	if !*done && dec.More() {
+		return nil
+	}
+	if !*done {
+		*done = true
+		if _, err := dec.Token(); err != nil { // ]
+			return err
+		}
+	}
+	return io.EOF
 }

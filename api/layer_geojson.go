@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
-	"io"
 	"math"
 	"strconv"
 	"strings"
@@ -45,14 +44,8 @@ type featureReader struct {
 // with issues is not screened); io.EOF after the last. Any other error is
 // the body's (malformed JSON, a read error).
 func (r *featureReader) next() (plume.Receptor, []issue, error) {
-	if r.done || !r.dec.More() {
-		if !r.done {
-			r.done = true
-			if _, err := r.dec.Token(); err != nil { // ]
-				return plume.Receptor{}, nil, err
-			}
-		}
-		return plume.Receptor{}, nil, io.EOF
+	if err := arrayEnd(r.dec, &r.done); err != nil {
+		return plume.Receptor{}, nil, err
 	}
 	i := r.i
 	r.i++

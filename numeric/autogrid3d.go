@@ -92,16 +92,7 @@ func designGrid3(p *Problem3D, scale float64) design3 {
 	if !(lx > 0) {
 		lx = layer
 	}
-	pe := orDefault(p.PecletMax, 2)
-	hxMax := pe * p.Dx / p.V
-	if t1 := firstPositive(p.Times); t1 > 0 && !math.IsInf(t1, 1) {
-		hxMax = math.Min(hxMax, 0.25*math.Sqrt(2*p.Dx*t1/p.R))
-	}
-	hxMax = math.Min(hxMax, lx/30)
-	hx0 := hxMax / 6
-	if t1 := firstPositive(p.Times); t1 > 0 && !math.IsInf(t1, 1) {
-		hxMax = math.Min(hxMax, 0.15*math.Sqrt(2*p.Dx*t1/p.R))
-	}
+	hxMax, hx0 := xSpacing(p, lx)
 	lx += hxMax * scale // the farthest receptor lies inside, not on the outflow face
 	if math.IsInf(xrMin, 1) {
 		xrMin = 0
@@ -168,4 +159,26 @@ func designFor(p *Problem3D, budget int) (x, y, z Axis, err error) {
 	return x, y, z, cellBudgetError("Problem3D.CellBudget", need, budget, "need %.3g cells (%s x %s x %s) for grid Peclet <= %.3g but the budget is %d; a budget of %d fits grid Peclet <= %.3g (all spacings %.3g times coarser, %s x %s x %s cells), which is less accurate; raise CellBudget to at least %s or loosen PecletMax/Refine",
 		need, fmtCount(d.x.cells), fmtCount(d.y.cells), fmtCount(d.z.cells), d.peclet(p, b), budget, budget, fit.peclet(p, b), hi*refine,
 		fmtCount(fit.x.cells), fmtCount(fit.y.cells), fmtCount(fit.z.cells), fmtCount(need))
+}
+
+// xSpacing returns the automatic 3D grid's largest x spacing and its
+// spacing at the source faces, m, for a domain of length lx: the grid
+// Peclet number's limit (default 2), a quarter of the dispersion length at
+// the first requested time and a thirtieth of the domain; the largest
+// spacing is then held to 0.15 of that dispersion length (the face spacing
+// is a sixth of the spacing before that).
+func xSpacing(p *Problem3D, lx float64) (hxMax, hx0 float64) {
+	pe := orDefault(p.PecletMax, 2)
+	hxMax = pe * p.Dx / p.V
+	t1 := firstPositive(p.Times)
+	early := t1 > 0 && !math.IsInf(t1, 1)
+	if early {
+		hxMax = math.Min(hxMax, 0.25*math.Sqrt(2*p.Dx*t1/p.R))
+	}
+	hxMax = math.Min(hxMax, lx/30)
+	hx0 = hxMax / 6
+	if early {
+		hxMax = math.Min(hxMax, 0.15*math.Sqrt(2*p.Dx*t1/p.R))
+	}
+	return hxMax, hx0
 }

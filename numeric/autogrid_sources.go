@@ -79,16 +79,7 @@ func designSources(p *Problem3D, scale float64) sourceDesign {
 	if !(lx > 0) {
 		lx = layer
 	}
-	pe := orDefault(p.PecletMax, 2)
-	hxMax := pe * p.Dx / p.V
-	if t1 := firstPositive(p.Times); t1 > 0 && !math.IsInf(t1, 1) {
-		hxMax = math.Min(hxMax, 0.25*math.Sqrt(2*p.Dx*t1/p.R))
-	}
-	hxMax = math.Min(hxMax, lx/30)
-	hx0 := hxMax / 6
-	if t1 := firstPositive(p.Times); t1 > 0 && !math.IsInf(t1, 1) {
-		hxMax = math.Min(hxMax, 0.15*math.Sqrt(2*p.Dx*t1/p.R))
-	}
+	hxMax, hx0 := xSpacing(p, lx)
 	lx += hxMax * scale // the farthest receptor lies inside, not on the outflow face
 	if math.IsInf(xrMin, 1) {
 		xrMin = 0
