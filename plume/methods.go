@@ -214,6 +214,9 @@ func closedFormOf(a *aquiferParams, c *compoundParams, s *sourceParams, exact bo
 		}
 	default:
 		pt := analytic.Point{X: p.X, Y: p.Y, Top: p.Top, Bottom: p.Bottom}
+		if exact && negligible3D(pr, p.X, tau) {
+			return 0
+		}
 		if exact {
 			v = s.c0 * analytic.Exact3DAt(pt, tau, pr, s.plumeSource(), s.history())
 		} else {
@@ -244,4 +247,32 @@ func puff(a *aquiferParams, s *sourceParams, pr analytic.Params, p Point, tau fl
 		return f(p.Top)
 	}
 	return quad.Fixed(f, p.Top, p.Bottom, puffScreenNodes, quad.Legendre{}, 0) / (p.Bottom - p.Top)
+}
+
+// NegligibleFraction is the fraction of a source's concentration below
+// which its exact 3D contribution is not computed but taken as 0: a
+// millionth of the reporting floor (ConcentrationFloorFraction), so that
+// no reported value changes by more than 1e-6 of the floor per source.
+const NegligibleFraction = 1e-6 * ConcentrationFloorFraction
+
+// negligible3D reports whether the exact 3D value of a planar source at
+// plume distance x and elapsed time tau is certainly below
+// NegligibleFraction of its concentration. The bound is the 1D first-type
+// column (Ogata-Banks) of a constant source that never stops: the exact
+// 3D value is the time integral of that column's pulse response times
+// the transverse and vertical factors (each at most 1) and the source's
+// relative strength (at most 1), so it cannot exceed it. The column costs
+// a few erfc calls against the thousands of the 3D integral, which far
+// downstream at early times, or far across the flow, is spent on values
+// of 1e-50.
+// Outside ordinary magnitudes (a transport parameter, the Peclet number
+// x V / Dx, the distance V tau or the spread Dx tau not finite, as fuzzed
+// extremes give, and at steady state) the bound is not used.
+func negligible3D(pr analytic.Params, x, tau float64) bool {
+	for _, v := range []float64{pr.V, pr.Dx, pr.Dy, pr.Dz, pr.R, x * pr.V / pr.Dx, pr.V * tau, pr.Dx * tau} {
+		if !(v > 0) || math.IsInf(v, 1) {
+			return false
+		}
+	}
+	return analytic.OgataBanksAt(x, tau, pr, analytic.FirstType, analytic.History{}) < NegligibleFraction
 }
