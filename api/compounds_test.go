@@ -6,7 +6,6 @@ import (
 	"encoding/json"
 	"net/http"
 	"net/url"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
@@ -22,16 +21,7 @@ func dryCleanerMap(t *testing.T) map[string]any { return dryCleanerMapB(t) }
 // dryCleanerMapB is dryCleanerMap for tests and benchmarks.
 func dryCleanerMapB(t testing.TB) map[string]any {
 	t.Helper()
-	b, err := os.ReadFile("../testdata/demo/dry-cleaner.json")
-	if err != nil {
-		t.Fatal(err)
-	}
-	var m map[string]any
-	if err := json.Unmarshal(b, &m); err != nil {
-		t.Fatal(err)
-	}
-	m["methods"] = []any{"exact", "domenico"}
-	return m
+	return demoFileMap(t, "dry-cleaner.json")
 }
 
 // equalRChain makes the demo's compounds share one retardation factor, so

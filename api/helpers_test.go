@@ -100,6 +100,22 @@ func demoBody(t testing.TB) []byte {
 	return b
 }
 
+// demoFileMap is the invented demo file testdata/demo/name as a generic
+// JSON tree, with the closed forms only (methods exact and domenico).
+func demoFileMap(t testing.TB, name string) map[string]any {
+	t.Helper()
+	b, err := os.ReadFile("../testdata/demo/" + name)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var m map[string]any
+	if err := json.Unmarshal(b, &m); err != nil {
+		t.Fatal(err)
+	}
+	m["methods"] = []any{"exact", "domenico"}
+	return m
+}
+
 // demoMap is the demo scenario as a generic JSON tree, for editing.
 func demoMap(t testing.TB) map[string]any {
 	t.Helper()

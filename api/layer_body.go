@@ -330,17 +330,7 @@ func isGeoJSONPart(contentType string, br *bufio.Reader) bool {
 // else 413 when one is over a limit, else 422 (missing-input when all are
 // missing values).
 func problemFromIssues(issues []issue, detail string) *Problem {
-	kind := kindInvalid
-	for _, is := range issues {
-		if is.kind == kindTooLarge {
-			kind = kindTooLarge
-		}
-	}
-	for _, is := range issues {
-		if is.kind == kindMalformed {
-			kind = kindMalformed
-		}
-	}
+	kind := issuesKind(issues)
 	fps := make([]FieldProblem, 0, len(issues))
 	for _, is := range issues {
 		fps = append(fps, FieldProblem{Field: is.field, Message: is.message})

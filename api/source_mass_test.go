@@ -3,7 +3,6 @@ package api
 import (
 	"encoding/json"
 	"net/http"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
@@ -15,16 +14,7 @@ import (
 // source-mass.json) with the closed forms only.
 func sourceMassMap(t *testing.T) map[string]any {
 	t.Helper()
-	b, err := os.ReadFile("../testdata/demo/source-mass.json")
-	if err != nil {
-		t.Fatal(err)
-	}
-	var m map[string]any
-	if err := json.Unmarshal(b, &m); err != nil {
-		t.Fatal(err)
-	}
-	m["methods"] = []any{"exact", "domenico"}
-	return m
+	return demoFileMap(t, "source-mass.json")
 }
 
 // A source with a mass end to end: derived.sources carries the depletion

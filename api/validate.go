@@ -286,17 +286,7 @@ func problemFromValidation(err error, extra ...issue) *Problem {
 		}
 	}
 	issues = append(issues, extra...)
-	kind := kindInvalid
-	for _, is := range issues {
-		if is.kind == kindTooLarge {
-			kind = kindTooLarge
-		}
-	}
-	for _, is := range issues {
-		if is.kind == kindMalformed {
-			kind = kindMalformed
-		}
-	}
+	kind := issuesKind(issues)
 	fps := make([]FieldProblem, 0, len(issues))
 	seen := map[FieldProblem]bool{}
 	for _, is := range issues {
@@ -553,3 +543,19 @@ func enumList(vals []any) string {
 }
 
 func fmtNum(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// issuesKind is the problem kind of a list of issues: malformed (400) when
+// any is a wrong type or unparseable, else too large (413) when any is
+// over a limit, else invalid (422).
+func issuesKind(issues []issue) problemKind {
+	kind := kindInvalid
+	for _, is := range issues {
+		switch {
+		case is.kind == kindMalformed:
+			return kindMalformed
+		case is.kind == kindTooLarge:
+			kind = kindTooLarge
+		}
+	}
+	return kind
+}
