@@ -38,16 +38,30 @@ func erfcFast(x float64) float64 {
 		return 0 // exp(-x^2) is below the smallest subnormal
 	}
 	e := math.Exp(-hi) * (1 - math.FMA(x, x, -hi))
+	return e * erfcxTable(x)
+}
+
+// erfcxFast returns erfcx(x) = exp(x^2) erfc(x) for x >= 0, without an
+// exponential from 0.84375 up (the tables of erfcFast); below, one.
+func erfcxFast(x float64) float64 {
+	if !(x >= erfTableLo) { // also NaN
+		return expSquare(x) * math.Erfc(x)
+	}
+	return erfcxTable(x)
+}
+
+// erfcxTable returns erfcx(x) for x >= 0.84375 from the interpolants.
+func erfcxTable(x float64) float64 {
 	if x < 6 {
 		i, t := erfPiece(x)
-		return e * poly10(&erfcxPieces[i], t)
+		return poly10(&erfcxPieces[i], t)
 	}
 	if x >= 27 {
-		return e * erfcxAsymptotic(x)
+		return erfcxAsymptotic(x)
 	}
 	// x erfcx(x) in y = 6/x on [6/27, 1].
 	const c, r = (1 + 6.0/27) / 2, (1 - 6.0/27) / 2
-	return e * polyTail(6/x-c, r) / x
+	return polyTail(6/x-c, r) / x
 }
 
 // erfPiece returns the piece of the tables holding x in [0.84375, 6) and

@@ -126,6 +126,7 @@ type kernel3D struct {
 	ky, kz          float64 // sigma to transverse-argument ratios; 0: the factor is 1
 	fy, fz          stripFactor
 	s2              float64 // sigma*^2
+	tilt            float64 // T >= 1: sigma here is T times the sigma of the age (see tilted)
 	u0              float64 // shift of the weight
 	ua, ub          float64 // u at tau = t and at tau = t - Duration (or -Inf, +Inf)
 	inside, flux    bool    // decay weights in the integrand; flux-pulse kernel
@@ -139,6 +140,12 @@ type kernel3D struct {
 // factor that turns its integral into C/C0: (2/sqrt(pi)) exp(-A - u0^2)
 // times exp(-g t) where the depletion is folded into the decay rate.
 func newKernel3D(pt Point, t float64, p Params, s Source, h History, flux bool) (kernel3D, float64) {
+	return newKernel3DTilt(pt, t, p, s, h, flux, tiltMin)
+}
+
+// newKernel3DTilt is newKernel3D with the threshold of tiltFor given
+// (+Inf: never tilted; the tests compare both forms).
+func newKernel3DTilt(pt Point, t float64, p Params, s Source, h History, flux bool, minTilt float64) (kernel3D, float64) {
 	x := pt.X
 	top, bot := screenDepths(pt)
 	k := kernel3D{y: math.Abs(pt.Y), halfW: s.Width / 2, top: top, bot: bot, depth: s.Depth,
@@ -156,6 +163,7 @@ func newKernel3D(pt Point, t float64, p Params, s Source, h History, flux bool) 
 	}
 	k.fy = newStripFactor(k.y, k.y, k.halfW, k.ky)
 	k.fz = newStripFactor(top, bot, s.Depth, k.kz)
+	k.tilt = 1
 
 	// Decay and depletion: the depletion is folded into an effective decay
 	// rate Mu - g >= 0 and a factor exp(-g t) where g <= Mu. Otherwise
@@ -177,13 +185,28 @@ func newKernel3D(pt Point, t float64, p Params, s Source, h History, flux bool) 
 	k.s2 = root
 	attenuation := 2 * gam / (root + k.beta)
 
-	// Limits in u: tau = t is the lower limit, tau = t - Duration the upper.
-	k.ua, k.ub = math.Inf(-1), math.Inf(1)
+	// sigma at the limits: tau = t (0: none) and tau = t - Duration (+Inf:
+	// none).
+	sigT, sigD := 0.0, math.Inf(1)
 	if !math.IsInf(t, 1) {
-		k.ua = k.uOf(x / (2 * math.Sqrt(dp*t)))
+		sigT = x / (2 * math.Sqrt(dp*t))
 	}
 	if h.finite() && t > h.Duration {
-		k.ub = k.uOf(x / (2 * math.Sqrt(dp*(t-h.Duration))))
+		sigD = x / (2 * math.Sqrt(dp*(t-h.Duration)))
+	}
+	if tl := k.tiltFor(sigT, sigD, minTilt); tl > 1 {
+		k.tilted(tl)
+		attenuation += 2 * (tl - 1) * root
+		pref /= tl
+	}
+
+	// Limits in u: tau = t is the lower limit, tau = t - Duration the upper.
+	k.ua, k.ub = math.Inf(-1), math.Inf(1)
+	if sigT > 0 {
+		k.ua = k.uOf(k.tilt * sigT)
+	}
+	if !math.IsInf(sigD, 1) {
+		k.ub = k.uOf(k.tilt * sigD)
 	}
 	// Shift that keeps the weight exp(-(u^2 - u0^2)) near 1 where the mass is.
 	if k.ua > 0 {
@@ -192,6 +215,61 @@ func newKernel3D(pt Point, t float64, p Params, s Source, h History, flux bool) 
 		k.u0 = k.ub
 	}
 	return k, 2 * invSqrtPi * pref * math.Exp(-attenuation-k.u0*k.u0)
+}
+
+// tiltMin is the decay exponent B sigma^2 of the transverse factors
+// outside the source, at the sigma where the weight's mass lies, from which
+// the kernel is tilted (see tiltFor).
+const tiltMin = 1.0
+
+// tiltFor returns the tilt T for the kernel (1: none). A receptor outside
+// the source's width (or below its depth) has a transverse factor that
+// falls like exp(-b^2 sigma^2) with sigma (younger ages): the integrand's
+// mass then lies at smaller sigma than the weight's, where the window of
+// the fast path and the panels of the adaptive one are not. Where that
+// fall is steep at the weight's mass (B sigma^2 >= tiltMin, B the sum of
+// b^2 over the factors outside), the kernel takes the factors'
+// exponentials into the weight: T = sqrt(1 + B). Not for the flux kernel
+// or a weight kept inside. sigT, sigD: sigma at tau = t and at
+// tau = t - Duration (0, +Inf: none); minTilt: the threshold (tiltMin).
+func (k *kernel3D) tiltFor(sigT, sigD, minTilt float64) float64 {
+	if k.inside {
+		return 1
+	}
+	b := k.fy.outsideRate() + k.fz.outsideRate()
+	if !(b > 0) {
+		return 1
+	}
+	// sigma where the weight exp(-u^2), u = sigma - s2/sigma, has its mass
+	// between the limits: its peak sigma* = sqrt(s2), or the nearer limit.
+	sig := math.Sqrt(k.s2)
+	switch {
+	case sig < sigT:
+		sig = sigT
+	case sig > sigD:
+		sig = sigD
+	}
+	if !(b*sig*sig >= minTilt) {
+		return 1
+	}
+	return math.Sqrt(1 + b)
+}
+
+// tilted changes the kernel's variable to sigma' = T sigma: with the
+// factors outside written exp(-b^2 sigma^2) G(sigma), the exponent
+// -(sigma - beta/sigma)^2 - gamma/sigma^2 - B sigma^2 becomes
+// -(sigma' - S/sigma')^2 - 2 (S - beta) with S = T sigma*^2, the same form
+// with sigma*^2 scaled by T, a further attenuation 2 (T - 1) sigma*^2 and a
+// factor 1/T from d sigma = d sigma'/T (the caller applies those two). The
+// factors take sigma' (their coefficients divided by T), and those outside
+// return G, which varies slowly.
+func (k *kernel3D) tilted(tl float64) {
+	k.tilt = tl
+	k.s2 *= tl
+	k.ky /= tl
+	k.kz /= tl
+	k.fy = k.fy.scaledBy(tl)
+	k.fz = k.fz.scaledBy(tl)
 }
 
 // sigma inverts u = sigma - s2/sigma without cancellation.
@@ -227,6 +305,7 @@ func (k *kernel3D) eval(v float64) float64 {
 // B x^2 sqrt(pi) / (4 D' sigma^3), at most 2 beta / sigma^2.
 func (k *kernel3D) weighted(v, sig float64) float64 {
 	x, dp := k.x, k.dp
+	sig /= k.tilt // a weight inside is never tilted; kept for safety
 	tau := x * x / (4 * dp * sig * sig)
 	wt := -k.mu * tau
 	if k.g > 0 {
@@ -274,10 +353,16 @@ func (k *kernel3D) bound(a, b float64) float64 {
 		v *= 2 * k.beta / (sa * sa)
 		v = math.Min(v, 2*(b-a)*e)
 	}
-	if k.ky != 0 {
+	switch {
+	case k.fy.kind == factorOutsideScaled:
+		v *= k.fy.scaledBound(sa)
+	case k.ky != 0:
 		v *= math.Min(stripBound(k.y, k.halfW, sa*k.ky), stripBoundAbove(k.y, k.halfW, sb*k.ky))
 	}
-	if k.kz != 0 {
+	switch {
+	case k.fz.kind == factorOutsideScaled:
+		v *= k.fz.scaledBound(sa)
+	case k.kz != 0:
 		v *= screenBound(k.top, k.bot, k.depth, sa*k.kz, sb*k.kz)
 	}
 	return v

@@ -280,6 +280,11 @@ func (f *stripFactor) smooth(term func(a float64, tail bool) bool) bool {
 	case factorScreen:
 		top, bot := newStripFactor(f.z1, f.z1, f.h, f.k), newStripFactor(f.z2, f.z2, f.h, f.k)
 		return top.smooth(term) && bot.smooth(term)
+	case factorOutsideScaled:
+		// erfcx(b sigma)/2 (1 - r), r <= exp(-c sigma^2): the first
+		// factor bends at most like erf(b sigma) does, and 1 - r rises
+		// from 0 to 1 on the scale of erf(sqrt(c) sigma).
+		return term(f.b, false) && term(math.Sqrt(f.c), false)
 	}
 	return true
 }

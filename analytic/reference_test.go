@@ -160,6 +160,15 @@ func TestReferenceErfcx(t *testing.T) {
 		ex.check(t, c.Label, Erfcx(float64(c.X)), float64(c.Value), float64(c.Cond), 1e-13)
 	}
 	ex.log(t)
+	// erfcxFast (the tables of the exact 3D transverse factors) against
+	// the same references at x >= 0 (analytic_erfcx.json).
+	fx := newRefTracker("erfcxFast")
+	for _, c := range f.Cases {
+		if x := float64(c.X); x >= 0 {
+			fx.check(t, c.Label, erfcxFast(x), float64(c.Value), float64(c.Cond), 1e-14)
+		}
+	}
+	fx.log(t)
 
 	ee := newRefTracker("ExpErfc")
 	for _, c := range f.ExpErfcCases {

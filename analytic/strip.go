@@ -155,6 +155,7 @@ var (
 type stripFactor struct {
 	kind   int
 	a, b   float64 // coefficients of sigma in the error-function arguments
+	c      float64 // a^2 - b^2 (kind factorOutsideScaled)
 	z1, z2 float64 // screen ends (kind factorScreen)
 	h, k   float64 // strip half-width and ratio (kind factorScreen)
 }
@@ -166,6 +167,10 @@ const (
 	factorOutside        // d > h: [erfc(b sigma) - erfc(a sigma)]/2
 	factorEdge           // d = h: erf(a sigma)/2
 	factorScreen         // stripAverage(z1, z2, h, k sigma)
+	// factorOutsideScaled: d > h, the factor times exp((b sigma)^2),
+	// [erfcx(b sigma) - erfcx(a sigma) exp(-c sigma^2)]/2 with c = a^2 - b^2
+	// (a tilted kernel, see kernel3D.tilted).
+	factorOutsideScaled
 )
 
 // newStripFactor returns the factor strip(d, h, k sigma) averaged over
@@ -187,6 +192,36 @@ func newStripFactor(d, d2, h, k float64) stripFactor {
 	return stripFactor{kind: factorEdge, a: 2 * h * k}
 }
 
+// outsideRate returns b^2 for a factor outside the strip (it falls like
+// exp(-b^2 sigma^2) with sigma), and 0 for the others.
+func (f *stripFactor) outsideRate() float64 {
+	if f.kind == factorOutside {
+		return f.b * f.b
+	}
+	return 0
+}
+
+// scaledBy returns the factor as a function of sigma' = t sigma: its
+// coefficients divided by t, and a factor outside the strip as
+// factorOutsideScaled.
+func (f stripFactor) scaledBy(t float64) stripFactor {
+	f.a /= t
+	f.b /= t
+	f.k /= t
+	if f.kind == factorOutside {
+		f.kind = factorOutsideScaled
+		f.c = (f.a - f.b) * (f.a + f.b)
+	}
+	return f
+}
+
+// scaledBound is an upper bound of a factorOutsideScaled factor at every
+// sigma >= sig: erfcx(b sigma)/2, which falls with sigma (the term
+// subtracted from it is positive).
+func (f *stripFactor) scaledBound(sig float64) float64 {
+	return 0.5 * erfcxFast(f.b*sig) * (1 + 1e-14)
+}
+
 // at returns the factor at sigma > 0 (with erfFast and erfcFast: within a
 // few units of 1e-16 of strip).
 func (f *stripFactor) at(sig float64) float64 {
@@ -201,6 +236,8 @@ func (f *stripFactor) at(sig float64) float64 {
 		return 0.5 * erfFast(f.a*sig)
 	case factorScreen:
 		return stripAverage(f.z1, f.z2, f.h, f.k*sig)
+	case factorOutsideScaled:
+		return 0.5 * (erfcxFast(f.b*sig) - erfcxFast(f.a*sig)*math.Exp(-f.c*sig*sig))
 	}
 	return 1
 }

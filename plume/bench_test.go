@@ -93,23 +93,43 @@ func BenchmarkTenSources(b *testing.B) {
 		ten.Sources = append(ten.Sources, s)
 	}
 	ten.Source = Source{}
-	one := timePer(func() {
-		if _, err := Screen(context.Background(), base, Options{}); err != nil {
-			b.Fatal(err)
+	screen := func(sc Scenario) func() {
+		return func() {
+			if _, err := Screen(context.Background(), sc, Options{}); err != nil {
+				b.Fatal(err)
+			}
 		}
-	})
-	b.ResetTimer()
+	}
 	for b.Loop() {
-		if _, err := Screen(context.Background(), ten, Options{}); err != nil {
-			b.Fatal(err)
-		}
+		screen(ten)()
 	}
 	b.StopTimer()
-	per := b.Elapsed() / time.Duration(b.N)
-	b.ReportMetric(float64(per)/float64(one), "x-one-source")
-	if per > 12*one {
-		b.Errorf("ten sources %v, %.1f times one source (%v); target at most 12", per, float64(per)/float64(one), one)
+	ratio, one, per := minRatio(15, screen(base), screen(ten))
+	b.ReportMetric(ratio, "x-one-source")
+	if ratio > 12 {
+		b.Errorf("ten sources %v, %.1f times one source (%v); target at most 12", per, ratio, one)
 	}
+}
+
+// minRatio runs a and b alternately, rounds times each, and returns the
+// ratio of b's fastest run to a's fastest, with those two times: noise on a
+// shared machine only adds time, so the fastest runs are the closest to
+// the work itself, and alternating exposes both to the same conditions.
+func minRatio(rounds int, a, c func()) (float64, time.Duration, time.Duration) {
+	fastest := func(f func(), best time.Duration) time.Duration {
+		start := time.Now()
+		f()
+		if d := time.Since(start); best == 0 || d < best {
+			return d
+		}
+		return best
+	}
+	var ta, tc time.Duration
+	for range rounds {
+		ta = fastest(a, ta)
+		tc = fastest(c, tc)
+	}
+	return float64(tc) / float64(ta), ta, tc
 }
 
 // BenchmarkSourceMassAllowable: the allowable source concentration at a
