@@ -73,8 +73,11 @@ func stripBoundAbove(d, h, c float64) float64 {
 // integral_s^inf erfc(u) du = exp(-s^2)/sqrt(pi) - s erfc(s), for s >= 0,
 // without the cancellation of that formula at large s.
 func ierfc(s float64) float64 {
+	if s < erfTableLo {
+		return math.Exp(-s*s)*invSqrtPi - s*math.Erfc(s)
+	}
 	if s < 8 {
-		return math.Exp(-s*s) * (invSqrtPi - s*Erfcx(s))
+		return math.Exp(-s*s) * (invSqrtPi - s*erfcxFast(s))
 	}
 	// 1/sqrt(pi) - s erfcx(s) = 1/sqrt(pi) sum_{k>=1} (-1)^(k+1) (2k-1)!!/(2s^2)^k.
 	r := 1 / (2 * s * s)

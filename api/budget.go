@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync"
 
 	"downgradient/plume"
 	"downgradient/plume/maps"
@@ -187,7 +188,7 @@ var errOutputOver = errors.New("the answer is over the output budget")
 
 // cappedBuffer is a buffer that refuses to grow past limit bytes.
 type cappedBuffer struct {
-	bytes.Buffer
+	*bytes.Buffer
 	limit int
 }
 
@@ -197,6 +198,25 @@ func (b *cappedBuffer) Write(p []byte) (int, error) {
 		return 0, errOutputOver
 	}
 	return b.Buffer.Write(p)
+}
+
+// answerBuffers holds the buffers of JSON answers between requests: an
+// answer is encoded into one, written to the client by send, and the
+// buffer is given back (free) once the last byte is written, so that a
+// steady stream of requests reuses a few buffers instead of growing a new
+// one (about 30 kB of garbage per demo answer) each time.
+var answerBuffers = sync.Pool{New: func() any { return new(bytes.Buffer) }}
+
+// maxPooledAnswer is the largest buffer kept for reuse; larger ones (rare,
+// large layers and maps) are left to the garbage collector.
+const maxPooledAnswer = 1 << 20
+
+// freeAnswer gives buf back to answerBuffers.
+func freeAnswer(buf *bytes.Buffer) {
+	if buf.Cap() <= maxPooledAnswer {
+		buf.Reset()
+		answerBuffers.Put(buf)
+	}
 }
 
 // overBudget is the domain error (413) of an answer past the hard cap.
@@ -218,16 +238,17 @@ func (s *server) encodeJSON(v any, contentType string, fields ...string) (*reply
 	// The encoder writes its whole answer once, so the buffer is sized by
 	// that write (the output estimates are upper bounds, several times the
 	// typical answer: sizing the buffer by them cost 40 kB per demo request).
-	buf := &cappedBuffer{limit: s.cfg.MaxOutputBytes}
+	buf := &cappedBuffer{Buffer: answerBuffers.Get().(*bytes.Buffer), limit: s.cfg.MaxOutputBytes}
 	enc := json.NewEncoder(buf)
 	enc.SetEscapeHTML(false)
 	if err := enc.Encode(v); err != nil {
+		freeAnswer(buf.Buffer)
 		if errors.Is(err, errOutputOver) {
 			return nil, s.overBudget(fields...)
 		}
 		return nil, &plume.Error{Kind: plume.KindInternal, Detail: "the result could not be encoded", Err: err}
 	}
-	return &reply{contentType: contentType, body: buf.Bytes()}, nil
+	return &reply{contentType: contentType, body: buf.Bytes(), pooled: buf.Buffer}, nil
 }
 
 // capBytes holds an encoded answer to the hard cap.

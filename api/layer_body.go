@@ -391,6 +391,32 @@ func bodyDecodeProblem(err error, body []byte) *Problem {
 	return newProblem(kindMalformed, "malformed body: "+err.Error(), FieldProblem{Field: "", Message: err.Error()})
 }
 
+// mayHoldLayer reports whether body can hold a receptor layer or a
+// receptor_id_property: whether the bytes "receptor_id_property" occur, or
+// some "receptors" is followed (after white space and a colon) by an
+// object. A cheap scan of the raw bytes, so that the usual body (an array
+// of receptors) is not parsed a second time; a false positive only costs
+// that parse. (A key spelt with escapes, "receptor\u0073", is not
+// recognised: its layer then fails the schema check, which names it.)
+func mayHoldLayer(body []byte) bool {
+	if bytes.Contains(body, []byte(`"receptor_id_property"`)) {
+		return true
+	}
+	key := []byte(`"receptors"`)
+	for rest := body; ; {
+		i := bytes.Index(rest, key)
+		if i < 0 {
+			return false
+		}
+		rest = bytes.TrimLeft(rest[i+len(key):], " \t\r\n")
+		if len(rest) > 0 && rest[0] == ':' {
+			if v := bytes.TrimLeft(rest[1:], " \t\r\n"); len(v) > 0 && v[0] == '{' {
+				return true
+			}
+		}
+	}
+}
+
 // normalizeLayer rewrites a scenario body (a request in memory, not
 // streamed) whose receptors are a GeoJSON layer into the array form, and
 // drops receptor_id_property, so that the schema check, the domain's rules
@@ -398,6 +424,9 @@ func bodyDecodeProblem(err error, body []byte) *Problem {
 // ("" for the body itself). The names map the array's field paths back to
 // the layer's; nil when the body is left as it is.
 func normalizeLayer(body []byte, at string) ([]byte, *layerNames, *Problem) {
+	if !mayHoldLayer(body) {
+		return body, nil, nil
+	}
 	var top map[string]json.RawMessage
 	if json.Unmarshal(body, &top) != nil || top == nil {
 		return body, nil, nil // the schema check names what is wrong

@@ -381,3 +381,26 @@ func TestLayerLimitNotStreamed(t *testing.T) {
 		t.Errorf("streamed %d records, last %q", len(recs), recordKind(recs[len(recs)-1]))
 	}
 }
+
+// mayHoldLayer lets every body with a layer or receptor_id_property through
+// to the full parse, and passes the usual array body by.
+func TestMayHoldLayer(t *testing.T) {
+	for _, c := range []struct {
+		body string
+		want bool
+	}{
+		{`{"receptors": [{"id": "MW-1", "x": 1, "y": 2}]}`, false},
+		{`{"receptors":{"type":"FeatureCollection","features":[]}}`, true},
+		{"{\"receptors\" \n:\t {\"type\": \"FeatureCollection\"}}", true},
+		{`{"scenario": {"receptors": {"type": "FeatureCollection"}}}`, true},
+		{`{"receptors": [], "receptor_id_property": "name"}`, true},
+		{`{"description": "\"receptors\": none", "receptors": []}`, false},
+		{`{"receptors": []}{"receptors": {}}`, true}, // a false positive only costs a parse
+		{`{}`, false},
+		{``, false},
+	} {
+		if got := mayHoldLayer([]byte(c.body)); got != c.want {
+			t.Errorf("mayHoldLayer(%s) = %v, want %v", c.body, got, c.want)
+		}
+	}
+}

@@ -1,6 +1,7 @@
 package api
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
@@ -176,6 +177,9 @@ type reply struct {
 	contentType string
 	body        []byte
 	header      [][2]string
+	// pooled, when set, is the buffer body lives in (encodeJSON); send
+	// gives it back once body is written, and body must not be used after.
+	pooled *bytes.Buffer
 }
 
 // send writes r with status 200 in chunks, each under a write deadline of
@@ -183,6 +187,9 @@ type reply struct {
 // minWriteRate: a client that stops reading loses the connection, and with
 // it the request's computation slot, after WriteTimeout.
 func (s *server) send(c echo.Context, r *reply) error {
+	if r.pooled != nil {
+		defer freeAnswer(r.pooled)
+	}
 	res := c.Response()
 	h := res.Header()
 	for _, kv := range r.header {

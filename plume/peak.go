@@ -189,52 +189,7 @@ func (m *model) firstExceedance(f func(float64) float64, exact bool, p Point, pk
 	g := func(t float64) float64 { return f(t) - level }
 	const rel = 1e-7
 	if m.allContinuous() {
-		// Monotone in t. Bracket from the known samples (the requested
-		// times) when they straddle the level; otherwise double up from the
-		// characteristic time until the level is reached, then halve down.
-		lo, flo, hi, fhi := 0.0, -level, math.Inf(1), math.NaN()
-		for i, t := range known.tau {
-			if !(t > 0) || math.IsInf(t, 1) {
-				continue
-			}
-			if g := known.c[i] - level; g >= 0 && t < hi {
-				hi, fhi = t, g
-			}
-		}
-		for i, t := range known.tau {
-			if t > lo && t < hi && known.c[i] < level {
-				lo, flo = t, known.c[i]-level
-			}
-		}
-		if math.IsInf(hi, 1) {
-			hi = math.Max(m.charTime(p), lo)
-			fhi = g(hi)
-			for i := 0; fhi < 0 && i < 80; i++ {
-				lo, flo = hi, fhi
-				hi *= 2
-				fhi = g(hi)
-			}
-			if fhi < 0 {
-				return 0, false // reached only in the limit
-			}
-		}
-		if lo == 0 {
-			// Halve down for a lower bracket with a positive time.
-			lo = hi / 2
-			flo = g(lo)
-			for i := 0; flo >= 0 && i < 200; i++ {
-				hi, fhi = lo, flo
-				lo /= 2
-				flo = g(lo)
-			}
-			if flo >= 0 {
-				return lo, true
-			}
-		}
-		if rate, ok := m.exactRate(p); ok && exact {
-			return roots.NewtonBracketed(g, rate, lo, hi, flo, fhi, rel*hi, 200), true
-		}
-		return roots.Brent(g, lo, hi, flo, fhi, rel*hi, 200), true
+		return m.monotoneExceedance(f, exact, p, known, level, rel)
 	}
 	tl := pk.timeline
 	for i, c := range tl.c {
