@@ -95,8 +95,8 @@ func (m *model) receptorCaveats(res *Result, rr *ReceptorResult, p Point, opt Op
 	m.lateExceedance(res, rr, p, fm)
 	if rr.DomenicoDeviation != nil && *rr.DomenicoDeviation > opt.DomenicoTolerance {
 		res.caveat(CaveatDomenicoDeviation, SeverityWarning, p.ID,
-			"The Domenico approximation differs from the exact solution by up to %.3g %% here (tolerance %.3g %%); use the exact value. The approximation is known to fail where the longitudinal dispersivity is large relative to the distance.",
-			100**rr.DomenicoDeviation, 100*opt.DomenicoTolerance)
+			"The Domenico approximation differs from the exact solution by %s here (tolerance %.3g %%); use the exact value. The approximation is known to fail where the longitudinal dispersivity is large relative to the distance.",
+			deviationText(*rr.DomenicoDeviation), 100*opt.DomenicoTolerance)
 	}
 	if !p.upgradient() && !p.inside() && m.kind != SourceKind1D {
 		srcDepth := m.depth
@@ -243,4 +243,14 @@ func sourceLabel(s *sourceParams) string {
 		return ""
 	}
 	return fmt.Sprintf(" of source %q", s.id)
+}
+
+// deviationText words a relative deviation for a caveat: "up to 12.5 %",
+// or beyond a factor of a million (where a percentage would be unreadable,
+// or past the float64 range) "more than a factor of a million".
+func deviationText(dev float64) string {
+	if dev > 1e6 {
+		return "more than a factor of a million"
+	}
+	return fmt.Sprintf("up to %.3g %%", 100*dev)
 }

@@ -198,7 +198,13 @@ type deviation struct{ floor, max float64 }
 // either reaches the floor, relative to max(e, floor).
 func (dv *deviation) compare(e, d float64) {
 	if math.Max(e, d) >= dv.floor {
-		dv.max = math.Max(dv.max, math.Abs(d-e)/math.Max(e, dv.floor))
+		r := math.Abs(d-e) / math.Max(e, dv.floor)
+		if !(r <= math.MaxFloat64) {
+			// A floor near the smallest float64 (a screening level of
+			// 1e-300 mg/L) leaves no finite ratio: the largest one.
+			r = math.MaxFloat64
+		}
+		dv.max = math.Max(dv.max, r)
 	}
 }
 
