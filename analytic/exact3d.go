@@ -24,7 +24,10 @@ import "math"
 // exp(-A - u^2) times the bounded factor sigma^2/(sigma^2 + sigma*^2),
 // where A = 2(sigma*^2 - beta) is the steady 1D attenuation by decay. The
 // sharp kernel of high Peclet numbers becomes a unit-width Gaussian in u.
-// A fixed nested rule on one window around the weight's peak
+// For a receptor outside the source's width or below its depth the
+// transverse factor's Gaussian fall is first taken into the weight
+// (kernel3D.tilted), so that the weight's peak is where the integrand's
+// mass is. A fixed nested rule on one window around the weight's peak
 // (kernel3D.fast, exact3d_fast.go) takes the cases whose value it can
 // vouch for, typically with 31 evaluations of the integrand; the others go
 // to adaptive Gauss-Legendre bisection on panels in u refined where the
