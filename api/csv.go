@@ -32,8 +32,16 @@ func csvHeader(u plume.Units) []string {
 		"caveat_codes", "engine_version", "input_sha256"}
 }
 
-// formatNumber writes a finite number in the shortest form that reads back exactly.
-func formatNumber(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+// formatNumber writes a finite number in the shortest form that reads back
+// exactly: in plain decimals from 1e6 up to 1e21 as the JSON answers do (a
+// projected coordinate such as a northing of 4180970.25 m stays readable,
+// not 4.18097025e+06), in the shortest of the two forms elsewhere.
+func formatNumber(v float64) string {
+	if a := math.Abs(v); a >= 1e6 && a < 1e21 {
+		return strconv.FormatFloat(v, 'f', -1, 64)
+	}
+	return strconv.FormatFloat(v, 'g', -1, 64)
+}
 
 // csvSafe keeps a text cell from being read as a formula by a spreadsheet
 // (OWASP CSV injection advice: prefix a quote).
