@@ -68,7 +68,7 @@ func (s *server) encodeScreening(ctx context.Context, format outputFormat, sc pl
 	case formatGeoJSON:
 		return s.encodeJSON(buildGeoJSON(sc, res), mimeGeoJSON, "receptors", "times", "methods")
 	}
-	return s.encodeJSON(res, echo.MIMEApplicationJSON, "receptors", "times", "methods")
+	return s.encodeJSON(res.JSON(), echo.MIMEApplicationJSON, "receptors", "times", "methods")
 }
 
 // scenarioBody is the request body: a scenario plus the free text the

@@ -84,7 +84,7 @@ func (ndjsonStream) part(l *plume.Layer, _ plume.Scenario, _ []plume.Receptor, f
 	var buf bytes.Buffer
 	own := l.OwnCaveats(part)
 	for k, rr := range part.Receptors {
-		b, err := marshalJSON(rr)
+		b, err := marshalJSON(part.Receptors[k].JSON())
 		if err != nil {
 			return nil, err
 		}
