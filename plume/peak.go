@@ -189,7 +189,7 @@ func (m *model) firstExceedance(f func(float64) float64, exact bool, p Point, pk
 	g := func(t float64) float64 { return f(t) - level }
 	const rel = 1e-7
 	if m.allContinuous() {
-		return m.monotoneExceedance(f, exact, p, known, level, rel)
+		return m.monotoneExceedance(f, exact, p, known, level, pk.c, rel)
 	}
 	tl := pk.timeline
 	for i, c := range tl.c {
