@@ -60,44 +60,17 @@ func (m *model) monotoneExceedance(f func(float64) float64, exact bool, p Point,
 
 // logCrossing returns the time in [lo, hi] at which the rising f (f(lo) =
 // clo < level <= chi = f(hi)) reaches level, to tol: Newton's method on
-// ln f - ln level with the derivative rate/f, safeguarded by the bracket
-// (roots.NewtonBracketed). On the leading edge of a breakthrough, where
-// the crossing of a screening level usually lies, f is convex and Newton
-// on f itself creeps up from below and overshoots from above; ln f is
-// close to a parabola there (the exponent of the Gaussian front), so the
-// steps land close to the root. Values below the smallest normal float64
-// count as it (math.Log is wrong on subnormals on amd64: about -709 for
-// every one of them).
+// ln f - ln level with the derivative rate/f (see newtonOnTransform). On
+// the leading edge of a breakthrough, where the crossing of a screening
+// level usually lies, f is convex and Newton on f itself creeps up from
+// below and overshoots from above; ln f is close to a parabola there (the
+// exponent of the Gaussian front), so the steps land close to the root.
+// Values below the smallest normal float64 count as it (math.Log is wrong
+// on subnormals on amd64: about -709 for every one of them).
 func logCrossing(f, rate func(float64) float64, lo, hi, clo, chi, level, tol float64) float64 {
-	lnLevel := math.Log(level)
-	lg := func(c float64) float64 {
-		return math.Log(math.Max(c, smallestNormal)) - lnLevel
-	}
-	// The value at the last point evaluated, and at the bracket ends, so
-	// that the derivative rate/f costs no second evaluation of f.
-	lastT, lastC := math.NaN(), math.NaN()
-	g := func(t float64) float64 {
-		lastT, lastC = t, f(t)
-		return lg(lastC)
-	}
-	dg := func(t float64) float64 {
-		var c float64
-		switch t {
-		case lastT:
-			c = lastC
-		case lo:
-			c = clo
-		case hi:
-			c = chi
-		default:
-			c = f(t)
-		}
-		if !(c > 0) {
-			return 0 // no Newton step: the bracket's secant instead
-		}
-		return rate(t) / c
-	}
-	return roots.NewtonBracketed(g, dg, lo, hi, lg(clo), lg(chi), tol, 200)
+	ln := func(c float64) float64 { return math.Log(math.Max(c, smallestNormal)) }
+	perC := func(c float64) float64 { return 1 / c }
+	return newtonOnTransform(f, rate, ln, perC, lo, hi, clo, chi, level, tol)
 }
 
 // crossing returns the time in [lo, hi] at which the rising f (f(lo) =
@@ -115,14 +88,29 @@ func crossing(f, rate func(float64) float64, lo, hi, clo, chi, level, steady, to
 	if !(steady > level) || math.IsInf(steady, 1) {
 		return logCrossing(f, rate, lo, hi, clo, chi, level, tol)
 	}
-	w := func(c float64) float64 {
-		return probit(math.Min(2*c/steady, 2-0x1p-51))
+	w := func(c float64) float64 { return probit(math.Min(2*c/steady, 2-0x1p-51)) }
+	minusW := func(c float64) float64 { return -w(c) } // rising with c
+	// d/dc -erfcinv(2c/steady) = (sqrt(pi)/2) exp(w^2) (2/steady); an
+	// overflow to +Inf gives a zero Newton step, which the bracket refuses.
+	slope := func(c float64) float64 {
+		wc := w(c)
+		return math.Sqrt(math.Pi) * math.Exp(wc*wc) / steady
 	}
-	wLevel := w(level)
+	return newtonOnTransform(f, rate, minusW, slope, lo, hi, clo, chi, level, tol)
+}
+
+// newtonOnTransform returns the time in [lo, hi] at which the rising f
+// (f(lo) = clo < level <= chi = f(hi)) reaches level, to tol: Newton's
+// method on h(f(t)) - h(level), h rising, with the derivative
+// dh(f(t)) rate(t), safeguarded by the bracket (roots.NewtonBracketed).
+// The value of f at the last point evaluated and at the bracket ends is
+// kept, so that the derivative costs no second evaluation of f.
+func newtonOnTransform(f, rate, h, dh func(float64) float64, lo, hi, clo, chi, level, tol float64) float64 {
+	hLevel := h(level)
 	lastT, lastC := math.NaN(), math.NaN()
 	g := func(t float64) float64 {
 		lastT, lastC = t, f(t)
-		return wLevel - w(lastC)
+		return h(lastC) - hLevel
 	}
 	dg := func(t float64) float64 {
 		var c float64
@@ -139,12 +127,9 @@ func crossing(f, rate func(float64) float64, lo, hi, clo, chi, level, steady, to
 		if !(c > 0) {
 			return 0 // no Newton step: the bracket's secant instead
 		}
-		// d/dt erfcinv(2c/steady) = -(sqrt(pi)/2) exp(w^2) (2/steady) dc/dt;
-		// an overflow to +Inf gives a zero step, which the bracket refuses.
-		wc := w(c)
-		return math.Sqrt(math.Pi) * math.Exp(wc*wc) / steady * rate(t)
+		return dh(c) * rate(t)
 	}
-	return roots.NewtonBracketed(g, dg, lo, hi, wLevel-w(clo), wLevel-w(chi), tol, 200)
+	return roots.NewtonBracketed(g, dg, lo, hi, h(clo)-hLevel, h(chi)-hLevel, tol, 200)
 }
 
 // probit returns erfcinv(y) for y in (0, 2), smooth and strictly monotone

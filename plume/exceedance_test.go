@@ -3,7 +3,6 @@ package plume
 import (
 	"context"
 	"encoding/json"
-	"fmt"
 	"math"
 	"os"
 	"strconv"
@@ -18,20 +17,8 @@ import (
 // check of the search; the exact values themselves are checked against
 // 40-digit references in the analytic package.
 func TestFirstExceedanceIsTheCrossing(t *testing.T) {
-	one := demoScenario()
-	one.Receptors = nil
-	for i := range 100 {
-		one.Receptors = append(one.Receptors, Receptor{ID: fmt.Sprintf("R%d", i), X: f(30 + 4*float64(i)), Y: f(float64(i%9)*10 - 40), Z: f(1)})
-	}
-	one.Times = []float64{365, 730, 1825, 3650, 7300}
-	one.Methods = []string{MethodExact}
-	ten := one
-	for i := range 10 {
-		s := one.Source
-		s.ID, s.X, s.Y, s.Width = fmt.Sprintf("S%d", i), f(-float64(i%3)*20), f(float64(i)*20-100), f(12)
-		ten.Sources = append(ten.Sources, s)
-	}
-	ten.Source = Source{}
+	one, ten := tenSourceLayer()
+	one.Methods, ten.Methods = []string{MethodExact}, []string{MethodExact}
 	for name, sc := range map[string]Scenario{"one source": one, "ten sources": ten} {
 		res, err := Screen(context.Background(), sc, Options{})
 		if err != nil {
