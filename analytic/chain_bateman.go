@@ -72,7 +72,7 @@ func batemanFactor(rates []float64, tau, shift, extra float64) float64 {
 	if e == 0 {
 		return 0
 	}
-	return math.Exp(lpm + math.Log(e) + x)
+	return math.Exp(lpm + logSub(e) + x)
 }
 
 // expDivDiff returns E = exp(lo) (-1)^m e[a_0..a_m] for e(z) = exp(-z),

@@ -174,9 +174,9 @@ func (h History) TimeBelow(f float64) float64 {
 	switch {
 	case h.power():
 		g := h.Exponent
-		s = -math.Expm1((1-g)/g*math.Log(f)) / ((1 - g) * h.Rate)
+		s = -math.Expm1((1-g)/g*logSub(f)) / ((1 - g) * h.Rate)
 	case h.Depletion > 0:
-		s = -math.Log(f) / h.Depletion
+		s = -logSub(f) / h.Depletion
 	}
 	if h.finite() {
 		s = math.Min(s, h.Duration)
