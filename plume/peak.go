@@ -16,7 +16,9 @@ const PeakMethod = "Constant continuous sources rise monotonically toward the st
 	"release), plus the arrival, release-end and requested times; the largest sample is refined " +
 	"by golden-section search to 1e-9 relative in time. The first exceedance is the root of " +
 	"C(t) = screening level found by Brent's method on the first bracketing pair of samples " +
-	"(monotone sources: a doubling bracket), to 1e-7 relative in time (the closed forms themselves are accurate to 1e-6)."
+	"(monotone sources: a bracket from the requested times or by doubling, and with the exact " +
+	"method Newton steps on the probit erfcinv(2 C/C_steady) inside it), to 1e-7 relative in time " +
+	"(the closed forms themselves are accurate to 1e-6)."
 
 // timeline is the sampled history of one receptor: elapsed times tau (d,
 // ascending) and concentrations (mg/L) of the primary method.
