@@ -2,26 +2,13 @@ package plume
 
 import (
 	"context"
-	"encoding/json"
 	"fmt"
 	"math"
-	"os"
 	"testing"
 )
 
 // dryCleaner is the invented demo of testdata/demo/dry-cleaner.json.
-func dryCleaner(t testing.TB) Scenario {
-	t.Helper()
-	b, err := os.ReadFile("../testdata/demo/dry-cleaner.json")
-	if err != nil {
-		t.Fatal(err)
-	}
-	var sc Scenario
-	if err := json.Unmarshal(b, &sc); err != nil {
-		t.Fatal(err)
-	}
-	return sc
-}
+func dryCleaner(t testing.TB) Scenario { return demoFile(t, "dry-cleaner.json") }
 
 // chainScenario is the demo scenario with contaminants in place of its
 // contaminant: an invented chain of three compounds with one retardation

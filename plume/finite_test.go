@@ -140,15 +140,8 @@ func setPath(m map[string]any, path string, v float64) {
 // years): a half-life that overflows in days, or whose decay rate
 // overflows, is refused naming the compound's field.
 func TestExtremeCompoundsFinite(t *testing.T) {
-	b, err := os.ReadFile("../testdata/demo/dry-cleaner.json")
-	if err != nil {
-		t.Fatal(err)
-	}
 	for _, v := range []float64{1e308, 5e-324} {
-		var sc Scenario
-		if err := json.Unmarshal(b, &sc); err != nil {
-			t.Fatal(err)
-		}
+		sc := dryCleaner(t)
 		sc.Contaminants[1].HalfLife = &v
 		_, err := Screen(context.Background(), sc, Options{})
 		fe := FieldsOf(err)

@@ -12,9 +12,12 @@ import (
 // massDemo is the invented demo of testdata/demo/source-mass.json: the
 // Hollin Lane depot's tank with 100 kg of dissolvable benzene and a
 // depletion exponent of 0.5.
-func massDemo(t testing.TB) Scenario {
+func massDemo(t testing.TB) Scenario { return demoFile(t, "source-mass.json") }
+
+// demoFile reads the invented demo scenario testdata/demo/name.
+func demoFile(t testing.TB, name string) Scenario {
 	t.Helper()
-	b, err := os.ReadFile("../testdata/demo/source-mass.json")
+	b, err := os.ReadFile("../testdata/demo/" + name)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -28,15 +31,7 @@ func massDemo(t testing.TB) Scenario {
 // massSources is the invented two-source demo (testdata/demo/
 // sources-and-brook.json) with a dissolvable mass in each source.
 func massSources(t testing.TB) Scenario {
-	t.Helper()
-	b, err := os.ReadFile("../testdata/demo/sources-and-brook.json")
-	if err != nil {
-		t.Fatal(err)
-	}
-	var sc Scenario
-	if err := json.Unmarshal(b, &sc); err != nil {
-		t.Fatal(err)
-	}
+	sc := demoFile(t, "sources-and-brook.json")
 	sc.Sources[0].Mass, sc.Sources[0].DepletionExponent = f(150), f(2)
 	sc.Sources[1].Mass = f(8)
 	sc.Transects, sc.Contributions = nil, false
