@@ -82,6 +82,7 @@ type model struct {
 	chain          analytic.Chain   // the compounds linked by decay (with compounds)
 	focus          int              // the compound closedForm gives (index into compounds; see Model.Focus)
 	derived        Derived          // canonical units; converted by the caller
+	opt            *optionals       // where one result's optional values are kept (see building); nil: each on its own
 }
 
 // aquiferParams are the flow and dispersion parameters.

@@ -33,9 +33,9 @@ func (m *model) referenceConcentration() float64 {
 
 // inputUnits is the unit of every dimensional input, by JSON path ("[]"
 // for every index), as the engine reads it.
-func inputUnits(u Units) map[string]string {
+func inputUnits(u Units) UnitNames {
 	L, T, C := u.Length, u.Time, u.Concentration
-	return map[string]string{
+	return UnitNames{
 		"aquifer.hydraulic_conductivity":  u.Conductivity,
 		"aquifer.seepage_velocity":        L + "/" + T,
 		"aquifer.bulk_density":            "kg/L",

@@ -186,7 +186,7 @@ func (l *Layer) Screen(ctx context.Context, first int, rs []Receptor) (*Result, 
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	m, sp := l.md.m, l.sp
+	m, sp := l.md.m.building(), l.sp
 	res := &Result{Engine: l.head.Engine, Units: l.head.Units, CRS: l.head.CRS, Derived: l.head.Derived,
 		Receptors: make([]ReceptorResult, len(rs))}
 	pts := make([]Point, len(rs))

@@ -125,7 +125,7 @@ type Derived struct {
 	ConcentrationFloor float64 `json:"concentration_floor"`
 	// The unit of every dimensional input, by its JSON path, as the engine
 	// read it (for example "aquifer.hydraulic_conductivity": "ft/d").
-	InputUnits map[string]string `json:"input_units"`
+	InputUnits UnitNames `json:"input_units"`
 	// Each source's strength and depletion (an array even for one source).
 	Sources []SourceDerived `json:"sources"`
 	// Each compound of several (contaminants[]); omitted for one. The

@@ -34,7 +34,7 @@ func (md *Model) Screen(ctx context.Context, opt Options) (*Result, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
-	m, pts, c := md.m, md.pts, md.canon
+	m, pts, c := md.m.building(), md.pts, md.canon
 	run := methodSet(c.Methods)
 	if m.kind == SourceKindInstantaneous {
 		run.domenicoSkipped = run.domenico
@@ -184,7 +184,7 @@ func (m *model) screenReceptor(ctx context.Context, p Point, sp screenPlan) Rece
 	}
 	steadyPrimary := m.receptorSteady(p, sp, &rr, &dev)
 	if dev.max > math.Inf(-1) && (sp.run.exact && sp.run.domenico) {
-		rr.DomenicoDeviation = Ptr(dev.max)
+		rr.DomenicoDeviation = m.opt.of(dev.max)
 	}
 	m.receptorPeak(ctx, p, sp, &rr, steadyPrimary, known)
 	return rr
@@ -213,7 +213,7 @@ func (dv *deviation) compare(e, d float64) {
 func (m *model) receptorHeader(p Point, n int) ReceptorResult {
 	rr := ReceptorResult{ID: p.ID, PlumeX: p.X, PlumeY: p.Y, Z: p.mid(), Status: p.Status, Series: make([]SeriesPoint, n)}
 	if p.Screen {
-		rr.ScreenTop, rr.ScreenBottom = Ptr(p.Top), Ptr(p.Bottom)
+		rr.ScreenTop, rr.ScreenBottom = m.opt.of(p.Top), m.opt.of(p.Bottom)
 	}
 	if m.basis == BasisReceptorDistance && p.Status == StatusModelled {
 		a := m.aquiferFor(p)
@@ -227,9 +227,12 @@ func (m *model) receptorHeader(p Point, n int) ReceptorResult {
 func (m *model) receptorSeries(ctx context.Context, p Point, sp screenPlan, series []SeriesPoint, dev *deviation) (known timeline, ok bool) {
 	run := sp.run
 	// One block holds the receptor's values (one allocation, not one per
-	// value); each SeriesPoint points into it.
-	vals := make([]float64, 2*len(sp.taus))
-	known.tau, known.c = make([]float64, 0, len(sp.taus)), make([]float64, 0, len(sp.taus))
+	// value; each SeriesPoint points into it) and the timeline's times and
+	// values (full slices: appends never reach the values).
+	n := len(sp.taus)
+	block := make([]float64, 4*n)
+	vals := block[: 2*n : 2*n]
+	known.tau, known.c = block[2*n:2*n:3*n], block[3*n:3*n:4*n]
 	for j, tau := range sp.taus {
 		if ctx.Err() != nil {
 			return known, false
@@ -265,10 +268,10 @@ func (m *model) receptorSteady(p Point, sp screenPlan, rr *ReceptorResult, dev *
 	run := sp.run
 	inf := math.Inf(1)
 	if run.exact {
-		rr.SteadyState.Exact = Ptr(m.closedForm(true, p, inf))
+		rr.SteadyState.Exact = m.opt.of(m.closedForm(true, p, inf))
 	}
 	if run.domenico {
-		rr.SteadyState.Domenico = Ptr(m.closedForm(false, p, inf))
+		rr.SteadyState.Domenico = m.opt.of(m.closedForm(false, p, inf))
 	}
 	if run.exact && run.domenico {
 		dev.compare(*rr.SteadyState.Exact, *rr.SteadyState.Domenico)
@@ -296,14 +299,14 @@ func (m *model) receptorPeak(ctx context.Context, p Point, sp screenPlan, rr *Re
 	pk := m.findPeak(f, p, steadyPrimary, sp.taus)
 	rr.Peak = Peak{Concentration: pk.c, Method: sp.primary}
 	if !math.IsInf(pk.tau, 1) {
-		rr.Peak.Time = Ptr(m.start + pk.tau)
+		rr.Peak.Time = m.opt.of(m.start + pk.tau)
 	}
 	if m.screening != nil && !p.upgradient() {
 		// Compared: a modelled value (or, inside the source zone, the
 		// source's own concentration) against a known level.
 		rr.ExceedsScreeningLevel = new(pk.c >= *m.screening && pk.c > 0)
 		if tau, ok := m.firstExceedance(f, sp.primaryExact, p, pk, known, *m.screening); ok {
-			rr.FirstExceedanceTime = Ptr(m.start + tau)
+			rr.FirstExceedanceTime = m.opt.of(m.start + tau)
 		}
 	}
 }

@@ -107,11 +107,11 @@ func (m *model) allowances(ctx context.Context, res *Result, pts []Point, sp scr
 		if !m.allContinuous() {
 			steady = 0
 		}
-		scale := Allowance{SteadyState: ratio(level, steady), WithinTimes: ratio(level, within)}
+		scale := Allowance{SteadyState: m.opt.ratio(level, steady), WithinTimes: m.opt.ratio(level, within)}
 		if byMass && scale.WithinTimes != nil {
 			scale.WithinTimes = nil
 			if f, ok := m.massScale(ctx, pts[i], sp, level); ok {
-				scale.WithinTimes = Ptr(f)
+				scale.WithinTimes = m.opt.of(f)
 			} else if ctx.Err() == nil {
 				res.caveat(CaveatAllowableNotReached, SeverityNote, rr.ID,
 					"With the source mass given, no source concentration brings this receptor to the screening level within the requested times (a higher concentration drains the mass faster): allowable_source_concentration.within_times (allowable_scale_factor with several sources) is null here.")
@@ -123,28 +123,15 @@ func (m *model) allowances(ctx context.Context, res *Result, pts []Point, sp scr
 			worst.WithinTimes = minPtr(worst.WithinTimes, scale.WithinTimes)
 			continue
 		}
-		rr.AllowableSourceConcentration = &Allowance{SteadyState: times0(scale.SteadyState, m.c0), WithinTimes: times0(scale.WithinTimes, m.c0)}
-		rr.DilutionAttenuationFactor = &Allowance{SteadyState: ratio(m.c0, steady), WithinTimes: ratio(m.c0, within)}
+		pair := &[2]Allowance{ // one allocation for both
+			{SteadyState: m.opt.times(scale.SteadyState, m.c0), WithinTimes: m.opt.times(scale.WithinTimes, m.c0)},
+			{SteadyState: m.opt.ratio(m.c0, steady), WithinTimes: m.opt.ratio(m.c0, within)},
+		}
+		rr.AllowableSourceConcentration, rr.DilutionAttenuationFactor = &pair[0], &pair[1]
 	}
 	if several {
 		res.AllowableScaleFactor = &worst
 	}
-}
-
-// ratio is a/b, nil when b is not positive.
-func ratio(a, b float64) *float64 {
-	if !(b > 0) {
-		return nil
-	}
-	return Ptr(a / b)
-}
-
-// times0 is f*c0, nil with f.
-func times0(f *float64, c0 float64) *float64 {
-	if f == nil {
-		return nil
-	}
-	return Ptr(*f * c0)
 }
 
 // minPtr is the smaller of two optional values.

@@ -50,6 +50,13 @@ type unitFactors struct {
 	M float64 // g/d per request mass-discharge unit
 }
 
+// converter is the factors of a conversion to canonical units and where
+// the converted optional values are kept (one allocation per block).
+type converter struct {
+	unitFactors
+	opt *optionals
+}
+
 // withDefaults fills empty unit names with m, d, mg/L.
 func (u Units) withDefaults() Units {
 	if u.Length == "" {
@@ -129,7 +136,8 @@ func scaled(p *float64, k float64) *float64 {
 // toCanonical returns a deep copy of sc with every quantity in m, d, mg/L and
 // Units set to the canonical names. sc must have valid unit names.
 func toCanonical(sc Scenario) Scenario {
-	f, _ := sc.Units.factors()
+	uf, _ := sc.Units.factors()
+	f := converter{uf, new(optionals)}
 	out := sc
 	out.Units = Units{Length: LengthMetre, Time: TimeDay, Concentration: ConcMgL}
 	out.Aquifer = canonicalAquifer(sc.Aquifer, f)
@@ -167,76 +175,76 @@ func toCanonical(sc Scenario) Scenario {
 
 // canonicalAquifer converts the aquifer's dimensional fields (factors f:
 // request unit -> canonical; the conductivity by f.K, its own unit).
-func canonicalAquifer(a Aquifer, f unitFactors) Aquifer {
+func canonicalAquifer(a Aquifer, f converter) Aquifer {
 	L, T := f.L, f.T
 	out := Aquifer{
-		HydraulicConductivity: scaled(a.HydraulicConductivity, f.K),
-		HydraulicGradient:     scaled(a.HydraulicGradient, 1),
-		EffectivePorosity:     scaled(a.EffectivePorosity, 1),
-		SeepageVelocity:       scaled(a.SeepageVelocity, L/T),
-		BulkDensity:           scaled(a.BulkDensity, 1),
-		OrganicCarbonFraction: scaled(a.OrganicCarbonFraction, 1),
-		EffectiveDiffusion:    scaled(a.EffectiveDiffusion, L*L/T),
-		DispersivityScale:     scaled(a.DispersivityScale, L),
+		HydraulicConductivity: f.opt.scaled(a.HydraulicConductivity, f.K),
+		HydraulicGradient:     f.opt.scaled(a.HydraulicGradient, 1),
+		EffectivePorosity:     f.opt.scaled(a.EffectivePorosity, 1),
+		SeepageVelocity:       f.opt.scaled(a.SeepageVelocity, L/T),
+		BulkDensity:           f.opt.scaled(a.BulkDensity, 1),
+		OrganicCarbonFraction: f.opt.scaled(a.OrganicCarbonFraction, 1),
+		EffectiveDiffusion:    f.opt.scaled(a.EffectiveDiffusion, L*L/T),
+		DispersivityScale:     f.opt.scaled(a.DispersivityScale, L),
 	}
 	if a.Dispersivity != nil {
 		out.Dispersivity = &Dispersivity{
-			Longitudinal: scaled(a.Dispersivity.Longitudinal, L),
-			Transverse:   scaled(a.Dispersivity.Transverse, L),
-			Vertical:     scaled(a.Dispersivity.Vertical, L),
+			Longitudinal: f.opt.scaled(a.Dispersivity.Longitudinal, L),
+			Transverse:   f.opt.scaled(a.Dispersivity.Transverse, L),
+			Vertical:     f.opt.scaled(a.Dispersivity.Vertical, L),
 		}
 	}
 	return out
 }
 
 // canonicalContaminant converts the single-compound form's fields.
-func canonicalContaminant(c Contaminant, f unitFactors) Contaminant {
+func canonicalContaminant(c Contaminant, f converter) Contaminant {
 	return Contaminant{
 		Name:             c.Name,
-		Koc:              scaled(c.Koc, 1),
-		HalfLife:         scaled(c.HalfLife, f.T),
+		Koc:              f.opt.scaled(c.Koc, 1),
+		HalfLife:         f.opt.scaled(c.HalfLife, f.T),
 		UseTableHalfLife: c.UseTableHalfLife,
-		Retardation:      scaled(c.Retardation, 1),
-		ScreeningLevel:   scaled(c.ScreeningLevel, f.C),
-		Solubility:       scaled(c.Solubility, f.C),
+		Retardation:      f.opt.scaled(c.Retardation, 1),
+		ScreeningLevel:   f.opt.scaled(c.ScreeningLevel, f.C),
+		Solubility:       f.opt.scaled(c.Solubility, f.C),
 		DecayAppliesTo:   c.DecayAppliesTo,
 	}
 }
 
 // canonicalConstituent converts one compound of contaminants[].
-func canonicalConstituent(k Constituent, f unitFactors) Constituent {
-	k.SourceConcentration = scaled(k.SourceConcentration, f.C)
-	k.HalfLife = scaled(k.HalfLife, f.T)
-	k.ScreeningLevel = scaled(k.ScreeningLevel, f.C)
-	k.Solubility = scaled(k.Solubility, f.C)
+func canonicalConstituent(k Constituent, f converter) Constituent {
+	k.SourceConcentration = f.opt.scaled(k.SourceConcentration, f.C)
+	k.HalfLife = f.opt.scaled(k.HalfLife, f.T)
+	k.ScreeningLevel = f.opt.scaled(k.ScreeningLevel, f.C)
+	k.Solubility = f.opt.scaled(k.Solubility, f.C)
 	return k
 }
 
 // canonicalTransect converts a transect's line, depths, stream flow
 // (volume per time) and surface-water level.
-func canonicalTransect(tr Transect, f unitFactors) Transect {
+func canonicalTransect(tr Transect, f converter) Transect {
 	L := f.L
 	return Transect{
 		ID:             tr.ID,
 		From:           [2]float64{tr.From[0] * L, tr.From[1] * L},
 		To:             [2]float64{tr.To[0] * L, tr.To[1] * L},
-		Top:            scaled(tr.Top, L),
-		Bottom:         scaled(tr.Bottom, L),
-		StreamFlow:     scaled(tr.StreamFlow, L*L*L/f.T),
-		ScreeningLevel: scaled(tr.ScreeningLevel, f.C),
+		Top:            f.opt.scaled(tr.Top, L),
+		Bottom:         f.opt.scaled(tr.Bottom, L),
+		StreamFlow:     f.opt.scaled(tr.StreamFlow, L*L*L/f.T),
+		ScreeningLevel: f.opt.scaled(tr.ScreeningLevel, f.C),
 	}
 }
 
 // canonicalReceptor converts a receptor's position and screen.
-func canonicalReceptor(r Receptor, f unitFactors) Receptor {
+func canonicalReceptor(r Receptor, f converter) Receptor {
 	L := f.L
 	return Receptor{
 		ID:           r.ID,
-		X:            scaled(r.X, L),
-		Y:            scaled(r.Y, L),
-		Z:            scaled(r.Z, L),
-		ScreenTop:    scaled(r.ScreenTop, L),
-		ScreenBottom: scaled(r.ScreenBottom, L),
+		X:            f.opt.scaled(r.X, L),
+		Y:            f.opt.scaled(r.Y, L),
+		Z:            f.opt.scaled(r.Z, L),
+		ScreenTop:    f.opt.scaled(r.ScreenTop, L),
+		ScreenBottom: f.opt.scaled(r.ScreenBottom, L),
 	}
 }
 
@@ -259,22 +267,22 @@ func Clean(x float64) float64 {
 }
 
 // canonicalSource is s in m, d, mg/L.
-func canonicalSource(s Source, f unitFactors) Source {
+func canonicalSource(s Source, f converter) Source {
 	L, T, C := f.L, f.T, f.C
 	return Source{
 		ID:                s.ID,
-		X:                 scaled(s.X, L),
-		Y:                 scaled(s.Y, L),
-		FlowAzimuthDeg:    scaled(s.FlowAzimuthDeg, 1),
-		Concentration:     scaled(s.Concentration, C),
-		Width:             scaled(s.Width, L),
-		Depth:             scaled(s.Depth, L),
-		Start:             scaled(s.Start, T),
-		Duration:          scaled(s.Duration, T),
-		HalfLife:          scaled(s.HalfLife, T),
-		Mass:              scaled(s.Mass, 1),
-		DepletionExponent: scaled(s.DepletionExponent, 1),
-		ReleaseDepth:      scaled(s.ReleaseDepth, L),
+		X:                 f.opt.scaled(s.X, L),
+		Y:                 f.opt.scaled(s.Y, L),
+		FlowAzimuthDeg:    f.opt.scaled(s.FlowAzimuthDeg, 1),
+		Concentration:     f.opt.scaled(s.Concentration, C),
+		Width:             f.opt.scaled(s.Width, L),
+		Depth:             f.opt.scaled(s.Depth, L),
+		Start:             f.opt.scaled(s.Start, T),
+		Duration:          f.opt.scaled(s.Duration, T),
+		HalfLife:          f.opt.scaled(s.HalfLife, T),
+		Mass:              f.opt.scaled(s.Mass, 1),
+		DepletionExponent: f.opt.scaled(s.DepletionExponent, 1),
+		ReleaseDepth:      f.opt.scaled(s.ReleaseDepth, L),
 		Inlet:             s.Inlet,
 	}
 }
