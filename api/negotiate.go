@@ -106,20 +106,26 @@ func isStream(c echo.Context) bool {
 	if req.Method != http.MethodPost || c.Path() != "/v1/screenings" {
 		return false
 	}
-	q := req.URL.Query()
-	if on, err := strconv.ParseBool(q.Get("stream")); err == nil && on {
-		return true
+	q := c.QueryParams() // parsed once per request (echo keeps it)
+	if s := q.Get("stream"); s != "" {
+		if on, err := strconv.ParseBool(s); err == nil && on {
+			return true
+		}
 	}
 	switch q.Get("format") {
 	case "ndjson":
 		return true
 	case "":
-		best, ok := acceptBest(c, "json", map[string]string{mimeNDJSON: "ndjson", "application/json": "json", "*/*": "json",
-			"application/*": "json", mimeCSV: "csv", "text/*": "csv", mimeGeoJSON: "geojson"})
+		best, ok := acceptBest(c, "json", streamAccepts)
 		return ok && best == "ndjson"
 	}
 	return false
 }
+
+// streamAccepts maps the media types of an Accept header to the screening
+// formats they ask for (isStream).
+var streamAccepts = map[string]string{mimeNDJSON: "ndjson", "application/json": "json", "*/*": "json",
+	"application/*": "json", mimeCSV: "csv", "text/*": "csv", mimeGeoJSON: "geojson"}
 
 // negotiateStream picks a streamed screening's format: the format
 // parameter (ndjson, csv, geojson; json is one document and is not

@@ -74,7 +74,9 @@ func (s *server) validator(next echo.HandlerFunc) echo.HandlerFunc {
 			}
 			c.Set(ctxBody, body)
 			req.Body = io.NopCloser(bytes.NewReader(body))
-			req.Header.Set(echo.HeaderContentType, echo.MIMEApplicationJSON)
+			if req.Header.Get(echo.HeaderContentType) != echo.MIMEApplicationJSON {
+				req.Header.Set(echo.HeaderContentType, echo.MIMEApplicationJSON)
+			}
 		}
 		err := openapi3filter.ValidateRequest(req.Context(), &openapi3filter.RequestValidationInput{
 			Request: req, Route: route, Options: o,

@@ -272,18 +272,23 @@ func validateOneContaminant(fe *FieldErrors, a Aquifer, e elemPath, c Contaminan
 // "sources[i]").
 func validateOneSource(fe *FieldErrors, sc Scenario, at string, s Source) {
 	path := func(f string) string { return at + "." + f }
-	fe.Check(path("x"), s.X, AnyFinite)
-	fe.Check(path("y"), s.Y, AnyFinite)
-	fe.Check(path("flow_azimuth_deg"), s.FlowAzimuthDeg, AnyFinite)
-	fe.Check(path("concentration"), s.Concentration, Positive)
-	fe.Check(path("width"), s.Width, Positive)
-	fe.Check(path("depth"), s.Depth, Positive)
-	fe.Check(path("start"), s.Start, NonNegative)
-	fe.Check(path("duration"), s.Duration, Positive)
-	fe.Check(path("half_life"), s.HalfLife, Positive)
-	fe.Check(path("mass"), s.Mass, Positive)
-	fe.Check(path("release_depth"), s.ReleaseDepth, NonNegative)
-	fe.Check(path("depletion_exponent"), s.DepletionExponent, depletionExponent)
+	check := func(f string, p *float64, r Rule) { // the path is built only for a problem
+		if msg := ruleMessage(p, r); msg != "" {
+			fe.Add(path(f), msg)
+		}
+	}
+	check("x", s.X, AnyFinite)
+	check("y", s.Y, AnyFinite)
+	check("flow_azimuth_deg", s.FlowAzimuthDeg, AnyFinite)
+	check("concentration", s.Concentration, Positive)
+	check("width", s.Width, Positive)
+	check("depth", s.Depth, Positive)
+	check("start", s.Start, NonNegative)
+	check("duration", s.Duration, Positive)
+	check("half_life", s.HalfLife, Positive)
+	check("mass", s.Mass, Positive)
+	check("release_depth", s.ReleaseDepth, NonNegative)
+	check("depletion_exponent", s.DepletionExponent, depletionExponent)
 	switch {
 	case len(sc.Contaminants) > 0:
 		if s.Concentration != nil {
