@@ -293,46 +293,12 @@ func (a *chainAge) integrate(h History) {
 // tolerance is bisected until every component meets rel (or a budget of
 // bisections is spent).
 func vectorAdaptive(nc int, f func(u float64, out []float64), brk []float64, rel float64, res []float64) {
-	type vp struct {
-		a, b float64
-		off  int // offset of L, R, err in store
-	}
-	stride := 3 * nc
-	var panels []vp
-	var store []float64
-	tmp := make([]float64, nc)
+	ps := &panelSet{nc: nc, f: f, tmp: make([]float64, nc)}
 	whole := make([]float64, nc)
-	rule := func(a, b float64, out []float64) {
-		for k := range out {
-			out[k] = 0
-		}
-		c, hw := (a+b)/2, (b-a)/2
-		for i, xi := range glNodes {
-			f(c+hw*xi, tmp)
-			for k := range out {
-				out[k] += glWeights[i] * tmp[k]
-			}
-		}
-		for k := range out {
-			out[k] *= hw
-		}
-	}
-	push := func(a, b float64, w []float64) {
-		off := len(store)
-		store = append(store, make([]float64, stride)...)
-		m := (a + b) / 2
-		l, r, e := store[off:off+nc], store[off+nc:off+2*nc], store[off+2*nc:off+3*nc]
-		rule(a, m, l)
-		rule(m, b, r)
-		for k := 0; k < nc; k++ {
-			e[k] = math.Abs(l[k] + r[k] - w[k])
-		}
-		panels = append(panels, vp{a, b, off})
-	}
 	for i := 1; i < len(brk); i++ {
 		if brk[i] > brk[i-1] {
-			rule(brk[i-1], brk[i], whole)
-			push(brk[i-1], brk[i], whole)
+			ps.rule(brk[i-1], brk[i], whole)
+			ps.push(brk[i-1], brk[i], whole)
 		}
 	}
 	total := make([]float64, nc)
@@ -340,42 +306,113 @@ func vectorAdaptive(nc int, f func(u float64, out []float64), brk []float64, rel
 	absSum := make([]float64, nc)
 	const budget = 400
 	for iter := 0; ; iter++ {
-		for k := range total {
-			total[k], errs[k], absSum[k] = 0, 0, 0
-		}
-		for _, p := range panels {
-			for k := 0; k < nc; k++ {
-				l, r := store[p.off+k], store[p.off+nc+k]
-				total[k] += l + r
-				absSum[k] += math.Abs(l) + math.Abs(r)
-				errs[k] += store[p.off+2*nc+k]
-			}
-		}
-		worst, wp := 0.0, -1
-		for q, p := range panels {
-			for k := 0; k < nc; k++ {
-				// Rounding in the integrand bounds what bisection can do.
-				tol := rel*math.Abs(total[k]) + 1e-14*absSum[k] + 1e-300
-				if errs[k] <= tol {
-					continue
-				}
-				if s := store[p.off+2*nc+k] / tol; s > worst {
-					worst, wp = s, q
-				}
-			}
-		}
+		ps.sums(total, errs, absSum)
+		wp := ps.worst(rel, total, errs, absSum)
 		if wp < 0 || iter >= budget {
 			break
 		}
-		p := panels[wp]
-		m := (p.a + p.b) / 2
-		l := append([]float64(nil), store[p.off:p.off+nc]...)
-		r := append([]float64(nil), store[p.off+nc:p.off+2*nc]...)
-		// Replace the panel by its two halves.
-		panels[wp] = panels[len(panels)-1]
-		panels = panels[:len(panels)-1]
-		push(p.a, m, l)
-		push(m, p.b, r)
+		ps.bisect(wp)
 	}
 	copy(res, total)
+}
+
+// panelSet is the panels of vectorAdaptive: for each, its interval and, in
+// store at its offset, the rule's values on its left and right halves and
+// its error estimate (nc components each).
+type panelSet struct {
+	nc     int
+	f      func(u float64, out []float64)
+	panels []vectorPanel
+	store  []float64
+	tmp    []float64 // one evaluation of f
+}
+
+// vectorPanel is one panel [a, b] and the offset of its values in store.
+type vectorPanel struct {
+	a, b float64
+	off  int
+}
+
+// rule writes the glOrder-point Gauss-Legendre rule on [a, b] to out.
+func (ps *panelSet) rule(a, b float64, out []float64) {
+	for k := range out {
+		out[k] = 0
+	}
+	c, hw := (a+b)/2, (b-a)/2
+	for i, xi := range glNodes {
+		ps.f(c+hw*xi, ps.tmp)
+		for k := range out {
+			out[k] += glWeights[i] * ps.tmp[k]
+		}
+	}
+	for k := range out {
+		out[k] *= hw
+	}
+}
+
+// push adds the panel [a, b] whose rule on the whole gave w: the rule on
+// its halves, and their difference from w as its error estimate.
+func (ps *panelSet) push(a, b float64, w []float64) {
+	nc := ps.nc
+	off := len(ps.store)
+	ps.store = append(ps.store, make([]float64, 3*nc)...)
+	m := (a + b) / 2
+	l, r, e := ps.store[off:off+nc], ps.store[off+nc:off+2*nc], ps.store[off+2*nc:off+3*nc]
+	ps.rule(a, m, l)
+	ps.rule(m, b, r)
+	for k := 0; k < nc; k++ {
+		e[k] = math.Abs(l[k] + r[k] - w[k])
+	}
+	ps.panels = append(ps.panels, vectorPanel{a, b, off})
+}
+
+// sums writes each component's integral over all panels, its error
+// estimate and the integral of its absolute value.
+func (ps *panelSet) sums(total, errs, absSum []float64) {
+	nc := ps.nc
+	for k := range total {
+		total[k], errs[k], absSum[k] = 0, 0, 0
+	}
+	for _, p := range ps.panels {
+		for k := 0; k < nc; k++ {
+			l, r := ps.store[p.off+k], ps.store[p.off+nc+k]
+			total[k] += l + r
+			absSum[k] += math.Abs(l) + math.Abs(r)
+			errs[k] += ps.store[p.off+2*nc+k]
+		}
+	}
+}
+
+// worst is the index of the panel whose error weighs most against the
+// tolerance of a component that misses it, -1 when every component meets
+// its tolerance.
+func (ps *panelSet) worst(rel float64, total, errs, absSum []float64) int {
+	nc := ps.nc
+	worst, wp := 0.0, -1
+	for q, p := range ps.panels {
+		for k := 0; k < nc; k++ {
+			// Rounding in the integrand bounds what bisection can do.
+			tol := rel*math.Abs(total[k]) + 1e-14*absSum[k] + 1e-300
+			if errs[k] <= tol {
+				continue
+			}
+			if s := ps.store[p.off+2*nc+k] / tol; s > worst {
+				worst, wp = s, q
+			}
+		}
+	}
+	return wp
+}
+
+// bisect replaces panel q by its two halves.
+func (ps *panelSet) bisect(q int) {
+	nc := ps.nc
+	p := ps.panels[q]
+	m := (p.a + p.b) / 2
+	l := append([]float64(nil), ps.store[p.off:p.off+nc]...)
+	r := append([]float64(nil), ps.store[p.off+nc:p.off+2*nc]...)
+	ps.panels[q] = ps.panels[len(ps.panels)-1]
+	ps.panels = ps.panels[:len(ps.panels)-1]
+	ps.push(p.a, m, l)
+	ps.push(m, p.b, r)
 }

@@ -219,19 +219,7 @@ func ChainColumnLaplace(x, t float64, p Params, inlet Inlet, h History, c Chain,
 
 // chainColumnLaplace is ChainColumnLaplace.
 func chainColumnLaplace(x, t float64, p Params, inlet Inlet, h History, c Chain, c0, out, errs []float64) error {
-	if err := c.Validate(); err != nil {
-		return err
-	}
-	if err := c.checkSources(c0, out); err != nil {
-		return err
-	}
-	if err := finitePositive("V", p.V); err != nil {
-		return err
-	}
-	if err := finitePositive("Dx", p.Dx); err != nil {
-		return err
-	}
-	h, err := chainHistory(h)
+	h, err := checkChainColumn(p, h, c, c0, out)
 	if err != nil {
 		return err
 	}
@@ -248,27 +236,66 @@ func chainColumnLaplace(x, t float64, p Params, inlet Inlet, h History, c Chain,
 		return nil
 	}
 	if x == 0 && inlet == FirstType {
-		if h.finite() && t > h.Duration {
-			return nil
-		}
-		f := 1.0
-		if g > 0 {
-			f = math.Exp(-g * t)
-		}
-		for i := 0; i < n; i++ {
-			out[i] = c0[i] * f
-		}
+		chainAtFirstTypeInlet(t, h, c0, out[:n])
 		return nil
 	}
 	lc := newChainLaplace(c, c0, x, p, inlet)
-	var buf [MaxCompounds]complex128
 	if steady {
+		var buf [MaxCompounds]complex128
 		lc.eval(0, buf[:n])
 		for i := 0; i < n; i++ {
 			out[i] = math.Max(real(buf[i]), 0)
 		}
 		return nil
 	}
+	if !invertChainColumn(lc, t, h, c0, out[:n], errs) {
+		return fmt.Errorf("%w at x = %g, t = %g (Peclet number V x/D = %.3g)", ErrInversion, x, t, p.V*x/p.Dx)
+	}
+	return nil
+}
+
+// checkChainColumn checks the inputs of chainColumnLaplace and returns
+// the source history as the chain uses it.
+func checkChainColumn(p Params, h History, c Chain, c0, out []float64) (History, error) {
+	if err := c.Validate(); err != nil {
+		return h, err
+	}
+	if err := c.checkSources(c0, out); err != nil {
+		return h, err
+	}
+	if err := finitePositive("V", p.V); err != nil {
+		return h, err
+	}
+	if err := finitePositive("Dx", p.Dx); err != nil {
+		return h, err
+	}
+	return chainHistory(h)
+}
+
+// chainAtFirstTypeInlet is the chain at x = 0 with a first-type inlet: the
+// source concentrations themselves while the source runs (depleted by
+// exp(-g t)), 0 after it stopped.
+func chainAtFirstTypeInlet(t float64, h History, c0, out []float64) {
+	if h.finite() && t > h.Duration {
+		return
+	}
+	f := 1.0
+	if g := h.Depletion; g > 0 {
+		f = math.Exp(-g * t)
+	}
+	for i := range out {
+		out[i] = c0[i] * f
+	}
+}
+
+// invertChainColumn inverts the chain's transform at time t for a source
+// of history h: the step response depleted by exp(-g t), less the step
+// started at the source's end for a finite source. It writes the values
+// (clamped at 0) to out and the inversion's error estimates to errs
+// (when not nil) and reports whether every estimate is within 1e-6 of
+// the largest source concentration.
+func invertChainColumn(lc *chainLaplace, t float64, h History, c0, out, errs []float64) bool {
+	n, g := len(out), h.Depletion
 	eval := func(s complex128, o []complex128) {
 		lc.eval(s, o)
 		hb := 1 / (s + complex(g, 0))
@@ -290,20 +317,17 @@ func chainColumnLaplace(x, t float64, p Params, inlet Inlet, h History, c Chain,
 			e1[i] += e2[i] * f
 		}
 	}
-	failed := false
+	ok := true
 	for i := 0; i < n; i++ {
 		out[i] = math.Max(out[i], 0)
 		if errs != nil {
 			errs[i] = e1[i]
 		}
 		if !(e1[i] <= 1e-6*ref) {
-			failed = true
+			ok = false
 		}
 	}
-	if failed {
-		return fmt.Errorf("%w at x = %g, t = %g (Peclet number V x/D = %.3g)", ErrInversion, x, t, p.V*x/p.Dx)
-	}
-	return nil
+	return ok
 }
 
 // ErrInversion is returned where the numerical inversion of the Laplace

@@ -167,7 +167,16 @@ func (g *grid3) steadyTauRange() (lo, hi float64) {
 // (net inflow minus decay) and returns its summed absolute value and the
 // inflow rate (half domain).
 func (g *grid3) steadyResidual(res []float64, cb float64) (sum, in float64) {
-	nx, ny, nz, np := g.nx, g.ny, g.nz, g.np
+	in = g.steadyLongitudinal(res, cb)
+	g.steadyTransverse(res)
+	return g.steadyDecay(res), in
+}
+
+// steadyLongitudinal writes into res each cell's net inflow through its x
+// faces (advection with the van Leer limiter, dispersion) and returns the
+// inflow rate through the inlet face.
+func (g *grid3) steadyLongitudinal(res []float64, cb float64) (in float64) {
+	nx, np := g.nx, g.np
 	c := g.c
 	v := g.v
 	condx := g.dispX.cond
@@ -206,8 +215,15 @@ func (g *grid3) steadyResidual(res []float64, cb float64) (sum, in float64) {
 			fin[p] = fout
 		}
 	}
+	return in
+}
+
+// steadyTransverse adds to res each cell's net dispersive inflow through
+// its y and z faces.
+func (g *grid3) steadyTransverse(res []float64) {
+	nx, ny, nz, np := g.nx, g.ny, g.nz, g.np
+	c := g.c
 	condy, condz := g.dispY.cond, g.dispZ.cond
-	rmu := g.r * g.mu
 	for i := 0; i < nx; i++ {
 		dxi := g.dx[i]
 		for k := 0; k < nz; k++ {
@@ -233,6 +249,14 @@ func (g *grid3) steadyResidual(res []float64, cb float64) (sum, in float64) {
 			}
 		}
 	}
+}
+
+// steadyDecay subtracts each cell's decay rate from res and returns the
+// summed absolute value of the residuals.
+func (g *grid3) steadyDecay(res []float64) (sum float64) {
+	nx, ny, nz, np := g.nx, g.ny, g.nz, g.np
+	c := g.c
+	rmu := g.r * g.mu
 	for i := 0; i < nx; i++ {
 		for k := 0; k < nz; k++ {
 			base := i*np + k*ny
@@ -245,7 +269,7 @@ func (g *grid3) steadyResidual(res []float64, cb float64) (sum, in float64) {
 			}
 		}
 	}
-	return sum, in
+	return sum
 }
 
 // steadyBudget is the steady budget of the current field (whole plume).

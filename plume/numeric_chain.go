@@ -31,34 +31,7 @@ func (m *model) runNumericChain(ctx context.Context, pts []Point, taus []float64
 			return nil, nil, "the dispersivities were estimated at each receptor's own travel distance, and one finite-volume grid holds one dispersivity: give aquifer.dispersivity or aquifer.dispersivity_scale", nil
 		}
 	}
-	species := make([]numeric.Species, len(m.compounds))
-	for i, cp := range m.compounds {
-		species[i] = numeric.Species{R: cp.r, Mu: cp.mu, Daughter: cp.daughter, Yield: cp.yield, Source: cp.srcConc}
-	}
-	hist := numeric.History{Duration: m.duration, Depletion: m.depletion}
-	var r *numeric.ChainResult
-	if m.kind == SourceKind1D {
-		inlet := numeric.InletConcentration
-		if m.inlet == InletFlux {
-			inlet = numeric.InletFlux
-		}
-		xs := make([]float64, len(idx))
-		for k, i := range idx {
-			xs[k] = pts[i].X
-		}
-		r, err = numeric.ScreenChain1D(ctx, numeric.ChainProblem1D{Species: species, Problem1D: numeric.Problem1D{
-			V: m.v, Dx: aq.disp[0], Dm: math.Min(m.de, aq.disp[0]), R: 1, Inlet: inlet, History: hist,
-			Receptors: xs, Times: times, CellBudget: budget}})
-	} else {
-		rs := make([]numeric.Receptor, len(idx))
-		for k, i := range idx {
-			p := pts[i]
-			rs[k] = numeric.Receptor{X: p.X, Y: p.Y, Top: p.Top, Bottom: p.Bottom}
-		}
-		r, err = numeric.ScreenChain3D(ctx, numeric.ChainProblem3D{Species: species, Problem3D: numeric.Problem3D{
-			V: m.v, Dx: aq.disp[0], Dy: aq.disp[1], Dz: aq.disp[2], R: 1,
-			Width: m.width, Depth: m.depth, History: hist, Receptors: rs, Times: times, CellBudget: budget}})
-	}
+	r, err := m.solveChain(ctx, aq, pts, idx, times, budget)
 	switch {
 	case err == nil:
 	case ctx.Err() != nil:
@@ -70,10 +43,52 @@ func (m *model) runNumericChain(ctx context.Context, pts []Point, taus []float64
 	default:
 		return nil, nil, err.Error(), nil
 	}
-	values = make([][][]float64, len(m.compounds))
+	rep := numericReport(numericOutput{solver: m.kind, grid: r.Grid}, budget)
+	rep.MassBalanceError = chainClosure(r.Total)
+	return chainValues(r, len(m.compounds), len(pts), idx, times, taus), rep, "", nil
+}
+
+// solveChain runs the finite-volume chain solver (1D or 3D, as the
+// model's source) for the receptors pts[idx] at the times (retarded, d,
+// ascending, finite), with the dispersion of aq.
+func (m *model) solveChain(ctx context.Context, aq *aquiferParams, pts []Point, idx []int, times []float64, budget int) (*numeric.ChainResult, error) {
+	species := make([]numeric.Species, len(m.compounds))
+	for i, cp := range m.compounds {
+		species[i] = numeric.Species{R: cp.r, Mu: cp.mu, Daughter: cp.daughter, Yield: cp.yield, Source: cp.srcConc}
+	}
+	hist := numeric.History{Duration: m.duration, Depletion: m.depletion}
+	if m.kind == SourceKind1D {
+		inlet := numeric.InletConcentration
+		if m.inlet == InletFlux {
+			inlet = numeric.InletFlux
+		}
+		xs := make([]float64, len(idx))
+		for k, i := range idx {
+			xs[k] = pts[i].X
+		}
+		return numeric.ScreenChain1D(ctx, numeric.ChainProblem1D{Species: species, Problem1D: numeric.Problem1D{
+			V: m.v, Dx: aq.disp[0], Dm: math.Min(m.de, aq.disp[0]), R: 1, Inlet: inlet, History: hist,
+			Receptors: xs, Times: times, CellBudget: budget}})
+	}
+	rs := make([]numeric.Receptor, len(idx))
+	for k, i := range idx {
+		p := pts[i]
+		rs[k] = numeric.Receptor{X: p.X, Y: p.Y, Top: p.Top, Bottom: p.Bottom}
+	}
+	return numeric.ScreenChain3D(ctx, numeric.ChainProblem3D{Species: species, Problem3D: numeric.Problem3D{
+		V: m.v, Dx: aq.disp[0], Dy: aq.disp[1], Dz: aq.disp[2], R: 1,
+		Width: m.width, Depth: m.depth, History: hist, Receptors: rs, Times: times, CellBudget: budget}})
+}
+
+// chainValues lays the solver's values out as values[c][r][j]: compound c
+// (of nc) at receptor r (of nr; the solved ones are idx) and requested
+// time taus[j] (solved at times), 0 before the source starts and NaN at
+// receptors not solved.
+func chainValues(r *numeric.ChainResult, nc, nr int, idx []int, times, taus []float64) [][][]float64 {
+	values := make([][][]float64, nc)
 	for c := range values {
-		values[c] = make([][]float64, len(pts))
-		for i := range pts {
+		values[c] = make([][]float64, nr)
+		for i := range nr {
 			values[c][i] = make([]float64, len(taus))
 			for j := range taus {
 				values[c][i][j] = math.NaN()
@@ -89,9 +104,7 @@ func (m *model) runNumericChain(ctx context.Context, pts []Point, taus []float64
 			}
 		}
 	}
-	rep := numericReport(numericOutput{solver: m.kind, grid: r.Grid}, budget)
-	rep.MassBalanceError = chainClosure(r.Total)
-	return values, rep, "", nil
+	return values
 }
 
 // chainClosure is the closure error of a chain's budget relative to the
