@@ -100,9 +100,8 @@ func demoBody(t testing.TB) []byte {
 	return b
 }
 
-// demoFileMap is the invented demo file testdata/demo/name as a generic
-// JSON tree, with the closed forms only (methods exact and domenico).
-func demoFileMap(t testing.TB, name string) map[string]any {
+// readDemo reads a demo scenario of testdata/demo as a JSON tree.
+func readDemo(t testing.TB, name string) map[string]any {
 	t.Helper()
 	b, err := os.ReadFile("../testdata/demo/" + name)
 	if err != nil {
@@ -112,6 +111,14 @@ func demoFileMap(t testing.TB, name string) map[string]any {
 	if err := json.Unmarshal(b, &m); err != nil {
 		t.Fatal(err)
 	}
+	return m
+}
+
+// demoFileMap is the invented demo file testdata/demo/name as a generic
+// JSON tree, with the closed forms only (methods exact and domenico).
+func demoFileMap(t testing.TB, name string) map[string]any {
+	t.Helper()
+	m := readDemo(t, name)
 	m["methods"] = []any{"exact", "domenico"}
 	return m
 }

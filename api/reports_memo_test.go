@@ -365,18 +365,7 @@ func TestReportSourceKinds(t *testing.T) {
 // of several sources gets a group per source.
 func TestReportCompoundsAndSources(t *testing.T) {
 	ts := newTestServer(t, Config{})
-	read := func(name string) map[string]any {
-		b, err := os.ReadFile("../testdata/demo/" + name)
-		if err != nil {
-			t.Fatal(err)
-		}
-		var m map[string]any
-		if err := json.Unmarshal(b, &m); err != nil {
-			t.Fatal(err)
-		}
-		return m
-	}
-	dc := read("dry-cleaner.json")
+	dc := readDemo(t, "dry-cleaner.json")
 	dc["methods"] = []any{"exact"} // the closed forms only: quick
 	page := report(t, ts, "", mustJSON(t, dc))
 	rows := tableRows(t, page, "data results")
@@ -395,7 +384,7 @@ func TestReportCompoundsAndSources(t *testing.T) {
 	if n := strings.Count(page, `<figure class="plot bt">`); n != receptors {
 		t.Errorf("%d breakthrough plots, want one per receptor (%d)", n, receptors)
 	}
-	sb := read("sources-and-brook.json")
+	sb := readDemo(t, "sources-and-brook.json")
 	page = report(t, ts, "", mustJSON(t, sb))
 	for _, src := range sb["sources"].([]any) {
 		if id := src.(map[string]any)["id"].(string); !strings.Contains(page, "Source "+id) {

@@ -7,7 +7,6 @@ import (
 	"encoding/json"
 	"fmt"
 	"net/http"
-	"os"
 	"reflect"
 	"slices"
 	"strings"
@@ -135,20 +134,6 @@ func TestStreamEqualsJSON(t *testing.T) {
 			compareStreamGeoJSON(t, ts, body)
 		})
 	}
-}
-
-// readDemo reads a demo scenario of testdata/demo as a JSON tree.
-func readDemo(t testing.TB, name string) map[string]any {
-	t.Helper()
-	b, err := os.ReadFile("../testdata/demo/" + name)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var m map[string]any
-	if err := json.Unmarshal(b, &m); err != nil {
-		t.Fatal(err)
-	}
-	return m
 }
 
 // compareNDJSON checks a streamed NDJSON answer against the JSON result.
