@@ -26,6 +26,7 @@ import (
 	"time"
 
 	"downgradient/api"
+	"downgradient/internal/runtimetune"
 )
 
 // version is the engine version reported in /healthz and engine.version; set
@@ -145,6 +146,9 @@ func run(args []string) error {
 	writeTimeout := fs.Duration("write-timeout", api.DefaultWriteTimeout, "longest time a client may go without reading an answer (beyond: the connection is dropped)")
 	maxOutput := fs.Int("max-output", api.DefaultMaxOutputBytes, "largest answer of a computing route, bytes (beyond: 413)")
 	logJSON := fs.Bool("log-json", true, "write logs as JSON (false: text)")
+	spareProcs := fs.Int("spare-procs", runtimetune.DefaultSpareProcs, "Go processors beyond -max-heavy (GOMAXPROCS = max(cores, max-heavy + this)): one stays free to read new requests while every slot computes, so they queue in arrival order; 0: GOMAXPROCS as the runtime sets it; ignored when GOMAXPROCS is set")
+	gcPercent := fs.Int("gc-percent", runtimetune.DefaultGCPercent, "garbage collector target, percent of the live heap (as GOGC); 0: the runtime's; ignored when GOGC is set")
+	memLimit := fs.Int("memory-limit-mib", runtimetune.DefaultMemoryLimitMiB, "soft memory limit of the Go runtime, MiB (as GOMEMLIMIT; keep it under the container's limit): the collector works harder near it; 0: none; ignored when GOMEMLIMIT is set")
 	healthcheck := fs.Bool("healthcheck", false, "check GET /healthz of a server on -addr and exit 0 if healthy (for container health checks)")
 	if err := fs.Parse(args); err != nil {
 		return err
@@ -159,6 +163,12 @@ func run(args []string) error {
 	}
 	log := slog.New(handler)
 	slog.SetDefault(log)
+	if *maxHeavy <= 0 { // the default, counted before the spare processors are added
+		*maxHeavy = api.DefaultMaxHeavy()
+	}
+	tuned := runtimetune.Apply(runtimetune.Settings{Slots: *maxHeavy, SpareProcs: *spareProcs, GCPercent: *gcPercent, MemoryLimitMiB: *memLimit})
+	log.Info("runtime", "gomaxprocs", tuned.Procs, "computation_slots", *maxHeavy, "gc_percent", tuned.GCPercent,
+		"memory_limit_mib", tuned.MemoryLimitMiB, "left_to_environment", tuned.FromEnv)
 
 	e, err := api.New(api.Config{
 		Version:            engineVersion(),

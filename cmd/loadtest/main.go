@@ -41,6 +41,7 @@ import (
 	"time"
 
 	"downgradient/api"
+	"downgradient/internal/runtimetune"
 )
 
 // kind is one kind of request of the mix.
@@ -202,7 +203,15 @@ type report struct {
 }
 
 func drive(cfg config, scenario []byte) (*report, error) {
-	h, err := api.New(api.Config{Version: "loadtest", MaxHeavy: cfg.maxHeavy, MaxWaiting: cfg.maxWaiting, RequestTimeout: cfg.timeout})
+	// The runtime as the downgradient command sets it by default (the
+	// client shares the spare processor and the collector's settings).
+	slots := cfg.maxHeavy
+	if slots <= 0 {
+		slots = api.DefaultMaxHeavy()
+	}
+	runtimetune.Apply(runtimetune.Settings{Slots: slots, SpareProcs: runtimetune.DefaultSpareProcs,
+		GCPercent: runtimetune.DefaultGCPercent, MemoryLimitMiB: runtimetune.DefaultMemoryLimitMiB})
+	h, err := api.New(api.Config{Version: "loadtest", MaxHeavy: slots, MaxWaiting: cfg.maxWaiting, RequestTimeout: cfg.timeout})
 	if err != nil {
 		return nil, err
 	}
