@@ -202,16 +202,20 @@ type report struct {
 	cpuAfter   []float64 // CPU used in each second after the last answer, s
 }
 
-func drive(cfg config, scenario []byte) (*report, error) {
-	// The runtime as the downgradient command sets it by default (the
-	// client shares the spare processor and the collector's settings).
-	slots := cfg.maxHeavy
-	if slots <= 0 {
-		slots = api.DefaultMaxHeavy()
+// tuneRuntime sets the runtime as the downgradient command does by default
+// (the client shares the spare processor and the collector's settings) and
+// returns the number of computation slots (maxHeavy, or the default when 0).
+func tuneRuntime(maxHeavy int) int {
+	if maxHeavy <= 0 {
+		maxHeavy = api.DefaultMaxHeavy()
 	}
-	runtimetune.Apply(runtimetune.Settings{Slots: slots, SpareProcs: runtimetune.DefaultSpareProcs,
+	runtimetune.Apply(runtimetune.Settings{Slots: maxHeavy, SpareProcs: runtimetune.DefaultSpareProcs,
 		GCPercent: runtimetune.DefaultGCPercent, MemoryLimitMiB: runtimetune.DefaultMemoryLimitMiB})
-	h, err := api.New(api.Config{Version: "loadtest", MaxHeavy: slots, MaxWaiting: cfg.maxWaiting, RequestTimeout: cfg.timeout})
+	return maxHeavy
+}
+
+func drive(cfg config, scenario []byte) (*report, error) {
+	h, err := api.New(api.Config{Version: "loadtest", MaxHeavy: tuneRuntime(cfg.maxHeavy), MaxWaiting: cfg.maxWaiting, RequestTimeout: cfg.timeout})
 	if err != nil {
 		return nil, err
 	}
