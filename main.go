@@ -163,9 +163,7 @@ func run(args []string) error {
 	}
 	log := slog.New(handler)
 	slog.SetDefault(log)
-	if *maxHeavy <= 0 { // the default, counted before the spare processors are added
-		*maxHeavy = api.DefaultMaxHeavy()
-	}
+	*maxHeavy = api.Slots(*maxHeavy)
 	tuned := runtimetune.Apply(runtimetune.Settings{Slots: *maxHeavy, SpareProcs: *spareProcs, GCPercent: *gcPercent, MemoryLimitMiB: *memLimit})
 	log.Info("runtime", "gomaxprocs", tuned.Procs, "computation_slots", *maxHeavy, "gc_percent", tuned.GCPercent,
 		"memory_limit_mib", tuned.MemoryLimitMiB, "left_to_environment", tuned.FromEnv)

@@ -96,9 +96,7 @@ func (c Config) withDefaults() Config {
 	if c.Version == "" {
 		c.Version = "dev"
 	}
-	if c.MaxHeavy <= 0 {
-		c.MaxHeavy = DefaultMaxHeavy()
-	}
+	c.MaxHeavy = Slots(c.MaxHeavy)
 	if c.MaxWaiting == 0 {
 		c.MaxWaiting = DefaultMaxWaiting
 	}

@@ -20,8 +20,22 @@ const (
 
 // DefaultMaxHeavy is the default number of computing requests run at once:
 // the number of usable cores, at least 2 (the work is CPU-bound, so more
-// slots add memory but no throughput).
-func DefaultMaxHeavy() int { return max(2, runtime.GOMAXPROCS(0)) }
+// slots add memory but no throughput). It is GOMAXPROCS as the process
+// started with, read when the package loads, so that it does not count the
+// spare processor that internal/runtimetune adds later.
+func DefaultMaxHeavy() int { return defaultMaxHeavy }
+
+var defaultMaxHeavy = max(2, runtime.GOMAXPROCS(0))
+
+// Slots is the number of computation slots for a configured maxHeavy:
+// maxHeavy itself, or DefaultMaxHeavy() when it is 0 or less (the meaning
+// of Config.MaxHeavy, the -max-heavy flag and cmd/loadtest's).
+func Slots(maxHeavy int) int {
+	if maxHeavy <= 0 {
+		return DefaultMaxHeavy()
+	}
+	return maxHeavy
+}
 
 // kindBusy is the problem of a request refused because every computation
 // slot is taken and the waiting line is full (or the wait too long).

@@ -206,12 +206,10 @@ type report struct {
 // (the client shares the spare processor and the collector's settings) and
 // returns the number of computation slots (maxHeavy, or the default when 0).
 func tuneRuntime(maxHeavy int) int {
-	if maxHeavy <= 0 {
-		maxHeavy = api.DefaultMaxHeavy()
-	}
-	runtimetune.Apply(runtimetune.Settings{Slots: maxHeavy, SpareProcs: runtimetune.DefaultSpareProcs,
+	slots := api.Slots(maxHeavy)
+	runtimetune.Apply(runtimetune.Settings{Slots: slots, SpareProcs: runtimetune.DefaultSpareProcs,
 		GCPercent: runtimetune.DefaultGCPercent, MemoryLimitMiB: runtimetune.DefaultMemoryLimitMiB})
-	return maxHeavy
+	return slots
 }
 
 func drive(cfg config, scenario []byte) (*report, error) {
